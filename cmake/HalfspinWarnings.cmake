@@ -1,0 +1,11 @@
+# The warning set every target of the project builds with (the check preset makes them errors).
+set(HALFSPIN_WARNING_FLAGS
+  -Wall -Wextra -Wpedantic -Wconversion -Wsign-conversion -Wshadow -Wdouble-promotion
+  -Wold-style-cast)
+
+function(halfspin_target_warnings target)
+  target_compile_options(${target} PRIVATE ${HALFSPIN_WARNING_FLAGS})
+  if(HALFSPIN_WARNINGS_AS_ERRORS)
+    target_compile_options(${target} PRIVATE -Werror)
+  endif()
+endfunction()

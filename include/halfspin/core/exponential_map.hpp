@@ -1,0 +1,56 @@
+#pragma once
+// The exponential and logarithm maps between rotation vectors φ (axis × angle, rad) and unit
+// quaternions: q = exp(φ/2) = (cos(|φ|/2), sin(|φ|/2)·φ/|φ|).
+
+#include <cmath>
+
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/scalar_traits.hpp"
+#include "halfspin/core/vector3.hpp"
+
+namespace halfspin {
+
+// Rotation vector φ (rad) → unit quaternion exp(φ/2). Below the per-type threshold of
+// ScalarTraits the series of cos(θ/2) and sin(θ/2)/θ are used, which need only θ² (no square root,
+// no trigonometry) and stay exact for denormal-sized φ. Valid for |φ|² below the type's maximum.
+template <class T>
+Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
+  const T t = squared_norm(phi);
+  T c;
+  T s_over_angle;  // sin(θ/2)/θ
+  if (t < ScalarTraits<T>::exp_series_angle_squared) {
+    // cos(θ/2) = 1 − θ²/8 + θ⁴/384 − …,  sin(θ/2)/θ = 1/2 − θ²/48 + θ⁴/3840 − …
+    c = T(1) + t * (T(-1.0L / 8) + t * T(1.0L / 384));
+    s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * T(1.0L / 3840));
+  } else {
+    const T angle = std::sqrt(t);
+    const T half = T(0.5) * angle;
+    c = std::cos(half);
+    s_over_angle = std::sin(half) / angle;
+  }
+  return {c, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
+}
+
+// Quaternion → rotation vector φ (rad) of the shortest rotation, |φ| ≤ π (q and −q give the same
+// φ). Scale-invariant, so a slightly non-unit q gives the φ of q/|q|; q must be nonzero. Uses
+// θ = 2·atan2(|v|, |w|), accurate near 0 and near π; below the threshold, the series of
+// 2·atan(r)/r with r = |v|/|w|.
+template <class T>
+Vector3<T> quaternion_log(const Quaternion<T>& q) noexcept {
+  const Quaternion<T> p = q.w < T(0) ? -q : q;
+  const Vector3<T> v = p.vector();
+  const T s2 = squared_norm(v);
+  const T w2 = p.w * p.w;
+  T factor;  // θ/|v|
+  if (s2 < ScalarTraits<T>::log_series_ratio_squared * w2) {
+    const T r2 = s2 / w2;
+    // 2·atan(r)/(r·w) = (2/w)·(1 − r²/3 + r⁴/5 − …)
+    factor = (T(2) / p.w) * (T(1) + r2 * (T(-1.0L / 3) + r2 * T(1.0L / 5)));
+  } else {
+    const T s = std::sqrt(s2);
+    factor = T(2) * std::atan2(s, p.w) / s;
+  }
+  return factor * v;
+}
+
+}  // namespace halfspin

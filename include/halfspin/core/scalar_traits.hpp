@@ -1,0 +1,44 @@
+#pragma once
+// Per-scalar-type constants: machine epsilon and the small-angle thresholds below which the
+// exponential and logarithm maps switch to truncated Taylor series.
+
+#include <limits>
+#include <type_traits>
+
+namespace halfspin {
+
+// Why the thresholds have these values: exp keeps the series of cos(θ/2) and sin(θ/2)/θ through
+// θ⁴. The first dropped term of cos(θ/2) is θ⁶/46080 (the larger of the two), so the series is
+// accurate to well under half an ulp while θ⁶/46080 < ε/4. That gives θ² < 0.1 for float
+// (θ < 0.316, truncation 0.18 ε) and θ² < 1e-4 for double (θ < 0.01, truncation 0.1 ε).
+// log keeps 2·atan(r)/r through r⁴ (first dropped term r⁶/7, r = |v|/w): r² < 5e-3 for float
+// (r⁶/7 = 1.8e-8 = 0.15 ε) and r² < 5e-6 for double (r⁶/7 = 1.8e-17 = 0.08 ε).
+// Below the thresholds no square root or trigonometric call is made, which is the common case of
+// a gyro step (|ω|·dt is small) and also keeps denormal-sized rotation vectors exact.
+template <class T>
+struct ScalarTraits {
+  static_assert(std::is_floating_point<T>::value, "halfspin works on IEEE floating-point types");
+  static constexpr T epsilon = std::numeric_limits<T>::epsilon();
+  static constexpr T exp_series_angle_squared = T(1e-5);
+  static constexpr T log_series_ratio_squared = T(5e-8);
+};
+
+template <>
+struct ScalarTraits<float> {
+  static constexpr float epsilon = std::numeric_limits<float>::epsilon();
+  static constexpr float exp_series_angle_squared = 0.1f;
+  static constexpr float log_series_ratio_squared = 5e-3f;
+};
+
+template <>
+struct ScalarTraits<double> {
+  static constexpr double epsilon = std::numeric_limits<double>::epsilon();
+  static constexpr double exp_series_angle_squared = 1e-4;
+  static constexpr double log_series_ratio_squared = 5e-6;
+};
+
+// π in the scalar type, correctly rounded.
+template <class T>
+constexpr T pi = T(3.141592653589793238462643383279502884L);
+
+}  // namespace halfspin

@@ -1,0 +1,101 @@
+#pragma once
+// Vector3<T>: a fixed-size 3-vector (a body-frame rate in rad/s, a rotation vector in rad, ...).
+
+#include <cmath>
+#include <limits>
+
+namespace halfspin {
+
+template <class T>
+struct Vector3 {
+  T x{};
+  T y{};
+  T z{};
+
+  // The zero vector.
+  static constexpr Vector3 zero() noexcept { return {T(0), T(0), T(0)}; }
+  // Component by index 0, 1, 2 (x, y, z); the index must be in range.
+  constexpr T operator[](int i) const noexcept { return i == 0 ? x : (i == 1 ? y : z); }
+};
+
+template <class T>
+constexpr Vector3<T> operator+(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return {a.x + b.x, a.y + b.y, a.z + b.z};
+}
+template <class T>
+constexpr Vector3<T> operator-(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return {a.x - b.x, a.y - b.y, a.z - b.z};
+}
+template <class T>
+constexpr Vector3<T> operator-(const Vector3<T>& a) noexcept {
+  return {-a.x, -a.y, -a.z};
+}
+template <class T>
+constexpr Vector3<T> operator*(const Vector3<T>& a, T s) noexcept {
+  return {a.x * s, a.y * s, a.z * s};
+}
+template <class T>
+constexpr Vector3<T> operator*(T s, const Vector3<T>& a) noexcept {
+  return {s * a.x, s * a.y, s * a.z};
+}
+template <class T>
+constexpr Vector3<T> operator/(const Vector3<T>& a, T s) noexcept {
+  return {a.x / s, a.y / s, a.z / s};
+}
+template <class T>
+constexpr Vector3<T>& operator+=(Vector3<T>& a, const Vector3<T>& b) noexcept {
+  a.x += b.x;
+  a.y += b.y;
+  a.z += b.z;
+  return a;
+}
+template <class T>
+constexpr bool operator==(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return a.x == b.x && a.y == b.y && a.z == b.z;
+}
+template <class T>
+constexpr bool operator!=(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return !(a == b);
+}
+
+// Dot product a·b.
+template <class T>
+constexpr T dot(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return a.x * b.x + a.y * b.y + a.z * b.z;
+}
+
+// Cross product a×b (right-handed).
+template <class T>
+constexpr Vector3<T> cross(const Vector3<T>& a, const Vector3<T>& b) noexcept {
+  return {a.y * b.z - a.z * b.y, a.z * b.x - a.x * b.z, a.x * b.y - a.y * b.x};
+}
+
+// Squared Euclidean norm |a|².
+template <class T>
+constexpr T squared_norm(const Vector3<T>& a) noexcept {
+  return dot(a, a);
+}
+
+// Euclidean norm |a|; scaled so that components near the overflow or underflow limits still give
+// the right length (the common case, |a|² representable, takes one square root and no division).
+template <class T>
+T norm(const Vector3<T>& a) noexcept {
+  const T n2 = squared_norm(a);
+  if (n2 >= std::numeric_limits<T>::min() && n2 <= std::numeric_limits<T>::max()) {
+    return std::sqrt(n2);
+  }
+  const T m = std::fmax(std::fabs(a.x), std::fmax(std::fabs(a.y), std::fabs(a.z)));
+  if (m == T(0) || !std::isfinite(m)) {
+    return m;
+  }
+  const Vector3<T> s = a / m;
+  return m * std::sqrt(squared_norm(s));
+}
+
+// True when every component is finite (no NaN, no infinity).
+template <class T>
+bool is_finite(const Vector3<T>& a) noexcept {
+  return std::isfinite(a.x) && std::isfinite(a.y) && std::isfinite(a.z);
+}
+
+}  // namespace halfspin

@@ -1,0 +1,3 @@
+// The single translation unit that holds Catch2's main().
+#define CATCH_CONFIG_MAIN
+#include <catch2/catch.hpp>
