@@ -92,6 +92,12 @@ T norm(const Vector3<T>& a) noexcept {
   return m * std::sqrt(squared_norm(s));
 }
 
+// a/|a|, a unit vector along a; the caller guarantees a ≠ 0 and finite.
+template <class T>
+Vector3<T> normalized(const Vector3<T>& a) noexcept {
+  return a / norm(a);
+}
+
 // True when every component is finite (no NaN, no infinity).
 template <class T>
 bool is_finite(const Vector3<T>& a) noexcept {

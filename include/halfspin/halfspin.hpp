@@ -1,0 +1,29 @@
+#pragma once
+// halfspin: header-only, allocation-free attitude kinematics and propagation from gyro data.
+// Conventions: quaternions scalar-first (w, x, y, z), Hamilton product; an attitude q maps body
+// vectors into the reference frame, v_ref = q ⊗ v_body ⊗ q*; gyro rates in rad/s, body frame.
+// This umbrella header includes every public header (a build check keeps it complete).
+
+// core
+#include "halfspin/core/angle_between.hpp"
+#include "halfspin/core/exponential_map.hpp"
+#include "halfspin/core/framed_rotation.hpp"
+#include "halfspin/core/matrix3.hpp"
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/scalar_traits.hpp"
+#include "halfspin/core/sign_continuity.hpp"
+#include "halfspin/core/vector3.hpp"
+
+// representations
+#include "halfspin/representations/axis_angle.hpp"
+#include "halfspin/representations/cayley_klein.hpp"
+#include "halfspin/representations/euler_angles.hpp"
+#include "halfspin/representations/euler_parameters.hpp"
+#include "halfspin/representations/gibbs_vector.hpp"
+#include "halfspin/representations/left_handed_product.hpp"
+#include "halfspin/representations/modified_rodrigues.hpp"
+#include "halfspin/representations/reference_to_body.hpp"
+#include "halfspin/representations/rotation_matrix.hpp"
+#include "halfspin/representations/rotation_vector.hpp"
+#include "halfspin/representations/scalar_last.hpp"
+#include "halfspin/representations/su2_matrix.hpp"
