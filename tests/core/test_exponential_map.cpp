@@ -17,7 +17,7 @@ namespace {
 // exp(φ/2) evaluated in long double from the T-valued input: the reference for ulp errors.
 template <class T>
 Quaternion<long double> reference_exp(const Vector3<T>& phi) {
-  const long double x = phi.x, y = phi.y, z = phi.z;
+  const long double x = test::ld(phi.x), y = test::ld(phi.y), z = test::ld(phi.z);
   const long double t = x * x + y * y + z * z;
   long double c, s;
   if (t < 1e-12L) {  // long double series: truncation below 1e-36 relative
@@ -34,7 +34,7 @@ Quaternion<long double> reference_exp(const Vector3<T>& phi) {
 // log in long double of the T-valued quaternion (shortest rotation).
 template <class T>
 Vector3<long double> reference_log(const Quaternion<T>& q) {
-  long double w = q.w, x = q.x, y = q.y, z = q.z;
+  long double w = test::ld(q.w), x = test::ld(q.x), y = test::ld(q.y), z = test::ld(q.z);
   if (w < 0) {
     w = -w;
     x = -x;
@@ -126,9 +126,7 @@ TEMPLATE_TEST_CASE("log inverts exp for every angle below π, and near π", "[co
     const T angle = pi<T> + rng.uniform<T>(T(-1e-6), T(1e-6));
     const Vector3<T> phi = angle * axis;
     const Vector3<T> back = quaternion_log(quaternion_exp(phi));
-    const long double exact = std::sqrt(static_cast<long double>(phi.x) * phi.x +
-                                        static_cast<long double>(phi.y) * phi.y +
-                                        static_cast<long double>(phi.z) * phi.z);
+    const long double exact = test::length_ld(phi);
     const long double shortest = std::fmin(exact, 2 * 3.141592653589793238462643383279502884L - exact);
     worst_angle = std::fmax(worst_angle, std::fabs(static_cast<long double>(norm(back)) - shortest) /
                                              test::eps<T>());

@@ -55,9 +55,7 @@ TEMPLATE_TEST_CASE("normalized gives unit norm to within an ulp-level tolerance"
   for (int n = 0; n < test::property_samples; ++n) {
     const T scale = rng.log_uniform<T>(T(1e-6), T(1e6));
     const Quaternion<T> q = normalized(scale * rng.quaternion<T>());
-    const long double n2 = static_cast<long double>(q.w) * q.w + static_cast<long double>(q.x) * q.x +
-                           static_cast<long double>(q.y) * q.y + static_cast<long double>(q.z) * q.z;
-    worst = std::fmax(worst, std::fabs(std::sqrt(n2) - 1.0L) / test::eps<T>());
+    worst = std::fmax(worst, std::fabs(test::norm_ld(q) - 1.0L) / test::eps<T>());
   }
   REQUIRE(worst <= 2);
 }
@@ -74,9 +72,7 @@ TEMPLATE_TEST_CASE("rotate equals q ⊗ (0, v) ⊗ q* and preserves length", "[c
     const Quaternion<T> p = q * Quaternion<T>::from_parts(T(0), v) * conjugate(q);
     const Vector3<T> r = rotate(q, v);
     worst = std::fmax(worst, test::vector_error_eps(r, p.vector()));
-    const long double len = std::sqrt(static_cast<long double>(r.x) * r.x +
-                                      static_cast<long double>(r.y) * r.y +
-                                      static_cast<long double>(r.z) * r.z);
+    const long double len = test::length_ld(r);
     worst_len = std::fmax(worst_len, std::fabs(len - 1.0L) / test::eps<T>());
   }
   REQUIRE(worst <= 8);

@@ -57,7 +57,7 @@ class RandomRotations {
   // Uniform in [lo, hi).
   template <class T>
   T uniform(T lo, T hi) {
-    std::uniform_real_distribution<long double> u(lo, hi);
+    std::uniform_real_distribution<long double> u(static_cast<long double>(lo), static_cast<long double>(hi));
     return static_cast<T>(u(engine_));
   }
 
@@ -73,6 +73,24 @@ class RandomRotations {
   std::mt19937_64 engine_;
   std::normal_distribution<long double> gauss_{0.0L, 1.0L};
 };
+
+// Widening to long double, explicit so that -Wdouble-promotion stays quiet in tests.
+template <class T>
+constexpr long double ld(T x) {
+  return static_cast<long double>(x);
+}
+
+// Euclidean length of a T-valued vector, evaluated in long double.
+template <class T>
+long double length_ld(const Vector3<T>& v) {
+  return std::sqrt(ld(v.x) * ld(v.x) + ld(v.y) * ld(v.y) + ld(v.z) * ld(v.z));
+}
+
+// Norm of a T-valued quaternion, evaluated in long double.
+template <class T>
+long double norm_ld(const Quaternion<T>& q) {
+  return std::sqrt(ld(q.w) * ld(q.w) + ld(q.x) * ld(q.x) + ld(q.y) * ld(q.y) + ld(q.z) * ld(q.z));
+}
 
 // Machine epsilon of T as long double, for stating tolerances "in units of ε".
 template <class T>
