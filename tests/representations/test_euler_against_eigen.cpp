@@ -27,9 +27,7 @@ constexpr std::array<EulerSequence, 12> sequences{
     EulerSequence::yxy, EulerSequence::yzy, EulerSequence::zxz, EulerSequence::zyz};
 
 void report(const char* what, int sequence, long double worst) {
-  if (std::getenv("HALFSPIN_REPORT_WORST") != nullptr) {
-    std::printf("%-44s seq %2d: %.3Lg\n", what, sequence, worst);
-  }
+  test::report_worst(std::string(what) + " seq " + std::to_string(sequence), worst);
 }
 
 template <class T>

@@ -25,9 +25,7 @@ constexpr std::array<EulerSequence, 12> all_sequences{
 // With HALFSPIN_REPORT_WORST set in the environment, prints the worst values measured (how the
 // tolerances below were chosen).
 void report(const char* what, int sequence, long double worst) {
-  if (std::getenv("HALFSPIN_REPORT_WORST") != nullptr) {
-    std::printf("%-40s seq %2d: %.3Lg\n", what, sequence, worst);
-  }
+  test::report_worst(std::string(what) + " seq " + std::to_string(sequence), worst);
 }
 
 constexpr long double pi_ld = 3.141592653589793238462643383279502884L;

@@ -82,11 +82,7 @@ Quaternion<T> rounded(const Quaternion<long double>& q) {
   return {static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y), static_cast<T>(q.z)};
 }
 
-void report(const char* what, long double worst) {
-  if (std::getenv("HALFSPIN_REPORT_WORST") != nullptr) {
-    std::printf("%-50s %.3Lg\n", what, worst);
-  }
-}
+void report(const char* what, long double worst) { test::report_worst(what, worst); }
 
 // Concrete triples (degrees), none near gimbal lock, covering all quadrants of first/third.
 constexpr std::array<std::array<long double, 3>, 6> triples_321{{{30, 20, 10},

@@ -4,6 +4,9 @@
 
 #include <cmath>
 #include <cstdint>
+#include <cstdio>
+#include <cstdlib>
+#include <string>
 #include <limits>
 #include <random>
 
@@ -73,6 +76,20 @@ class RandomRotations {
   std::mt19937_64 engine_;
   std::normal_distribution<long double> gauss_{0.0L, 1.0L};
 };
+
+// With HALFSPIN_REPORT_WORST set in the environment, prints a measured worst error: how the
+// tolerances asserted beside it were chosen (the measured worst case with a 2–4× margin).
+inline void report_worst(const std::string& what, long double worst) {
+  if (std::getenv("HALFSPIN_REPORT_WORST") != nullptr) {
+    std::printf("worst %-64s %.3Lg\n", what.c_str(), worst);
+  }
+}
+
+// "float" or "double", for messages.
+template <class T>
+const char* type_name() {
+  return sizeof(T) == sizeof(float) ? "float" : "double";
+}
 
 // Widening to long double, explicit so that -Wdouble-promotion stays quiet in tests.
 template <class T>
