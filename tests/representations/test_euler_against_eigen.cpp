@@ -21,11 +21,6 @@ using namespace halfspin;
 
 namespace {
 
-constexpr std::array<EulerSequence, 12> sequences{
-    EulerSequence::xyz, EulerSequence::xzy, EulerSequence::yxz, EulerSequence::yzx,
-    EulerSequence::zxy, EulerSequence::zyx, EulerSequence::xyx, EulerSequence::xzx,
-    EulerSequence::yxy, EulerSequence::yzy, EulerSequence::zxz, EulerSequence::zyz};
-
 void report(const char* what, int sequence, long double worst) {
   test::report_worst(std::string(what) + " seq " + std::to_string(sequence), worst);
 }
@@ -74,7 +69,7 @@ TEMPLATE_TEST_CASE("quaternion_from_euler_angles matches Eigen's AngleAxis produ
                    "[euler][reference]", float, double) {
   using T = TestType;
   test::RandomRotations rng(201);
-  for (const EulerSequence s : sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     long double worst = 0;
     for (int n = 0; n < test::property_samples; ++n) {
@@ -97,7 +92,7 @@ TEMPLATE_TEST_CASE("to_euler_angles: Eigen rebuilds the original rotation matrix
                    "[euler][reference]", float, double) {
   using T = TestType;
   test::RandomRotations rng(202);
-  for (const EulerSequence s : sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     long double worst = 0;
     for (int n = 0; n < test::property_samples; ++n) {
@@ -118,7 +113,7 @@ TEMPLATE_TEST_CASE("Eigen's eulerAngles fed to quaternion_from_euler_angles give
                    "[euler][reference]", float, double) {
   using T = TestType;
   test::RandomRotations rng(203);
-  for (const EulerSequence s : sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const EulerAxes ax = euler_axes(s);
     long double worst = 0, worst_ours = 0;

@@ -17,11 +17,6 @@ using namespace halfspin;
 
 namespace {
 
-constexpr std::array<EulerSequence, 12> all_sequences{
-    EulerSequence::xyz, EulerSequence::xzy, EulerSequence::yxz, EulerSequence::yzx,
-    EulerSequence::zxy, EulerSequence::zyx, EulerSequence::xyx, EulerSequence::xzx,
-    EulerSequence::yxy, EulerSequence::yzy, EulerSequence::zxz, EulerSequence::zyz};
-
 // With HALFSPIN_REPORT_WORST set in the environment, prints the worst values measured (how the
 // tolerances below were chosen).
 void report(const char* what, int sequence, long double worst) {
@@ -104,7 +99,7 @@ TEST_CASE("sequence helpers: axes, proper/Tait–Bryan, cyclic order", "[euler][
   STATIC_REQUIRE(euler_axes(EulerSequence::zxz).second == 0);
   STATIC_REQUIRE(euler_axes(EulerSequence::zxz).third == 2);
   int proper = 0, cyclic = 0;
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     const EulerAxes a = euler_axes(s);
     REQUIRE(a.first != a.second);
     REQUIRE(a.second != a.third);
@@ -135,7 +130,7 @@ TEMPLATE_TEST_CASE("random rotations: quaternion → angles → quaternion, angl
                    float, double) {
   using T = TestType;
   test::RandomRotations rng(101);
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     long double worst = 0;
     bool all_in_range = true;
@@ -168,7 +163,7 @@ TEMPLATE_TEST_CASE("random angles → quaternion → the same angles", "[euler]"
   using T = TestType;
   test::RandomRotations rng(102);
   const long double band = ld(EulerSingularBand<T>::half_width);
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const bool proper = is_proper_euler(s);
     long double worst_forward = 0, worst_scaled = 0, worst_middle = 0, worst_determined = 0;
@@ -226,7 +221,7 @@ TEMPLATE_TEST_CASE("near the singularities: flag set, round trip and middle angl
   using T = TestType;
   test::RandomRotations rng(103);
   const long double band = ld(EulerSingularBand<T>::half_width);
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const bool proper = is_proper_euler(s);
     long double worst_q = 0, worst_middle = 0, worst_determined = 0;
@@ -278,7 +273,7 @@ TEMPLATE_TEST_CASE("near the singularities: flag set, round trip and middle angl
     REQUIRE(worst_determined <= 16);
   }
   // Just outside the band the flag is clear.
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     const long double u = band * 1.01L;
     const long double a2 = is_proper_euler(s) ? u : pi_ld / 2 - u;
     const auto d = to_euler_angles(rounded<T>(reference_quaternion(0.3L, a2, -0.2L, s)), s);
@@ -290,7 +285,7 @@ TEMPLATE_TEST_CASE("exactly at the singularity: third is zero, first holds the c
                    "[euler]", float, double) {
   using T = TestType;
   test::RandomRotations rng(104);
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const EulerAxes ax = euler_axes(s);
     const int c = euler_remaining_axis(s);
@@ -361,7 +356,7 @@ TEMPLATE_TEST_CASE("exactly at the singularity: third is zero, first holds the c
 
 TEMPLATE_TEST_CASE("identity and 180° rotations", "[euler][reference]", float, double) {
   using T = TestType;
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const bool proper = is_proper_euler(s);
     for (const Quaternion<T>& id : {Quaternion<T>::identity(), -Quaternion<T>::identity()}) {
@@ -427,7 +422,7 @@ TEMPLATE_TEST_CASE("identity and 180° rotations", "[euler][reference]", float, 
 TEMPLATE_TEST_CASE("tiny angles keep their relative accuracy", "[euler]", float, double) {
   using T = TestType;
   test::RandomRotations rng(106);
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     CAPTURE(static_cast<int>(s));
     const bool proper = is_proper_euler(s);
     long double worst_first = 0, worst_second = 0, worst_third = 0, worst_sum = 0, worst_q = 0;
@@ -480,7 +475,7 @@ TEMPLATE_TEST_CASE("tiny angles keep their relative accuracy", "[euler]", float,
   // Mixed scales (Tait–Bryan): a tiny first angle next to a large third (second as tiny as the
   // first) keeps its relative accuracy, thanks to the atan2 of quadratic forms; the sum θ+ + θ−
   // would lose it entirely.
-  for (const EulerSequence s : all_sequences) {
+  for (const EulerSequence s : all_euler_sequences) {
     if (is_proper_euler(s)) {
       continue;
     }

@@ -38,6 +38,7 @@
 // narrow to warn a user whose attitude sits 1e-7 rad from gimbal lock that first and third are
 // already known only to a few 1e-9 rad.
 
+#include <array>
 #include <cmath>
 #include <cstdint>
 
@@ -63,6 +64,12 @@ enum class EulerSequence : std::uint8_t {
   zxz,  // 3-1-3
   zyz   // 3-2-3
 };
+
+// Every sequence, Tait–Bryan first, in the enum's order (for sweeps and configuration menus).
+inline constexpr std::array<EulerSequence, 12> all_euler_sequences{
+    EulerSequence::xyz, EulerSequence::xzy, EulerSequence::yxz, EulerSequence::yzx,
+    EulerSequence::zxy, EulerSequence::zyx, EulerSequence::xyx, EulerSequence::xzx,
+    EulerSequence::yxy, EulerSequence::yzy, EulerSequence::zxz, EulerSequence::zyz};
 
 // Angles (rad) of one sequence; see the convention at the top of this header.
 template <class T>
