@@ -27,3 +27,16 @@
 #include "halfspin/representations/rotation_vector.hpp"
 #include "halfspin/representations/scalar_last.hpp"
 #include "halfspin/representations/su2_matrix.hpp"
+
+// propagation
+#include "halfspin/propagation/exponential_map_step.hpp"
+#include "halfspin/propagation/gyro_input.hpp"
+#include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/propagator.hpp"
+#include "halfspin/propagation/renormalization.hpp"
+#include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+
+// truth
+#include "halfspin/truth/classical_coning.hpp"
+#include "halfspin/truth/constant_rate.hpp"

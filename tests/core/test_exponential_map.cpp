@@ -80,6 +80,22 @@ TEMPLATE_TEST_CASE("quaternion_exp is accurate to a few ulp per component for an
   REQUIRE(worst <= 3);
 }
 
+TEMPLATE_TEST_CASE("below the threshold (no libm call) quaternion_exp is within 2 ulp",
+                   "[core]", float, double) {
+  // The small-angle kernel of a gyro step: series only, no sin/cos/sqrt.
+  using T = TestType;
+  test::RandomRotations rng(36);
+  const T edge = std::sqrt(ScalarTraits<T>::exp_series_angle_squared);
+  long double worst = 0;
+  for (int n = 0; n < test::property_samples; ++n) {
+    const T angle = rng.log_uniform<T>(T(1e-30), edge * T(0.999));
+    const Vector3<T> phi = angle * rng.unit_vector<T>();
+    worst = std::fmax(worst, worst_component_ulps(quaternion_exp(phi), reference_exp(phi)));
+  }
+  test::report_worst(std::string("exp series branch [ulp] ") + test::type_name<T>(), worst);
+  REQUIRE(worst <= 2);
+}
+
 TEMPLATE_TEST_CASE("quaternion_exp is continuous across the series threshold", "[core]", float,
                    double) {
   using T = TestType;

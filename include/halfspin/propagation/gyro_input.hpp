@@ -1,0 +1,71 @@
+#pragma once
+// Gyro input: the configured limits of a gyro and the validation every sample passes before it
+// can touch the attitude. Rates are body-frame angular velocity in rad/s; a delta-angle is the
+// integral of that rate over its sample interval (t_prev, t], in rad.
+
+#include <cmath>
+
+#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/status.hpp"
+
+namespace halfspin {
+
+// What the propagator accepts. A gyro saturates per axis, so the range is per axis.
+template <class T>
+struct GyroLimits {
+  T max_rate;  // rad/s: the largest |ω| on any axis the gyro can measure (its full scale)
+  T max_step;  // s: the longest sample interval accepted; longer means samples were missed
+};
+
+// Checks a time step: finite, positive, not longer than the limit. Order of checks: non_finite,
+// non_positive_step, step_too_long.
+template <class T>
+constexpr Status validate_step(T dt, const GyroLimits<T>& limits) noexcept {
+  if (!(dt == dt) || dt - dt != T(0)) {  // NaN, or ±infinity (inf − inf is NaN)
+    return Status::non_finite;
+  }
+  if (!(dt > T(0))) {
+    return Status::non_positive_step;
+  }
+  if (dt > limits.max_step) {
+    return Status::step_too_long;
+  }
+  return Status::ok;
+}
+
+// Checks a rate sample (rad/s) and its sample interval dt (s).
+template <class T>
+Status validate_rate(const Vector3<T>& rate, T dt, const GyroLimits<T>& limits) noexcept {
+  if (!is_finite(rate)) {
+    return Status::non_finite;
+  }
+  const Status s = validate_step(dt, limits);
+  if (s != Status::ok) {
+    return s;
+  }
+  if (std::fabs(rate.x) > limits.max_rate || std::fabs(rate.y) > limits.max_rate ||
+      std::fabs(rate.z) > limits.max_rate) {
+    return Status::over_range;
+  }
+  return Status::ok;
+}
+
+// Checks a delta-angle sample (rad over dt); it is over range when its mean rate on some axis,
+// |δ_i|/dt, exceeds max_rate (tested as |δ_i| > max_rate·dt, no division).
+template <class T>
+Status validate_delta_angle(const Vector3<T>& delta, T dt, const GyroLimits<T>& limits) noexcept {
+  if (!is_finite(delta)) {
+    return Status::non_finite;
+  }
+  const Status s = validate_step(dt, limits);
+  if (s != Status::ok) {
+    return s;
+  }
+  const T bound = limits.max_rate * dt;
+  if (std::fabs(delta.x) > bound || std::fabs(delta.y) > bound || std::fabs(delta.z) > bound) {
+    return Status::over_range;
+  }
+  return Status::ok;
+}
+
+}  // namespace halfspin

@@ -1,0 +1,267 @@
+#pragma once
+// The propagator: owns the attitude and the fixed-size sample history its stepper needs,
+// validates every input, runs the stepper and the renormalization policy, and keeps counters and
+// the last per-step error estimate. The stepper does one step; the propagator decides when and
+// with what input.
+//
+// Bad input never touches the state: a sample with NaN/Inf, a non-positive or oversized interval,
+// or a rate beyond the gyro range is rejected with its status code, the attitude and the history
+// stay bit-for-bit as they were, and the rejection is counted. A step whose result is not finite
+// (a rate function that returned NaN) is rejected the same way.
+//
+// Gap policy: an interval above limits.max_step is rejected as step_too_long (samples were
+// missed; the rotation during the gap is lost and the attitude must be re-anchored by whatever
+// aiding the vehicle has). The first sample accepted after it restarts the history: samples that
+// were waiting in a partly filled window are discarded and counted in `discarded_samples`, so no
+// step ever spans the gap.
+//
+// Time: `push(sample, dt)` takes the sample interval in seconds; `push(sample, Ticks{n})` takes
+// it as an integer count of timer ticks of `tick_period` seconds, and elapsed time is then kept
+// exactly as a 64-bit tick count. Elapsed seconds are a compensated (Kahan) sum, so float keeps
+// ulp-level resolution over a flight instead of losing it within the hour.
+
+#include <array>
+#include <cstddef>
+#include <cstdint>
+
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/gyro_input.hpp"
+#include "halfspin/propagation/renormalization.hpp"
+#include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+
+namespace halfspin {
+
+// A sample interval as an integer count of timer ticks.
+struct Ticks {
+  std::uint32_t count;
+};
+
+// What happened so far. Rejections by class; `steps` counts steps taken.
+struct PropagationCounters {
+  std::uint64_t samples_accepted = 0;
+  std::uint64_t steps = 0;
+  std::uint64_t rejected_non_finite = 0;
+  std::uint64_t rejected_non_positive_step = 0;
+  std::uint64_t rejected_step_too_long = 0;
+  std::uint64_t rejected_over_range = 0;
+  std::uint64_t discarded_samples = 0;  // dropped from a partly filled window after a gap
+
+  // All rejected inputs.
+  constexpr std::uint64_t rejected() const noexcept {
+    return rejected_non_finite + rejected_non_positive_step + rejected_step_too_long +
+           rejected_over_range;
+  }
+};
+
+template <class T, class Stepper, class Renormalization = FirstOrderRenormalization>
+class Propagator {
+ public:
+  using scalar = T;
+  using stepper = Stepper;
+  static constexpr std::size_t window = Stepper::window;
+
+  // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks).
+  constexpr Propagator(const Quaternion<T>& initial, const GyroLimits<T>& limits,
+                       T tick_period = T(0), Renormalization policy = {}) noexcept
+      : attitude_(initial), limits_(limits), tick_period_(tick_period), policy_(policy) {
+    restart_history();
+  }
+
+  // Accepts one gyro sample: a rate (rad/s) or a delta-angle (rad), as Stepper::layout says,
+  // covering the interval dt (s) that ends now. Steps when the stepper's window is full.
+  Status push(const Vector3<T>& sample, T dt) noexcept {
+    static_assert(Stepper::layout != SampleLayout::rate_function,
+                  "a rate-function stepper is driven with advance()");
+    const Status s = carries_delta_angles(Stepper::layout)
+                         ? validate_delta_angle(sample, dt, limits_)
+                         : validate_rate(sample, dt, limits_);
+    if (s != Status::ok) {
+      count_rejection(s);
+      return s;
+    }
+    return accept(sample, dt);
+  }
+
+  // The same with the interval as a count of ticks of tick_period.
+  Status push(const Vector3<T>& sample, Ticks ticks) noexcept {
+    const Status s = push(sample, static_cast<T>(ticks.count) * tick_period_);
+    if (s == Status::ok || s == Status::waiting_for_samples) {
+      elapsed_ticks_ += ticks.count;
+    }
+    return s;
+  }
+
+  // One step of dt (s) for a rate-function stepper: rate_at(τ) → Vector3<T> in rad/s, τ ∈ [0, dt]
+  // from the step start.
+  template <class RateFunction>
+  Status advance(const RateFunction& rate_at, T dt) noexcept {
+    static_assert(Stepper::layout == SampleLayout::rate_function,
+                  "advance() drives rate-function steppers; sample steppers take push()");
+    const Status s = validate_step(dt, limits_);
+    if (s != Status::ok) {
+      count_rejection(s);
+      return s;
+    }
+    T estimate = T(0);
+    Quaternion<T> next;
+    if constexpr (has_rate_function_error_estimate<Stepper, T, RateFunction>::value) {
+      const StepOutcome<T> out = Stepper::step_with_estimate(attitude_, rate_at, dt);
+      next = out.attitude;
+      estimate = out.error_estimate;
+    } else {
+      next = Stepper::step(attitude_, rate_at, dt);
+    }
+    if (!is_finite(next) || !(estimate == estimate)) {
+      count_rejection(Status::non_finite);
+      return Status::non_finite;
+    }
+    last_error_estimate_ = estimate;
+    commit(next, dt);
+    return Status::ok;
+  }
+
+  // The attitude (body → reference) after the last step.
+  constexpr const Quaternion<T>& attitude() const noexcept { return attitude_; }
+  // ‖q‖ − 1 of the attitude: what the renormalization policy keeps small.
+  T norm_error() const noexcept { return norm(attitude_) - T(1); }
+  constexpr const PropagationCounters& counters() const noexcept { return counters_; }
+  // The stepper's local error estimate for the last step (rad), 0 if it has none.
+  constexpr T last_error_estimate() const noexcept { return last_error_estimate_; }
+  // Sum of the per-step estimates since the start (rad): worst-case linear accumulation.
+  constexpr T accumulated_error_estimate() const noexcept { return accumulated_error_estimate_; }
+  // Seconds propagated (compensated sum of the intervals of the steps taken).
+  constexpr T elapsed_seconds() const noexcept { return elapsed_sum_; }
+  // Ticks accepted through push(…, Ticks), exact.
+  constexpr std::uint64_t elapsed_ticks() const noexcept { return elapsed_ticks_; }
+  // The renormalization policy (read its counters or settings).
+  constexpr const Renormalization& renormalization() const noexcept { return policy_; }
+
+  // Re-anchors the attitude (after a gap, or from an external fix) and restarts the history.
+  void reset(const Quaternion<T>& attitude) noexcept {
+    attitude_ = attitude;
+    counters_.discarded_samples += pending_samples();
+    restart_history();
+    gap_pending_ = false;
+  }
+
+ private:
+  Status accept(const Vector3<T>& sample, T dt) noexcept {
+    if (gap_pending_) {
+      counters_.discarded_samples += pending_samples();
+      restart_history();
+      gap_pending_ = false;
+    }
+    if constexpr (window > 1) {
+      if (filled_ + 1 < window) {
+        // A spanning window's first sample marks the step's start: its interval lies before it.
+        if (Stepper::layout != SampleLayout::rates_spanning || filled_ != 0) {
+          window_dt_ += dt;
+        }
+        history_[filled_] = sample;
+        ++filled_;
+        ++counters_.samples_accepted;
+        return Status::waiting_for_samples;
+      }
+    }
+    // The window is complete: step on a copy so that a non-finite result (which validated input
+    // cannot produce, but state must never be corrupted) leaves everything as it was.
+    std::array<Vector3<T>, window> input = history_;
+    input[window - 1] = sample;
+    const T step_dt = window_dt_ + dt;
+    T estimate = T(0);
+    const Quaternion<T> next = run_stepper(input, step_dt, estimate);
+    if (!is_finite(next)) {
+      count_rejection(Status::non_finite);
+      return Status::non_finite;
+    }
+    ++counters_.samples_accepted;
+    last_error_estimate_ = estimate;
+    history_ = input;
+    commit(next, step_dt);
+    shift_history();
+    return Status::ok;
+  }
+
+  Quaternion<T> run_stepper(const std::array<Vector3<T>, window>& input, T dt,
+                            T& estimate) const noexcept {
+    if constexpr (has_error_estimate<Stepper, T>::value) {
+      const StepOutcome<T> out = Stepper::template step_with_estimate<T>(attitude_, input, dt);
+      estimate = out.error_estimate;
+      return out.attitude;
+    } else {
+      static_cast<void>(estimate);
+      return Stepper::template step<T>(attitude_, input, dt);
+    }
+  }
+
+  void commit(const Quaternion<T>& next, T dt) noexcept {
+    attitude_ = policy_.apply(next);
+    ++counters_.steps;
+    accumulated_error_estimate_ += last_error_estimate_;
+    // Kahan summation of elapsed time.
+    const T y = dt - elapsed_carry_;
+    const T t = elapsed_sum_ + y;
+    elapsed_carry_ = (t - elapsed_sum_) - y;
+    elapsed_sum_ = t;
+  }
+
+  // After a step: layouts that share a boundary sample keep the newest one as history_[0].
+  void shift_history() noexcept {
+    if constexpr (Stepper::layout == SampleLayout::rates_spanning ||
+                  Stepper::layout == SampleLayout::delta_angles_with_previous) {
+      history_[0] = history_[window - 1];
+      carried_ = 1;
+    } else {
+      carried_ = 0;
+    }
+    filled_ = carried_;
+    window_dt_ = T(0);
+  }
+
+  // Samples accepted but not yet used by a step (carried-over entries were used or are the zero
+  // start value).
+  std::size_t pending_samples() const noexcept { return filled_ - carried_; }
+
+  void restart_history() noexcept {
+    history_ = {};
+    window_dt_ = T(0);
+    // Delta-angle steppers with one sample of history start from a zero previous sample: the
+    // first step applies its delta-angles in full and only lacks the cross term with the past.
+    carried_ = Stepper::layout == SampleLayout::delta_angles_with_previous ? 1 : 0;
+    filled_ = carried_;
+  }
+
+  void count_rejection(Status s) noexcept {
+    switch (s) {
+      case Status::non_finite: ++counters_.rejected_non_finite; break;
+      case Status::non_positive_step: ++counters_.rejected_non_positive_step; break;
+      case Status::step_too_long:
+        ++counters_.rejected_step_too_long;
+        gap_pending_ = true;
+        break;
+      case Status::over_range: ++counters_.rejected_over_range; break;
+      case Status::ok:
+      case Status::waiting_for_samples: break;
+    }
+  }
+
+  Quaternion<T> attitude_;
+  GyroLimits<T> limits_;
+  T tick_period_;
+  Renormalization policy_;
+  std::array<Vector3<T>, window> history_{};
+  std::size_t filled_ = 0;   // entries of history_ in use
+  std::size_t carried_ = 0;  // leading entries carried over from the previous step
+  T window_dt_ = T(0);
+  bool gap_pending_ = false;
+  PropagationCounters counters_{};
+  T last_error_estimate_ = T(0);
+  T accumulated_error_estimate_ = T(0);
+  T elapsed_sum_ = T(0);
+  T elapsed_carry_ = T(0);
+  std::uint64_t elapsed_ticks_ = 0;
+};
+
+}  // namespace halfspin

@@ -1,0 +1,142 @@
+// Bad input never corrupts state: every rejection class leaves the attitude bit-for-bit unchanged
+// (memcmp) and the history untouched (the propagator then behaves exactly like a twin that never
+// saw the bad sample), and is counted. The gap policy restarts the history.
+#include <catch2/catch.hpp>
+
+#include <cstring>
+#include <limits>
+#include <vector>
+
+#include "halfspin/propagation/exponential_map_step.hpp"
+#include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/propagator.hpp"
+#include "propagation_test_steppers.hpp"
+#include "test_support.hpp"
+
+using namespace halfspin;
+
+namespace {
+
+template <class T>
+constexpr GyroLimits<T> limits{T(35), T(0.1)};
+
+template <class T>
+bool same_bits(const Quaternion<T>& a, const Quaternion<T>& b) {
+  return std::memcmp(&a, &b, sizeof(Quaternion<T>)) == 0;
+}
+
+struct BadSample {
+  const char* what;
+  Status expected;
+};
+
+// Feeds `good` samples, offers one bad sample, then more good samples, to a propagator and to a
+// twin that skips the bad one; checks status, untouched attitude, count, identical continuation.
+template <class T, class Stepper, class Offer>
+void check_rejection(const char* what, Status expected, Offer offer_bad, T scale) {
+  INFO(what);
+  test::RandomRotations rng(601);
+  const Quaternion<T> q0 = rng.quaternion<T>();
+  Propagator<T, Stepper> p(q0, limits<T>, T(1e-4));
+  Propagator<T, Stepper> twin(q0, limits<T>, T(1e-4));
+  const T dt = T(1e-3);
+  // Leave the window partly filled so that the history matters.
+  for (int k = 0; k < 4; ++k) {
+    const Vector3<T> s = rng.unit_vector<T>() * scale;
+    p.push(s, dt);
+    twin.push(s, dt);
+  }
+  const Quaternion<T> before = p.attitude();
+  const std::uint64_t rejected_before = p.counters().rejected();
+  const Status got = offer_bad(p);
+  REQUIRE(got == expected);
+  REQUIRE(is_rejection(got));
+  REQUIRE(same_bits(p.attitude(), before));
+  REQUIRE(p.counters().rejected() == rejected_before + 1);
+  for (int k = 0; k < 6; ++k) {
+    const Vector3<T> s = rng.unit_vector<T>() * scale;
+    REQUIRE(p.push(s, dt) == twin.push(s, dt));
+    REQUIRE(same_bits(p.attitude(), twin.attitude()));
+  }
+  REQUIRE(p.counters().steps == twin.counters().steps);
+}
+
+template <class T, class Stepper>
+void check_all_classes(T scale, bool delta_angles) {
+  const T nan = std::numeric_limits<T>::quiet_NaN();
+  const T inf = std::numeric_limits<T>::infinity();
+  const T dt = T(1e-3);
+  const Vector3<T> ok = Vector3<T>{T(0.1), T(-0.2), T(0.3)} * scale;
+  for (int axis = 0; axis < 3; ++axis) {
+    for (const T bad : {nan, inf, -inf}) {
+      Vector3<T> s = ok;
+      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = bad;
+      check_rejection<T, Stepper>("non-finite component", Status::non_finite,
+                                  [&](auto& p) { return p.push(s, dt); }, scale);
+    }
+    // Beyond the gyro's range on this axis (rate 36 rad/s > 35 rad/s; as a delta-angle over dt).
+    for (const T sign : {T(1), T(-1)}) {
+      Vector3<T> s = ok;
+      const T over = sign * T(36) * (delta_angles ? dt : T(1));
+      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = over;
+      check_rejection<T, Stepper>("over range", Status::over_range,
+                                  [&](auto& p) { return p.push(s, dt); }, scale);
+    }
+  }
+  for (const T bad_dt : {T(0), T(-0.0), T(-1e-3), -std::numeric_limits<T>::denorm_min()}) {
+    check_rejection<T, Stepper>("non-positive step", Status::non_positive_step,
+                                [&](auto& p) { return p.push(ok, bad_dt); }, scale);
+  }
+  check_rejection<T, Stepper>("zero ticks", Status::non_positive_step,
+                              [&](auto& p) { return p.push(ok, Ticks{0}); }, scale);
+  for (const T bad_dt : {nan, inf, -inf}) {
+    check_rejection<T, Stepper>("non-finite step", Status::non_finite,
+                                [&](auto& p) { return p.push(ok, bad_dt); }, scale);
+  }
+}
+
+}  // namespace
+
+TEMPLATE_TEST_CASE("every bad-input class is rejected with its status and leaves state intact",
+                   "[propagation]", float, double) {
+  using T = TestType;
+  check_all_classes<T, Magnus4>(T(1), false);                           // rates, window of 3
+  check_all_classes<T, ExpMapHoldEnd>(T(1), false);                     // rates, window of 1
+  check_all_classes<T, test::SummedDeltaAngles<3>>(T(1e-3), true);      // delta-angles
+  check_all_classes<T, test::WithPreviousDeltaAngle>(T(1e-3), true);    // with history
+}
+
+TEMPLATE_TEST_CASE("a gap is rejected, then the history restarts", "[propagation]", float, double) {
+  using T = TestType;
+  const T dt = T(1e-3);
+  const Vector3<T> w{T(0.2), 0, 0};
+  Propagator<T, Magnus4> p(Quaternion<T>::identity(), limits<T>);
+  p.push(w, dt);
+  p.push(w, dt);
+  REQUIRE(p.push(w, dt) == Status::ok);                  // step 1 over samples 1–3
+  REQUIRE(p.push(w, dt) == Status::waiting_for_samples);  // sample 4 waits
+  const Quaternion<T> before = p.attitude();
+  REQUIRE(p.push(w, T(0.5)) == Status::step_too_long);    // 500 ms since the last sample
+  REQUIRE(same_bits(p.attitude(), before));
+  REQUIRE(p.counters().rejected_step_too_long == 1);
+  // After the gap the window starts again: sample 4 is discarded, three new samples make a step.
+  REQUIRE(p.push(w, dt) == Status::waiting_for_samples);
+  REQUIRE(p.counters().discarded_samples == 1);
+  REQUIRE(p.push(w, dt) == Status::waiting_for_samples);
+  REQUIRE(p.push(w, dt) == Status::ok);
+  REQUIRE(p.counters().steps == 2);
+}
+
+TEMPLATE_TEST_CASE("a rate function that returns NaN is rejected and leaves state intact",
+                   "[propagation]", float, double) {
+  using T = TestType;
+  const Quaternion<T> q0{T(0.6), 0, T(0.8), 0};
+  Propagator<T, test::MidpointRateFunction> p(q0, limits<T>);
+  const auto bad = [](T) { return Vector3<T>{std::numeric_limits<T>::quiet_NaN(), 0, 0}; };
+  REQUIRE(p.advance(bad, T(0.01)) == Status::non_finite);
+  REQUIRE(same_bits(p.attitude(), q0));
+  REQUIRE(p.counters().rejected_non_finite == 1);
+  REQUIRE(p.advance([](T) { return Vector3<T>{}; }, T(0)) == Status::non_positive_step);
+  REQUIRE(p.advance([](T) { return Vector3<T>{}; }, T(1)) == Status::step_too_long);
+  REQUIRE(same_bits(p.attitude(), q0));
+}
