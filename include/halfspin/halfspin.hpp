@@ -29,6 +29,7 @@
 #include "halfspin/representations/su2_matrix.hpp"
 
 // propagation
+#include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/magnus4.hpp"
@@ -36,6 +37,7 @@
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
+#include "halfspin/propagation/two_speed.hpp"
 
 // truth
 #include "halfspin/truth/axisymmetric_body.hpp"

@@ -9,7 +9,9 @@
 //   static constexpr SampleLayout layout;        // what the input array holds (below)
 //   static constexpr std::size_t window;         // samples the step reads
 //   static constexpr std::size_t new_samples;    // samples that arrive per step
-//   static constexpr int order;                  // global order reached WITH THIS INPUT
+//   static constexpr int order;                  // global order reached WITH THIS INPUT on any
+//                                                //   smooth motion (the attitude, i.e. the angle
+//                                                //   error, renormalized)
 //   static constexpr int flops;                  // floating-point operations per step (+ − × ÷ √,
 //                                                //   a libm call counted as documented in the header)
 //   static constexpr const char* name;           // short identifier (tools, benchmarks)
@@ -19,6 +21,8 @@
 //       const std::array<Vector3<T>, window>& input, T dt) noexcept;          // sample layouts
 //   template <class T, class RateFunction> static Quaternion<T> step(const Quaternion<T>& q,
 //       const RateFunction& rate_at, T dt) noexcept;                          // rate_function
+// Coning-compensation steppers also declare `coning_order`: the order of the attitude error under
+// pure classical coning at small cone angles (2N for the N-sample algorithms), higher than `order`.
 // Steppers with a cheap a-posteriori error signal also provide `step_with_estimate`, same
 // arguments, returning StepOutcome<T>.
 //
