@@ -29,9 +29,13 @@
 #include "halfspin/representations/su2_matrix.hpp"
 
 // propagation
+#include "halfspin/propagation/butcher_tableau.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
+#include "halfspin/propagation/embedded_runge_kutta.hpp"
+#include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
+#include "halfspin/propagation/lie_group_runge_kutta.hpp"
 #include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
@@ -45,3 +49,4 @@
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
+#include "halfspin/truth/two_gimbal.hpp"

@@ -29,6 +29,7 @@
 #include "test_support.hpp"
 
 using namespace halfspin;
+using test::widen;
 using L = long double;
 
 namespace {
@@ -65,10 +66,6 @@ Vector3<T> to(const Vector3<L>& v) {
 template <class T>
 Quaternion<T> to(const Quaternion<L>& q) {
   return {static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y), static_cast<T>(q.z)};
-}
-template <class T>
-Quaternion<L> widen(const Quaternion<T>& q) {
-  return {test::ld(q.w), test::ld(q.x), test::ld(q.y), test::ld(q.z)};
 }
 
 // The input window of one step starting at sample index k0 (sample k covers (k·h, (k+1)·h]).

@@ -13,22 +13,6 @@ using namespace halfspin;
 
 namespace {
 
-// Least-squares slope of log(e) against log(h).
-double slope(const std::vector<double>& h, const std::vector<double>& e) {
-  double mx = 0, my = 0;
-  const double n = static_cast<double>(h.size());
-  for (std::size_t i = 0; i < h.size(); ++i) {
-    mx += std::log(h[i]) / n;
-    my += std::log(e[i]) / n;
-  }
-  double sxy = 0, sxx = 0;
-  for (std::size_t i = 0; i < h.size(); ++i) {
-    sxy += (std::log(h[i]) - mx) * (std::log(e[i]) - my);
-    sxx += (std::log(h[i]) - mx) * (std::log(h[i]) - mx);
-  }
-  return sxy / sxx;
-}
-
 // Local error (rad) of one Magnus step of length h from t0 on classical coning, against the exact
 // relative rotation q(t0)* ⊗ q(t0 + h), in long double. sign = +1 is the method; −1 flips the
 // commutator term.
@@ -56,7 +40,7 @@ TEST_CASE("Magnus 4: local error falls as h^5; a flipped commutator only as h^3"
     good.push_back(static_cast<double>(local_error(h, 0.013L, +1)));
     flipped.push_back(static_cast<double>(local_error(h, 0.013L, -1)));
   }
-  const double p_good = slope(hs, good), p_flipped = slope(hs, flipped);
+  const double p_good = test::log_log_slope(hs, good), p_flipped = test::log_log_slope(hs, flipped);
   test::report_worst("magnus4 local order (expect 5)", test::ld(p_good));
   test::report_worst("magnus4 with flipped commutator local order (expect 3)", test::ld(p_flipped));
   CHECK(std::fabs(p_good - 5.0) <= 0.2);

@@ -26,23 +26,11 @@
 #include "test_support.hpp"
 
 using namespace halfspin;
+using test::narrow;
 
 namespace {
 
 using L = long double;
-
-L slope(const std::vector<L>& step, const std::vector<L>& err) {
-  L sx = 0, sy = 0, sxx = 0, sxy = 0;
-  const L n = L(step.size());
-  for (std::size_t i = 0; i < step.size(); ++i) {
-    const L x = std::log(step[i]), y = std::log(err[i]);
-    sx += x;
-    sy += y;
-    sxx += x * x;
-    sxy += x * y;
-  }
-  return (n * sxy - sx * sy) / (n * sxx - sx * sx);
-}
 
 std::vector<L> ladder(L largest, int count) {
   std::vector<L> out;
@@ -50,14 +38,6 @@ std::vector<L> ladder(L largest, int count) {
   return out;
 }
 
-template <class T>
-Vector3<T> narrow(const Vector3<L>& v) {
-  return {static_cast<T>(v.x), static_cast<T>(v.y), static_cast<T>(v.z)};
-}
-template <class T>
-Quaternion<T> narrow(const Quaternion<L>& q) {
-  return {static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y), static_cast<T>(q.z)};
-}
 template <class T>
 Quaternion<L> wide(const Quaternion<T>& q) {
   return {test::ld(q.w), test::ld(q.x), test::ld(q.y), test::ld(q.z)};
@@ -145,7 +125,7 @@ TEST_CASE("two-speed coning error per update is −r·λ⁵/60·sin²a: drift in
       err.push_back(std::fabs(test::ld(phi.x) - exact_x) / s2a);
       coefficient = (test::ld(phi.x) - exact_x) / s2a / std::pow(l, L(5));
     }
-    const L p = slope(lam, err);
+    const L p = test::log_log_slope(lam, err);
     test::report_worst("two-speed coning-term order, ratio " + std::to_string(r), p);
     test::report_worst("two-speed coning-term coefficient / (-r/60), ratio " + std::to_string(r),
                        coefficient / (-L(r) / 60));
@@ -167,7 +147,7 @@ TEST_CASE("two-speed attitude error under pure coning falls as h⁴ at every rat
     std::vector<L> err;
     for (L l : lam) err.push_back(two_speed_global_error<double>(motion, r, l, horizon));
     if (r == 1) at_ratio_1 = err;
-    const L p = slope(lam, err);
+    const L p = test::log_log_slope(lam, err);
     test::report_worst("two-speed global order at ratio " + std::to_string(r), p);
     CHECK(std::fabs(p - 4) < 0.2L);
     const L rel = err.back() / at_ratio_1.back();
@@ -195,7 +175,7 @@ TEST_CASE("two-speed on general motion (axisymmetric body): order 3, and (r·h)�
     const auto hs = ladder(largest, 5);
     std::vector<L> err;
     for (L h : hs) err.push_back(two_speed_global_error<double>(motion, r, h, L(20)));
-    const L p = slope(hs, err);
+    const L p = test::log_log_slope(hs, err);
     test::report_worst("two-speed general-motion order, ratio " + std::to_string(r), p);
     return p;
   };
@@ -210,7 +190,7 @@ TEST_CASE("two-speed float: order 4 above the roundoff floor", "[two_speed][orde
   const auto lam = ladder(0.8L, 4);
   std::vector<L> err;
   for (L l : lam) err.push_back(two_speed_global_error<float>(motion, 4, l, L(20)));
-  const L p = slope(lam, err);
+  const L p = test::log_log_slope(lam, err);
   test::report_worst("two-speed float order, ratio 4", p);
   CHECK(std::fabs(p - 4) < 0.2L);
 }

@@ -9,6 +9,7 @@
 #include <string>
 #include <limits>
 #include <random>
+#include <vector>
 
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/matrix3.hpp"
@@ -107,6 +108,42 @@ long double length_ld(const Vector3<T>& v) {
 template <class T>
 long double norm_ld(const Quaternion<T>& q) {
   return std::sqrt(ld(q.w) * ld(q.w) + ld(q.x) * ld(q.x) + ld(q.y) * ld(q.y) + ld(q.z) * ld(q.z));
+}
+
+// Widening of a T-valued quaternion or vector to long double (truth is evaluated there).
+template <class T>
+Quaternion<long double> widen(const Quaternion<T>& q) {
+  return {ld(q.w), ld(q.x), ld(q.y), ld(q.z)};
+}
+template <class T>
+Vector3<long double> widen(const Vector3<T>& v) {
+  return {ld(v.x), ld(v.y), ld(v.z)};
+}
+// Rounding of a long double truth value to T (what a sensor or an initial condition in T holds).
+template <class T>
+Quaternion<T> narrow(const Quaternion<long double>& q) {
+  return {static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y), static_cast<T>(q.z)};
+}
+template <class T>
+Vector3<T> narrow(const Vector3<long double>& v) {
+  return {static_cast<T>(v.x), static_cast<T>(v.y), static_cast<T>(v.z)};
+}
+
+// Least-squares slope of log(y) against log(x): the observed order of an error y against a step x.
+template <class R>
+R log_log_slope(const std::vector<R>& x, const std::vector<R>& y) {
+  R mx = 0, my = 0;
+  const R n = static_cast<R>(x.size());
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    mx += std::log(x[i]) / n;
+    my += std::log(y[i]) / n;
+  }
+  R sxy = 0, sxx = 0;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    sxy += (std::log(x[i]) - mx) * (std::log(y[i]) - my);
+    sxx += (std::log(x[i]) - mx) * (std::log(x[i]) - mx);
+  }
+  return sxy / sxx;
 }
 
 // Machine epsilon of T as long double, for stating tolerances "in units of ε".

@@ -25,6 +25,9 @@ struct Quaternion {
   constexpr Vector3<T> vector() const noexcept { return {x, y, z}; }
 };
 
+// Floating-point operations of the Hamilton product: 16 multiplications, 12 additions.
+inline constexpr int quaternion_product_flops = 28;
+
 // Hamilton product a ⊗ b. For attitudes, a ⊗ b applies b first, then a (frames compose as
 // q_ref←body = q_ref←mid ⊗ q_mid←body).
 template <class T>

@@ -44,9 +44,9 @@
 // N = 2).
 //
 // Cost as implemented (flops: + − ×; the exponential map as in exponential_map_step.hpp, its
-// series branch 14 flops, and the quaternion product 28): sum of the N samples 3(N − 1); each
+// series branch 20 flops, and the quaternion product 28): sum of the N samples 3(N − 1); each
 // cross product 9; summing the products of one separation 3 each; scaling and adding each
-// separation's sum 6. Totals: one sample 42, one-plus-previous 57, two 60, three 90, four 132.
+// separation's sum 6. Totals: one sample 48, one-plus-previous 63, two 66, three 96, four 138.
 // Memory: none beyond the input window (3 scalars per sample).
 
 #include <array>
@@ -106,6 +106,9 @@ constexpr Vector3<T> coning_rotation_vector(const std::array<Vector3<T>, W>& s, 
   return alpha;
 }
 
+// The exact exponential-map update that ends every coning step: quaternion_exp and the product.
+inline constexpr int exp_and_product_flops = quaternion_exp_series_flops + quaternion_product_flops;
+
 }  // namespace detail
 
 // N delta-angles tiling the step, oldest first, with coefficient set Set (N − 1 separations).
@@ -135,31 +138,31 @@ struct MultiSampleConing {
 };
 
 // One delta-angle per step, no coning correction: φ = Δθ. Global order 2.
-struct ConingOneSample : MultiSampleConing<1, coning_coefficients::one_sample, 2, 2, 42> {
+struct ConingOneSample : MultiSampleConing<1, coning_coefficients::one_sample, 2, 2, 0 + detail::exp_and_product_flops> {
   static constexpr const char* name = "coning_1_sample";
 };
 
 // Two delta-angles per step: φ = Δθ1 + Δθ2 + 2/3 Δθ1×Δθ2. Global order 4 (coning: h⁴).
-struct ConingTwoSample : MultiSampleConing<2, coning_coefficients::two_sample, 4, 4, 60> {
+struct ConingTwoSample : MultiSampleConing<2, coning_coefficients::two_sample, 4, 4, 18 + detail::exp_and_product_flops> {
   static constexpr const char* name = "coning_2_sample";
 };
 
 // Three delta-angles: φ = α + 9/20 Δθ1×Δθ3 + 27/40 Δθ2×(Δθ3 − Δθ1). Global order 4 for general
 // motion (third Magnus term); coning drift h⁶ while a⁴ is small (header comment).
-struct ConingThreeSample : MultiSampleConing<3, coning_coefficients::three_sample, 4, 6, 90> {
+struct ConingThreeSample : MultiSampleConing<3, coning_coefficients::three_sample, 4, 6, 48 + detail::exp_and_product_flops> {
   static constexpr const char* name = "coning_3_sample";
 };
 
 // Three delta-angles with the older set 33/80, 57/80 (Miller 1983, from memory): cancels the λ³
 // coning term only, so coning drift h⁴ (one term fewer than ConingThreeSample). Global order 4.
 struct ConingThreeSampleOlder
-    : MultiSampleConing<3, coning_coefficients::three_sample_older, 4, 4, 90> {
+    : MultiSampleConing<3, coning_coefficients::three_sample_older, 4, 4, 48 + detail::exp_and_product_flops> {
   static constexpr const char* name = "coning_3_sample_older";
 };
 
 // Four delta-angles, per-pair weights 214/315, 46/105, 18/35 by separation 1, 2, 3. Global order 4
 // for general motion; coning drift h⁸ only at small cone angles (header comment).
-struct ConingFourSample : MultiSampleConing<4, coning_coefficients::four_sample, 4, 8, 132> {
+struct ConingFourSample : MultiSampleConing<4, coning_coefficients::four_sample, 4, 8, 90 + detail::exp_and_product_flops> {
   static constexpr const char* name = "coning_4_sample";
 };
 
@@ -171,7 +174,7 @@ struct ConingOneSamplePlusPrevious {
   static constexpr std::size_t new_samples = 1;
   static constexpr int order = 3;
   static constexpr int coning_order = 4;
-  static constexpr int flops = 57;
+  static constexpr int flops = 15 + detail::exp_and_product_flops;
   static constexpr const char* name = "coning_1_sample_plus_previous";
 
   // Rotation vector (rad) of the step from [previous, new] delta-angles (rad).

@@ -10,7 +10,7 @@
 // (Magnus expansion: Iserles and Nørsett 1999; Blanes, Casas, Oteo and Ros 2009). Its delta-angle
 // counterpart is the two-sample coning algorithm (coning_compensation.hpp).
 //
-// Cost: quadrature 12, commutator 12, sum 3, exp 14 (series branch), product 28 → about 69 flops.
+// Cost: quadrature 13, commutator 14, sum 3, quaternion_exp 20 (series branch), product 28 → 78.
 // Memory: none beyond the three-sample window. Online error signal: the size of the commutator
 // term |dt²/12·ω0 × ω2| (rad), the non-commutativity that zero-order-hold steps ignore.
 
@@ -29,7 +29,7 @@ struct Magnus4 {
   static constexpr std::size_t window = 3;
   static constexpr std::size_t new_samples = 2;
   static constexpr int order = 4;
-  static constexpr int flops = 69;
+  static constexpr int flops = 30 + quaternion_exp_series_flops + quaternion_product_flops;
   static constexpr const char* name = "magnus4";
 
   // The step's rotation vector (rad) from rates (rad/s) at start, middle and end, and dt (s).

@@ -21,6 +21,8 @@
 //       const std::array<Vector3<T>, window>& input, T dt) noexcept;          // sample layouts
 //   template <class T, class RateFunction> static Quaternion<T> step(const Quaternion<T>& q,
 //       const RateFunction& rate_at, T dt) noexcept;                          // rate_function
+// Runge–Kutta steppers also declare `state_order`: the order of the quaternion state including its
+// norm, which can be lower than the attitude order (Kutta's RK3: state 3, attitude 4).
 // Coning-compensation steppers also declare `coning_order`: the order of the attitude error under
 // pure classical coning at small cone angles (2N for the N-sample algorithms), higher than `order`.
 // Steppers with a cheap a-posteriori error signal also provide `step_with_estimate`, same

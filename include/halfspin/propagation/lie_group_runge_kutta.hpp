@@ -1,0 +1,140 @@
+#pragma once
+// Runge–Kutta–Munthe-Kaas (RKMK4): classic RK4 applied in the Lie algebra, mapped back to the group
+// with the exponential map, so the attitude stays on the unit sphere to roundoff with no
+// renormalization (Munthe-Kaas 1998).
+//
+// Within a step write q(t + τ) = q(t) ⊗ exp(θ(τ)/2) with the rotation vector θ(0) = 0. θ obeys the
+// rotation-vector (Bortz 1971) equation θ̇ = dexp⁻¹_θ(ω) = ω + ½ θ×ω + β(|θ|) θ×(θ×ω), with
+// β(x) = (1 − (x/2)·cot(x/2))/x² = 1/12 + x²/720 + … . RK4 integrates θ over the step and the
+// update is q₊ = q ⊗ exp(θ(dt)/2), a product of two unit quaternions: the norm carries no
+// truncation error, only the rounding of each step. When the rates vary, those roundings are
+// uncorrelated and | |q| − 1 | grows as a random walk (measured 0.23·√N·ε over 10⁶ steps in
+// double). When |θ| is the same every step (constant rate, coning) the scalar part cos(|θ|/2) is
+// rounded alike each step and the drift grows linearly, up to ~ε/4 per step (measured 0.09 ε in
+// double, 0.23 ε in float on coning). In float, quaternion_exp's series (used for |θ|² < 0.1)
+// drops a θ⁶/46080 term of one sign, another linear drift at coarse steps. Renormalization stays
+// the propagator's policy; this stepper only makes it rarely needed.
+//
+// dexp⁻¹ truncated to ω + ½ θ×ω + (1/12) θ×(θ×ω): the stage θ are O(dt), so the dropped terms are
+// O(dt⁴)·|ω| in θ̇, O(dt⁵) per step — what order 4 needs (Munthe-Kaas: commutators up to order p − 2
+// suffice) — and no libm call is made inside the stages. For constant ω every stage θ is parallel
+// to ω, both cross products vanish (to rounding), θ(dt) = ω·dt, and the step is the exact
+// exponential map.
+//
+// Why RKMK4 rather than Crouch–Grossman: a fourth-order Crouch–Grossman method composes one
+// exponential per stage (five stages, more order conditions); RKMK4 needs one exponential per step,
+// reuses the classic RK4 tableau and the generic stage-rate machinery, and its dexp⁻¹ correction is
+// the rotation-vector equation strapdown engineers already know.
+//
+// Inputs as for ExplicitRungeKutta: three samples (start, middle, end; two sample periods per
+// step): order 4; two samples with linear interpolation: order 2 only; a rate function: order 4.
+//
+// Cost (counted from the code; + − × ÷ one flop, sign flips free): stage 1 reads ω₁ (0); stages
+// 2–4: θ_i 7 per nonzero a_ij (a·dt 1, 3 ×, 3 +), dexp⁻¹ 30 (two cross products 18, 6 ×, 6 +);
+// θ(dt) 7 per nonzero b_i; quaternion_exp 20 on its series branch (|θ|² below
+// ScalarTraits::exp_series_angle_squared; above, add √, ÷, sin and cos, each counted 1);
+// product 28. Memory: four rate vectors and four algebra slopes on the stack; nothing between
+// steps.
+
+#include <array>
+#include <cstddef>
+#include <type_traits>
+
+#include "halfspin/core/exponential_map.hpp"
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/butcher_tableau.hpp"
+#include "halfspin/propagation/explicit_runge_kutta.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+
+namespace halfspin {
+
+namespace detail {
+
+// dexp⁻¹_θ(ω) truncated after the double cross product: ω + ½ θ×ω + (1/12) θ×(θ×ω) (rad/s).
+template <class T>
+constexpr Vector3<T> rotation_vector_rate(const Vector3<T>& theta, const Vector3<T>& w) noexcept {
+  const Vector3<T> once = cross(theta, w);
+  const Vector3<T> twice = cross(theta, once);
+  return w + T(0.5) * once + T(1.0L / 12) * twice;
+}
+
+}  // namespace detail
+
+// The Munthe-Kaas stepper on a tableau of order ≤ 4 (the dexp⁻¹ truncation limits it to 4).
+// q body → reference, ω rad/s, dt s; the result is unit to roundoff when q is.
+template <class Tableau, SampleLayout Layout, std::size_t Window>
+struct MuntheKaasRungeKutta {
+  static_assert(Tableau::value.order <= 4, "the dexp⁻¹ truncation supports order ≤ 4");
+  using Explicit = ExplicitRungeKutta<Tableau, Layout, Window>;  // same inputs, same order
+  static constexpr SampleLayout layout = Layout;
+  static constexpr std::size_t window = Window;
+  static constexpr std::size_t new_samples = Explicit::new_samples;
+  static constexpr std::size_t stages = Explicit::stages;
+  static constexpr int order = Explicit::order;
+  static constexpr int flops = 30 * (static_cast<int>(stages) - 1) +
+                               7 * static_cast<int>(detail::count_nonzero(Tableau::value.a) +
+                                                    detail::count_nonzero(Tableau::value.b)) +
+                               quaternion_exp_series_flops + quaternion_product_flops + detail::stage_rate_flops(Tableau::value, Layout, Window);
+  static constexpr const char* name = "munthe_kaas_runge_kutta";
+
+  // One step from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
+  template <class T, SampleLayout L = Layout,
+            std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
+  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, Window>& rate,
+                            T dt) noexcept {
+    return q * quaternion_exp(
+                   rotation_vector(detail::stage_rates_from_samples<Tableau, Window>(rate), dt));
+  }
+
+  // One step from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
+  template <class T, class RateFunction, SampleLayout L = Layout,
+            std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
+  static Quaternion<T> step(const Quaternion<T>& q, const RateFunction& rate_at, T dt) noexcept {
+    return q * quaternion_exp(
+                   rotation_vector(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt));
+  }
+
+  // The step's rotation vector θ(dt) (rad, body frame) from the rates at the stage times (rad/s).
+  template <class T>
+  static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, stages>& stage_rate,
+                                              T dt) noexcept {
+    using C = TableauCoefficients<Tableau, T>;
+    std::array<Vector3<T>, stages> k{};
+    k[0] = stage_rate[0];  // dexp⁻¹ at θ = 0 is the identity
+    for (std::size_t i = 1; i < stages; ++i) {
+      Vector3<T> theta = Vector3<T>::zero();
+      for (std::size_t j = 0; j < i; ++j) {
+        if (C::a[i][j] != T(0)) {
+          theta += (C::a[i][j] * dt) * k[j];
+        }
+      }
+      k[i] = detail::rotation_vector_rate(theta, stage_rate[i]);
+    }
+    Vector3<T> theta = Vector3<T>::zero();
+    for (std::size_t i = 0; i < stages; ++i) {
+      if (C::b[i] != T(0)) {
+        theta += (C::b[i] * dt) * k[i];
+      }
+    }
+    return theta;
+  }
+};
+
+// RKMK4, samples at start/middle/end (two sample periods per step): order 4.
+struct MuntheKaas4Sampled
+    : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 3> {
+  static constexpr const char* name = "rkmk4_sampled";
+};
+// RKMK4, linear interpolation between two samples: ONLY order 2.
+struct MuntheKaas4Interpolated
+    : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 2> {
+  static constexpr const char* name = "rkmk4_interpolated";
+};
+// RKMK4, rate function: order 4.
+struct MuntheKaas4RateFunction
+    : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rate_function, 0> {
+  static constexpr const char* name = "rkmk4_rate_function";
+};
+
+}  // namespace halfspin
