@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 
+#include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
@@ -168,4 +169,26 @@ TEMPLATE_TEST_CASE("reset re-anchors the attitude and restarts the history", "[p
   REQUIRE(p.push(w, T(1e-3)) == Status::waiting_for_samples);
   REQUIRE(p.push(w, T(1e-3)) == Status::waiting_for_samples);
   REQUIRE(p.push(w, T(1e-3)) == Status::ok);
+}
+
+TEMPLATE_TEST_CASE("an embedded pair's estimate reaches the propagator through advance()",
+                   "[propagation]", float, double) {
+  using T = TestType;
+  Propagator<T, DormandPrince54RateFunction> p(Quaternion<T>::identity(), limits<T>);
+  // A rate that turns (so the two embedded solutions differ): ω(t) = (cos 3t, sin 3t, 0.5).
+  T t0 = T(0);
+  const T dt = T(0.02);
+  T sum = T(0);
+  for (int k = 0; k < 10; ++k) {
+    const auto rate_at = [t0](T tau) {
+      return Vector3<T>{std::cos(T(3) * (t0 + tau)), std::sin(T(3) * (t0 + tau)), T(0.5)};
+    };
+    const StepOutcome<T> direct = DormandPrince54RateFunction::step_with_estimate(p.attitude(), rate_at, dt);
+    REQUIRE(p.advance(rate_at, dt) == Status::ok);
+    REQUIRE(p.last_error_estimate() == direct.error_estimate);
+    REQUIRE(p.last_error_estimate() > T(0));
+    sum += direct.error_estimate;
+    t0 = static_cast<T>(k + 1) * dt;
+  }
+  REQUIRE(p.accumulated_error_estimate() == Approx(static_cast<double>(sum)).epsilon(1e-5));
 }
