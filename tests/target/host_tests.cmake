@@ -29,4 +29,8 @@ foreach(cpu IN LISTS HALFSPIN_TARGET_CPUS)
   add_test(NAME target.${cpu}.tests COMMAND ${qemu} "${bin}/halfspin_target_tests.elf")
   set_tests_properties(target.${cpu}.tests PROPERTIES
     LABELS target FIXTURES_REQUIRED target_${cpu} TIMEOUT 600)
+
+  include("${CMAKE_CURRENT_LIST_DIR}/host_firmware.cmake")
+  include("${CMAKE_CURRENT_LIST_DIR}/host_footprint.cmake")
+  include("${CMAKE_CURRENT_LIST_DIR}/host_replay.cmake")
 endforeach()

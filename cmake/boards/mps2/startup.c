@@ -16,6 +16,9 @@ void halfspin_reset_handler(void);
 void _init(void) {}
 void _fini(void) {}
 static void halfspin_fault_handler(void) { exit(70); }
+/* The system timer's handler: an application defines SysTick_Handler to use it (the firmware
+ * example's simulated IMU interrupt); without one, a SysTick exception is a fault. */
+void SysTick_Handler(void) __attribute__((weak, alias("halfspin_fault_handler")));
 
 __attribute__((section(".vectors"), used)) const void* const halfspin_vectors[16] = {
     &__stack_top, (const void*)halfspin_reset_handler,
@@ -23,7 +26,7 @@ __attribute__((section(".vectors"), used)) const void* const halfspin_vectors[16
     (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler,
     (const void*)halfspin_fault_handler, 0, 0, 0, 0,
     (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler, 0,
-    (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler};
+    (const void*)halfspin_fault_handler, (const void*)SysTick_Handler};
 
 void halfspin_reset_handler(void) {
 #if defined(__ARM_FP)

@@ -36,7 +36,9 @@ struct Magnus4 {
   template <class T>
   static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, window>& rate,
                                               T dt) noexcept {
-    const Vector3<T> quadrature = (rate[0] + rate[2] + T(4) * rate[1]) * (dt / T(6));
+    // Multiplying by rounded 1/6 and 1/12 instead of dividing: a division costs 14 cycles on a
+    // Cortex-M4F, a multiplication 1.
+    const Vector3<T> quadrature = (rate[0] + rate[2] + T(4) * rate[1]) * (dt * T(1.0L / 6));
     return quadrature + commutator_term(rate, dt);
   }
 
@@ -44,7 +46,7 @@ struct Magnus4 {
   template <class T>
   static constexpr Vector3<T> commutator_term(const std::array<Vector3<T>, window>& rate,
                                               T dt) noexcept {
-    return cross(rate[0], rate[2]) * (dt * dt / T(12));
+    return cross(rate[0], rate[2]) * (dt * dt * T(1.0L / 12));
   }
 
   // q ⊗ exp(φ/2); rates in rad/s at start, middle, end of the step; dt in s.

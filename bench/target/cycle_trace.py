@@ -1,0 +1,124 @@
+#!/usr/bin/env python3
+"""Cycles per step on Cortex-M4F from the instructions qemu actually executes (the path the
+disassembly walk in cycle_estimate.py cannot follow: loops kept by the compiler, calls).
+
+  python3 bench/target/cycle_trace.py build/<dir>/target-cortex-m4f
+
+For each footprint/footprint_<stepper>_float_step.elf, runs it under qemu-system-arm with one
+instruction per translation block (-singlestep) and an execution log (-d exec,nochain), cuts the
+log into calls of halfspin_footprint_step (from its entry until control is back in main, callees
+included: the rate function of rate-function steppers, any libm call), and prices every executed
+instruction with the same Cortex-M4 timing table as cycle_estimate.py (FROM MEMORY; branches are
+"taken" when the next executed address is not the next instruction). qemu models no time: these
+are instruction-timing estimates along the executed path, not measurements, and assume zero wait
+states and no stalls. Reported: executed instructions and estimated cycles per step (mean over
+the image's calls).
+"""
+import os
+import re
+import subprocess
+import sys
+import tempfile
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from cycle_estimate import P, classify  # noqa: E402  (same timing table)
+
+FUNCTION = "halfspin_footprint_step"
+
+
+def disassembly(elf):
+    """address → (mnemonic, operands, next_address) for every instruction, and symbol ranges."""
+    out = subprocess.run(["arm-none-eabi-objdump", "-d", "--no-show-raw-insn", elf], check=True,
+                         capture_output=True, text=True).stdout
+    insns = {}
+    symbols = {}
+    current = None
+    order = []
+    for line in out.splitlines():
+        m = re.match(r"^([0-9a-f]+) <([^>]+)>:$", line)
+        if m:
+            current = m.group(2)
+            symbols[current] = [int(m.group(1), 16), None]
+            continue
+        m = re.match(r"^\s*([0-9a-f]+):\s+(\S+)\s*(.*)$", line)
+        if m and current and not m.group(2).startswith("."):
+            addr = int(m.group(1), 16)
+            insns[addr] = [m.group(2), m.group(3), None]
+            order.append(addr)
+            symbols[current][1] = addr
+    for a, b in zip(order, order[1:]):
+        insns[a][2] = b
+    return insns, symbols
+
+
+def executed_pcs(machine, elf):
+    with tempfile.TemporaryDirectory() as tmp:
+        log = os.path.join(tmp, "trace.log")
+        subprocess.run(["qemu-system-arm", "-M", machine, "-nographic", "-monitor", "none",
+                        "-semihosting-config", "enable=on,target=native", "-singlestep",
+                        "-d", "exec,nochain", "-D", log, "-kernel", elf],
+                       check=True, capture_output=True, timeout=600)
+        pcs = []
+        with open(log) as f:
+            for line in f:
+                m = re.search(r"\[[0-9a-f]+/([0-9a-f]+)/", line)
+                if m:
+                    pcs.append(int(m.group(1), 16))
+        return pcs
+
+
+def price(elf, machine="mps2-an386"):
+    insns, symbols = disassembly(elf)
+    start = symbols[FUNCTION][0]
+    main_lo, main_hi = symbols["main"]
+    pcs = executed_pcs(machine, elf)
+    calls = 0
+    cycles = 0
+    count = 0
+    inside = False
+    previous_memory = False
+    for i, pc in enumerate(pcs):
+        if pc == start:
+            inside = True
+            calls += 1
+        elif inside and main_lo <= pc <= main_hi:
+            inside = False
+        if not inside or pc not in insns:
+            continue
+        mnemonic, operands, sequential_next = insns[pc]
+        nxt = pcs[i + 1] if i + 1 < len(pcs) else None
+        base = mnemonic.split(".")[0]
+        is_branch = (base in ("b", "bl", "blx", "bx", "cbz", "cbnz") or
+                     (base.startswith("b") and len(base) == 3) or
+                     ("pc" in operands and base in ("pop", "ldmia", "ldm")))
+        if is_branch and base not in ("pop", "ldmia", "ldm"):
+            c, mem = (1 + P if nxt is not None and nxt != sequential_next else 1), False
+        else:
+            c, _, mem = classify(mnemonic, operands, previous_memory)
+        previous_memory = mem
+        cycles += c
+        count += 1
+    if calls == 0:
+        raise SystemExit(f"{FUNCTION} never ran in {elf}")
+    return count / calls, cycles / calls, calls
+
+
+def main(argv):
+    if len(argv) < 2:
+        print(__doc__)
+        return 2
+    footprint = os.path.join(argv[1], "footprint")
+    images = sorted(f for f in os.listdir(footprint) if f.endswith("_float_step.elf"))
+    print("Cortex-M4F cycles per step from the executed path under qemu (float, step function "
+          "with callees; timing table from memory, zero wait states).\n")
+    print("| stepper | executed instructions per step | estimated cycles per step |")
+    print("|---|---:|---:|")
+    for image in images:
+        name = image[len("footprint_"):-len("_float_step.elf")]
+        n, c, _ = price(os.path.join(footprint, image))
+        print(f"| `{name}` | {n:.0f} | {c:.0f} |")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main(sys.argv))

@@ -1,0 +1,92 @@
+# Footprint images (included by tests/target/CMakeLists.txt in the cross build): one minimal
+# image per stepper, scalar and mode from tests/target/footprint/footprint_image.cpp, written to
+# <build>/footprint/ with a manifest that the hygiene check (host_footprint.cmake) and the report
+# scripts (bench/target/) read. Modes: "propagator" (samples pushed through a Propagator with the
+# default first-order renormalization) and "step" (the stepper's step function alone).
+# Also the hygiene fixtures in <build>/hygiene-fixtures/: images that break one rule on purpose,
+# to prove each check can fail.
+
+# name | stepper type | scalars
+set(HALFSPIN_FOOTPRINT_STEPPERS
+  "expmap_hold_end|halfspin::ExpMapHoldEnd|float"
+  "expmap_hold_start|halfspin::ExpMapHoldStart|float"
+  "expmap_midpoint_mean|halfspin::ExpMapMidpointMean|float,double"
+  "expmap_midpoint_sample|halfspin::ExpMapMidpointSample|float"
+  "magnus4|halfspin::Magnus4|float,double"
+  "rk2_sampled|halfspin::RungeKutta2Sampled|float"
+  "rk2_interpolated|halfspin::RungeKutta2Interpolated|float"
+  "rk3_sampled|halfspin::RungeKutta3Sampled|float"
+  "rk3_interpolated|halfspin::RungeKutta3Interpolated|float"
+  "rk4_sampled|halfspin::RungeKutta4Sampled|float,double"
+  "rk4_interpolated|halfspin::RungeKutta4Interpolated|float"
+  "rkmk4_sampled|halfspin::MuntheKaas4Sampled|float"
+  "coning_1|halfspin::ConingOneSample|float"
+  "coning_1_plus_previous|halfspin::ConingOneSamplePlusPrevious|float"
+  "coning_2|halfspin::ConingTwoSample|float,double"
+  "coning_3|halfspin::ConingThreeSample|float"
+  "coning_4|halfspin::ConingFourSample|float"
+  "rk4_rate_function|halfspin::RungeKutta4RateFunction|float"
+  "dp54_rate_function|halfspin::DormandPrince54RateFunction|float")
+
+# The project's warning set as errors, on the C++ sources (the C startup file is the board's).
+# HALFSPIN_WARNING_FLAGS is set inside the add_subdirectory() of the library, so it is empty at
+# this level; loading it inside a function keeps the fix local to these images.
+function(halfspin_footprint_warnings target)
+  include("${CMAKE_CURRENT_FUNCTION_LIST_DIR}/../../cmake/HalfspinWarnings.cmake")
+  target_compile_options(${target} PRIVATE
+    "$<$<COMPILE_LANGUAGE:CXX>:${HALFSPIN_WARNING_FLAGS};-Werror>")
+endfunction()
+
+# An image on the board's memory map with the minimal reset of footprint/minimal_startup.c
+# instead of the board's startup file (whose semihosting console links newlib's stdio and heap;
+# see minimal_startup.c). libnosys only resolves system calls that something really references
+# (the heap fixture's malloc needs _sbrk); nothing in a clean image does.
+function(halfspin_add_footprint_executable name)
+  add_executable(${name} ${ARGN} "${CMAKE_CURRENT_FUNCTION_LIST_DIR}/footprint/minimal_startup.c")
+  set_target_properties(${name} PROPERTIES SUFFIX ".elf")
+  target_link_libraries(${name} PRIVATE halfspin::halfspin)
+  target_link_options(${name} PRIVATE
+    "-T${HALFSPIN_MPS2_DIR}/mps2.ld" --specs=nosys.specs -nostartfiles
+    "-Wl,-Map=$<TARGET_FILE_DIR:${name}>/${name}.map")
+  set_target_properties(${name} PROPERTIES LINK_DEPENDS "${HALFSPIN_MPS2_DIR}/mps2.ld")
+endfunction()
+
+set(HALFSPIN_FOOTPRINT_DIR "${CMAKE_BINARY_DIR}/footprint")
+set(_halfspin_footprint_manifest "")
+
+foreach(entry IN LISTS HALFSPIN_FOOTPRINT_STEPPERS)
+  string(REPLACE "|" ";" fields "${entry}")
+  list(GET fields 0 stepper_name)
+  list(GET fields 1 stepper_type)
+  list(GET fields 2 scalars)
+  string(REPLACE "," ";" scalars "${scalars}")
+  foreach(scalar IN LISTS scalars)
+    foreach(mode IN ITEMS propagator step)
+      set(image footprint_${stepper_name}_${scalar}_${mode})
+      halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
+      target_compile_definitions(${image} PRIVATE
+        "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
+        "HALFSPIN_FOOTPRINT_SCALAR=${scalar}"
+        "HALFSPIN_FOOTPRINT_STEP_ONLY=$<STREQUAL:${mode},step>")
+      # Per-function stack frames (<object>.su) for the report's stack column.
+      target_compile_options(${image} PRIVATE -fstack-usage)
+      halfspin_footprint_warnings(${image})
+      set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
+      # manifest line: image stepper scalar mode stepper-type
+      string(APPEND _halfspin_footprint_manifest
+        "${image} ${stepper_name} ${scalar} ${mode} ${stepper_type}\n")
+    endforeach()
+  endforeach()
+endforeach()
+file(MAKE_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
+file(WRITE "${HALFSPIN_FOOTPRINT_DIR}/manifest.txt" "${_halfspin_footprint_manifest}")
+
+# Fixtures that must fail the hygiene check (tests in host_footprint.cmake). Kept out of the
+# directories the check scans as the project's images.
+foreach(fixture IN ITEMS heap double exceptions)
+  set(image hygiene_fixture_${fixture})
+  halfspin_add_footprint_executable(${image} footprint/hygiene_fixture_${fixture}.cpp)
+  halfspin_footprint_warnings(${image})
+  set_target_properties(${image} PROPERTIES
+    RUNTIME_OUTPUT_DIRECTORY "${CMAKE_BINARY_DIR}/hygiene-fixtures")
+endforeach()

@@ -1,0 +1,170 @@
+// One minimal image per stepper for the footprint table, the hygiene checks and the cycle
+// estimates (tests/target/footprint.cmake builds it once per stepper, scalar and mode). No printf:
+// the image holds the halfspin code, the startup file and only the libm/libgcc helpers that code
+// really needs, so what the linker pulls in is what a firmware build would pay.
+//
+// Selected by compile definitions (one translation unit, many images):
+//   HALFSPIN_FOOTPRINT_STEPPER    a stepper type, e.g. halfspin::Magnus4
+//   HALFSPIN_FOOTPRINT_SCALAR     float or double
+//   HALFSPIN_FOOTPRINT_STEP_ONLY  1: only the stepper's step function (stepper cost alone);
+//                                 0: samples pushed through a Propagator (stepper + propagator)
+//
+// The halfspin code sits in one non-inlined extern "C" function per image
+// (halfspin_footprint_push, halfspin_footprint_advance or halfspin_footprint_step), so that
+// `nm --size-sort` attributes its flash and bench/target/cycle_estimate.py finds the step function
+// in the disassembly. Inputs come from volatile arrays and the result goes to a volatile output,
+// so the compiler can neither fold the computation away nor specialize it to the input values.
+#include <array>
+#include <cstddef>
+
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/coning_compensation.hpp"
+#include "halfspin/propagation/embedded_runge_kutta.hpp"
+#include "halfspin/propagation/explicit_runge_kutta.hpp"
+#include "halfspin/propagation/exponential_map_step.hpp"
+#include "halfspin/propagation/gyro_input.hpp"
+#include "halfspin/propagation/lie_group_runge_kutta.hpp"
+#include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/propagator.hpp"
+#include "halfspin/propagation/renormalization.hpp"
+#include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+
+#if !defined(HALFSPIN_FOOTPRINT_STEPPER) || !defined(HALFSPIN_FOOTPRINT_SCALAR) || \
+    !defined(HALFSPIN_FOOTPRINT_STEP_ONLY)
+#error "footprint.cmake sets HALFSPIN_FOOTPRINT_STEPPER, _SCALAR and _STEP_ONLY"
+#endif
+
+namespace {
+
+using Stepper = HALFSPIN_FOOTPRINT_STEPPER;
+using T = HALFSPIN_FOOTPRINT_SCALAR;
+using Vec = halfspin::Vector3<T>;
+using Quat = halfspin::Quaternion<T>;
+
+constexpr bool step_only = HALFSPIN_FOOTPRINT_STEP_ONLY != 0;
+constexpr bool rate_function = Stepper::layout == halfspin::SampleLayout::rate_function;
+constexpr bool delta_angles = halfspin::carries_delta_angles(Stepper::layout);
+constexpr std::size_t input_count = 4;
+
+// A trivial analytic rate, ω(τ) = a + b·τ (rad/s, τ in s from step start), for the steppers whose
+// stages fall between samples.
+struct LinearRate {
+  Vec a;
+  Vec b;
+  Vec operator()(T tau) const noexcept { return a + tau * b; }
+};
+
+}  // namespace
+
+// Invented input, rad/s (scaled by dt for delta-angle steppers): a slow tumble, nothing measured.
+extern "C" {
+volatile T halfspin_footprint_input[input_count][3] = {{T(0.10), T(-0.20), T(0.30)},
+                                                       {T(0.12), T(-0.18), T(0.31)},
+                                                       {T(0.14), T(-0.16), T(0.29)},
+                                                       {T(0.13), T(-0.19), T(0.28)}};
+volatile T halfspin_footprint_dt = T(0.001);        // s
+volatile unsigned halfspin_footprint_repeat = 256;  // passes over the input (cycle measurements)
+volatile T halfspin_footprint_output[4];
+}
+
+namespace {
+
+Vec read_sample(std::size_t k) noexcept {
+  const T scale = delta_angles ? T(halfspin_footprint_dt) : T(1);
+  return Vec{halfspin_footprint_input[k][0] * scale, halfspin_footprint_input[k][1] * scale,
+             halfspin_footprint_input[k][2] * scale};
+}
+
+void write_output(const Quat& q) noexcept {
+  halfspin_footprint_output[0] = q.w;
+  halfspin_footprint_output[1] = q.x;
+  halfspin_footprint_output[2] = q.y;
+  halfspin_footprint_output[3] = q.z;
+}
+
+}  // namespace
+
+#if HALFSPIN_FOOTPRINT_STEP_ONLY
+
+// The stepper alone: one step from q with the given input. For rate-function steppers the input
+// holds a and b of the linear rate in its first two entries.
+using StepInput = std::array<Vec, rate_function ? 2 : Stepper::window>;
+
+namespace {
+// A template, so that only the branch for the stepper's layout is instantiated.
+template <class S>
+Quat step_once(const Quat& q, const StepInput& input, T dt) noexcept {
+  if constexpr (S::layout == halfspin::SampleLayout::rate_function) {
+    return S::step(q, LinearRate{input[0], input[1]}, dt);
+  } else {
+    return S::template step<T>(q, input, dt);
+  }
+}
+}  // namespace
+
+extern "C" __attribute__((noinline)) Quat halfspin_footprint_step(const Quat& q,
+                                                                  const StepInput& input,
+                                                                  T dt) noexcept {
+  return step_once<Stepper>(q, input, dt);
+}
+
+int main() {
+  Quat q = Quat::identity();
+  const unsigned repeat = halfspin_footprint_repeat;
+  for (unsigned r = 0; r < repeat; ++r) {
+    StepInput input{};
+    for (std::size_t i = 0; i < input.size(); ++i) {
+      input[i] = read_sample(i % input_count);
+    }
+    q = halfspin_footprint_step(q, input, T(halfspin_footprint_dt));
+  }
+  write_output(q);
+  return 0;
+}
+
+#else
+
+namespace {
+using Propagator = halfspin::Propagator<T, Stepper>;
+}  // namespace
+
+// The propagator object lives in .bss/.data (not on the stack) so that its size shows up as a
+// symbol of its own in the RAM column.
+extern "C" {
+Propagator halfspin_footprint_propagator(Quat::identity(), halfspin::GyroLimits<T>{T(35), T(0.01)});
+}
+
+namespace {
+// A template, so that only the entry point for the stepper's layout is instantiated.
+template <class S>
+halfspin::Status push_once(halfspin::Propagator<T, S>& p, const Vec& sample, T dt) noexcept {
+  if constexpr (S::layout == halfspin::SampleLayout::rate_function) {
+    // Rate-function steppers take a callable instead of samples: a = the sample, b = −a/2.
+    return p.advance(LinearRate{sample, T(-0.5) * sample}, dt);
+  } else {
+    return p.push(sample, dt);
+  }
+}
+}  // namespace
+
+extern "C" __attribute__((noinline)) halfspin::Status halfspin_footprint_push(const Vec& sample,
+                                                                             T dt) noexcept {
+  return push_once(halfspin_footprint_propagator, sample, dt);
+}
+
+int main() {
+  const unsigned repeat = halfspin_footprint_repeat;
+  unsigned rejected = 0;
+  for (unsigned r = 0; r < repeat; ++r) {
+    for (std::size_t k = 0; k < input_count; ++k) {
+      const halfspin::Status s = halfspin_footprint_push(read_sample(k), T(halfspin_footprint_dt));
+      rejected += halfspin::is_rejection(s) ? 1u : 0u;
+    }
+  }
+  write_output(halfspin_footprint_propagator.attitude());
+  return rejected == 0 ? 0 : 1;
+}
+
+#endif
