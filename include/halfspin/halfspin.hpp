@@ -43,6 +43,9 @@
 #include "halfspin/propagation/stepper_traits.hpp"
 #include "halfspin/propagation/two_speed.hpp"
 
+// bounds
+#include "halfspin/bounds/motion_description.hpp"
+
 // truth
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"

@@ -28,54 +28,19 @@
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
 #include "halfspin/truth/two_gimbal.hpp"
+#include "propagation_runs.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
 using test::widen;
 using test::narrow;
+using test::max_error;
+using test::RunError;
 
 namespace {
 
 using LD = long double;
 constexpr LD two_pi = 6.283185307179586476925286766559005768L;
-
-struct RunError {
-  LD error;  // largest angle (rad) between propagated and true attitude at step ends
-  long steps;
-};
-
-// Propagates over [0, horizon], sampling the motion every h seconds as the stepper's layout asks.
-template <class Stepper, class T, class Motion>
-RunError max_error(const Motion& m, LD h, LD horizon) {
-  Propagator<T, Stepper, ExactRenormalization> p(narrow<T>(m.attitude(0)), GyroLimits<T>{T(1e3), T(10)});
-  const long samples = std::lround(horizon / h);
-  LD worst = 0;
-  auto compare = [&](long k) {
-    worst = std::fmax(worst, angle_between(widen(p.attitude()), m.attitude(static_cast<LD>(k) * h)));
-  };
-  if constexpr (Stepper::layout == SampleLayout::rate_function) {
-    for (long k = 0; k < samples; ++k) {
-      const LD t0 = static_cast<LD>(k) * h;
-      REQUIRE(p.advance([&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); },
-                        static_cast<T>(h)) == Status::ok);
-      compare(k + 1);
-    }
-  } else {
-    const long first = Stepper::layout == SampleLayout::rates_spanning ? 0 : 1;
-    for (long k = first; k <= samples; ++k) {
-      const LD t = static_cast<LD>(k) * h;
-      const Vector3<T> sample = carries_delta_angles(Stepper::layout)
-                                    ? narrow<T>(truth_delta_angle(m, t - h, t))
-                                    : narrow<T>(m.rate(t));
-      const Status s = p.push(sample, static_cast<T>(h));
-      REQUIRE(!is_rejection(s));
-      if (s == Status::ok) {
-        compare(k);
-      }
-    }
-  }
-  return {worst, static_cast<long>(p.counters().steps)};
-}
 
 struct Sweep {
   std::vector<double> h, error, floor;  // sample period (s), error (rad), roundoff floor (rad)
