@@ -44,7 +44,12 @@
 #include "halfspin/propagation/two_speed.hpp"
 
 // bounds
+#include "halfspin/bounds/coning_error.hpp"
+#include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/bounds/recommendation.hpp"
+#include "halfspin/bounds/roundoff_floor.hpp"
+#include "halfspin/bounds/step_selection.hpp"
 
 // truth
 #include "halfspin/truth/axisymmetric_body.hpp"

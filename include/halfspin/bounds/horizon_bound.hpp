@@ -1,0 +1,92 @@
+#pragma once
+// The attitude-error bound over a horizon: steps × (local truncation bound) + roundoff floor.
+//
+// Why linear accumulation is rigorous: for the exact increment Φ* and the numerical Φ of a step,
+// d(q ⊗ Φ, Q ⊗ Φ*) ≤ d(q ⊗ Φ, Q ⊗ Φ) + d(Q ⊗ Φ, Q ⊗ Φ*) = d(q, Q) + d(Φ, Φ*) in the bi-invariant
+// angle metric, so the global error after N steps is at most the sum of the N local errors, with
+// no growth factor; rounding adds its own per-step angle the same way (roundoff_floor.hpp).
+//
+// The local term: for pure classical coning the exact per-step error (coning_error.hpp); for any
+// other motion LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step
+// bound over every rate with those derivative bounds. A stepper without a LocalErrorBound
+// specialization gets +∞ for non-coning motions ("no bound known": we do not guess), so the
+// recommendation can list it as unbounded instead of failing to compile.
+//
+// The expected form replaces the worst-case roundoff floor with the random-walk one; the
+// truncation part stays worst case (truncation errors of a smooth motion do not cancel at
+// random).
+
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <limits>
+#include <type_traits>
+#include <utility>
+
+#include "halfspin/bounds/coning_error.hpp"
+#include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/bounds/roundoff_floor.hpp"
+
+namespace halfspin {
+
+// Primary template undefined: a stepper without a bound does not compile where a bound is
+// required (see the shared interface in the bounds headers of each stepper family).
+template <class Stepper>
+struct LocalErrorBound;
+
+// Whether LocalErrorBound<Stepper> is specialized with a `local` for scalar T. Decided at the
+// point where the bound code is first instantiated: include the stepper's bound header before.
+template <class Stepper, class T, class = void>
+struct has_local_error_bound : std::false_type {};
+template <class Stepper, class T>
+struct has_local_error_bound<
+    Stepper, T,
+    std::void_t<decltype(LocalErrorBound<Stepper>::template local<T>(
+        std::declval<const RateEnvelope<T>&>(), std::declval<T>()))>> : std::true_type {};
+
+// Steps (≥ 1) of length dt (s) that cover horizon_s (s): ceil(horizon/dt).
+template <class T>
+std::int64_t steps_for_horizon(T dt, T horizon_s) noexcept {
+  const T n = std::ceil(horizon_s / dt);
+  return n < T(1) ? std::int64_t{1} : static_cast<std::int64_t>(n);
+}
+
+// Local truncation bound (rad) of one step of length dt (s): exact under pure coning, else the
+// stepper's LocalErrorBound over the description's envelope, +∞ where neither applies.
+template <class Stepper, class T>
+T local_truncation_bound(const MotionDescription<T>& description, T dt) noexcept {
+  if (description.is_pure_coning()) {
+    return coning_step_error<Stepper>(description.coning, dt);
+  }
+  if constexpr (has_local_error_bound<Stepper, T>::value) {
+    return LocalErrorBound<Stepper>::template local<T>(description.envelope(), dt);
+  } else {
+    return std::numeric_limits<T>::infinity();
+  }
+}
+
+// Rotation angle bound (rad) of one step of length dt (s), θ = D0·dt, for the roundoff model.
+template <class T>
+T step_rotation_bound(const MotionDescription<T>& description, T dt) noexcept {
+  return description.envelope().derivative[0] * dt;
+}
+
+// Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper
+// in T: ceil(horizon/dt) × local truncation bound + worst-case roundoff floor.
+template <class Stepper, class T>
+T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
+  const std::int64_t steps = steps_for_horizon(dt, horizon_s);
+  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
+         roundoff_floor_worst<Stepper, T>(step_rotation_bound(description, dt), steps);
+}
+
+// Expected attitude error (rad) after horizon_s (s): the same truncation part plus the random-walk
+// roundoff floor. A typical size, not a bound.
+template <class Stepper, class T>
+T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
+  const std::int64_t steps = steps_for_horizon(dt, horizon_s);
+  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
+         roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
+}
+
+}  // namespace halfspin

@@ -1,0 +1,109 @@
+#pragma once
+// The cheapest stepper, from a compile-time list, that meets an attitude-error budget at a given
+// gyro sample rate.
+//
+// The gyro fixes the sample period h = 1/sample_rate; each stepper's step spans its
+// periods_per_step(layout, window) periods, so its step is dt = periods·h and it runs
+// sample_rate/periods steps per second. Its cost is Stepper::flops × steps per second (flop/s),
+// the flops being the per-step count written down in each stepper's header. Each candidate's
+// bound is the worst-case horizon bound (horizon_bound.hpp) at that dt; the answer is the
+// candidate of least cost whose bound meets the budget (ties: the smaller bound, then the earlier
+// in the list). Every candidate's outcome is returned, so a caller can say why the cheaper ones
+// failed: over budget (with their bound) or no finite bound.
+
+#include <array>
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <limits>
+
+#include "halfspin/bounds/horizon_bound.hpp"
+#include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+
+namespace halfspin {
+
+// A compile-time list of candidate steppers.
+template <class... Steppers>
+struct StepperList {};
+
+enum class CandidateOutcome : std::uint8_t {
+  meets_budget,
+  over_budget,  // finite bound above the budget
+  no_bound      // bound +∞ or NaN: a derivative bound it needs is unknown, or no bound exists
+};
+
+template <class T>
+struct CandidateReport {
+  const char* name = "";
+  T step_s = T(0);            // dt = periods per step / sample rate (s)
+  T bound_rad = T(0);         // worst-case horizon bound (rad)
+  T cost_flops_per_s = T(0);  // flops per step × steps per second
+  CandidateOutcome outcome = CandidateOutcome::no_bound;
+};
+
+template <class T, std::size_t N>
+struct Recommendation {
+  bool found = false;
+  std::size_t index = N;             // position of the chosen stepper in the list (N if none)
+  const char* name = "";             // its name ("" if none)
+  T bound_rad = T(0);                // its bound (rad)
+  T cost_flops_per_s = T(0);         // its cost (flop/s)
+  std::array<CandidateReport<T>, N> candidates{};  // every candidate, in list order
+};
+
+namespace detail {
+
+template <class Stepper, class T>
+CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T budget_rad,
+                                    T horizon_s, T sample_rate_hz) noexcept {
+  CandidateReport<T> c{};
+  const T periods = static_cast<T>(periods_per_step(Stepper::layout, Stepper::window));
+  c.name = Stepper::name;
+  c.step_s = periods / sample_rate_hz;
+  c.cost_flops_per_s = static_cast<T>(Stepper::flops) * sample_rate_hz / periods;
+  c.bound_rad = horizon_error_bound<Stepper>(description, c.step_s, horizon_s);
+  if (!std::isfinite(c.bound_rad)) {
+    c.outcome = CandidateOutcome::no_bound;
+  } else {
+    c.outcome = c.bound_rad <= budget_rad ? CandidateOutcome::meets_budget
+                                          : CandidateOutcome::over_budget;
+  }
+  return c;
+}
+
+}  // namespace detail
+
+// The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
+// (rad) at sample_rate_hz (Hz) gyro samples, for scalar T; every candidate's outcome included.
+template <class T, class... Steppers>
+Recommendation<T, sizeof...(Steppers)> recommend_stepper(StepperList<Steppers...> /*list*/,
+                                                         const MotionDescription<T>& description,
+                                                         T budget_rad, T horizon_s,
+                                                         T sample_rate_hz) noexcept {
+  constexpr std::size_t n = sizeof...(Steppers);
+  Recommendation<T, n> r{};
+  if (!(sample_rate_hz > T(0)) || !(horizon_s > T(0)) || !(budget_rad > T(0))) {
+    return r;
+  }
+  r.candidates = {{detail::assess_candidate<Steppers, T>(description, budget_rad, horizon_s,
+                                                          sample_rate_hz)...}};
+  for (std::size_t i = 0; i < n; ++i) {
+    const CandidateReport<T>& c = r.candidates[i];
+    if (c.outcome != CandidateOutcome::meets_budget) {
+      continue;
+    }
+    const bool better = !r.found || c.cost_flops_per_s < r.cost_flops_per_s ||
+                        (c.cost_flops_per_s == r.cost_flops_per_s && c.bound_rad < r.bound_rad);
+    if (better) {
+      r.found = true;
+      r.index = i;
+      r.name = c.name;
+      r.bound_rad = c.bound_rad;
+      r.cost_flops_per_s = c.cost_flops_per_s;
+    }
+  }
+  return r;
+}
+
+}  // namespace halfspin
