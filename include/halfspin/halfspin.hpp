@@ -46,9 +46,11 @@
 // bounds
 #include "halfspin/bounds/coning_error.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
+#include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
+#include "halfspin/bounds/runge_kutta_bounds.hpp"
 #include "halfspin/bounds/step_selection.hpp"
 
 // truth

@@ -24,8 +24,12 @@
 #include <utility>
 
 #include "halfspin/bounds/coning_error.hpp"
+#include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
+#include "halfspin/bounds/runge_kutta_bounds.hpp"
+#include "halfspin/propagation/coning_compensation.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
 
@@ -34,8 +38,10 @@ namespace halfspin {
 template <class Stepper>
 struct LocalErrorBound;
 
-// Whether LocalErrorBound<Stepper> is specialized with a `local` for scalar T. Decided at the
-// point where the bound code is first instantiated: include the stepper's bound header before.
+// Whether LocalErrorBound<Stepper> is specialized with a `local` for scalar T. This header
+// includes every bound header of the library, so the answer is the same in every translation unit
+// for the library's steppers; a user's own stepper must have its bound declared before this
+// header is included.
 template <class Stepper, class T, class = void>
 struct has_local_error_bound : std::false_type {};
 template <class Stepper, class T>
@@ -71,12 +77,28 @@ T step_rotation_bound(const MotionDescription<T>& description, T dt) noexcept {
   return description.envelope().derivative[0] * dt;
 }
 
+// Extra error (rad) of the propagator's first step. A stepper that uses the previous step's last
+// delta-angle (ConingOneSamplePlusPrevious) starts from a zero previous sample (propagator.hpp),
+// so its first step lacks the correction c·Δθ_prev × Δθ, |·| ≤ c·(D0·dt)² with c = 1/12; every
+// other stepper's first step is an ordinary step.
+template <class Stepper, class T>
+T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
+  if constexpr (Stepper::layout == SampleLayout::delta_angles_with_previous) {
+    const T angle = description.envelope().derivative[0] * dt;
+    const auto& c = coning_coefficients::one_sample_plus_previous;
+    return T(c.numerators[0]) / T(c.denominator) * angle * angle;
+  } else {
+    return T(0);
+  }
+}
+
 // Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper
-// in T: ceil(horizon/dt) × local truncation bound + worst-case roundoff floor.
+// in T: ceil(horizon/dt) × local truncation bound + the first step's extra + worst-case roundoff.
 template <class Stepper, class T>
 T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
   return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
+         startup_bound<Stepper>(description, dt) +
          roundoff_floor_worst<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
@@ -86,6 +108,7 @@ template <class Stepper, class T>
 T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
   return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
+         startup_bound<Stepper>(description, dt) +
          roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
