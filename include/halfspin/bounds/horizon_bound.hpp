@@ -77,16 +77,38 @@ T step_rotation_bound(const MotionDescription<T>& description, T dt) noexcept {
   return description.envelope().derivative[0] * dt;
 }
 
-// Extra error (rad) of the propagator's first step. A stepper that uses the previous step's last
+// Truncation part (rad) of the horizon bound over `steps` steps by worst-case linear accumulation:
+// steps × the exact per-step error for pure coning, else steps × the local bound. (For pure coning
+// coning_truncation_bound_tight in coning_error.hpp also bounds the part of the error that turns
+// with the cone instead of adding it up.)
+template <class Stepper, class T>
+T truncation_bound(const MotionDescription<T>& description, T dt, std::int64_t steps) noexcept {
+  if (description.is_pure_coning()) {
+    return coning_truncation_bound<Stepper>(description.coning, dt, steps);
+  }
+  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt);
+}
+
+// Extra error (rad) of the propagator's first step (exact under pure coning). A stepper that uses
+// the previous step's last
 // delta-angle (ConingOneSamplePlusPrevious) starts from a zero previous sample (propagator.hpp),
-// so its first step lacks the correction c·Δθ_prev × Δθ, |·| ≤ c·(D0·dt)² with c = 1/12; every
-// other stepper's first step is an ordinary step.
+// so its first step lacks the correction c·Δθ_prev × Δθ with c = 1/12. Since
+// Δθ_prev × Δθ = Δθ_prev × (Δθ − Δθ_prev) and |Δθ − Δθ_prev| ≤ D1·dt² (each is ∫ω over dt, the two
+// a step apart), |c·Δθ_prev × Δθ| ≤ c·D0·dt·min(D0·dt, D1·dt²). Every other stepper's first step is
+// an ordinary step.
 template <class Stepper, class T>
 T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
   if constexpr (Stepper::layout == SampleLayout::delta_angles_with_previous) {
-    const T angle = description.envelope().derivative[0] * dt;
+    if (description.is_pure_coning()) {  // exact for coning (coning_error.hpp)
+      return static_cast<T>(coning_startup_error<Stepper>(
+          static_cast<long double>(description.coning.half_angle),
+          static_cast<long double>(description.coning.frequency_hz), static_cast<long double>(dt)));
+    }
+    const RateEnvelope<T> e = description.envelope();
+    const T angle = e.derivative[0] * dt;
+    const T change = e.derivative[1] * dt * dt;
     const auto& c = coning_coefficients::one_sample_plus_previous;
-    return T(c.numerators[0]) / T(c.denominator) * angle * angle;
+    return T(c.numerators[0]) / T(c.denominator) * angle * (change < angle ? change : angle);
   } else {
     return T(0);
   }
@@ -97,8 +119,7 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
 template <class Stepper, class T>
 T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
-         startup_bound<Stepper>(description, dt) +
+  return truncation_bound<Stepper>(description, dt, steps) + startup_bound<Stepper>(description, dt) +
          roundoff_floor_worst<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
@@ -107,8 +128,7 @@ T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s
 template <class Stepper, class T>
 T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt) +
-         startup_bound<Stepper>(description, dt) +
+  return truncation_bound<Stepper>(description, dt, steps) + startup_bound<Stepper>(description, dt) +
          roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
