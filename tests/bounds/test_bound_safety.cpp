@@ -225,7 +225,7 @@ void check_tight_at_constant_rate() {
     if (run.error < 100 * floor) {
       continue;
     }
-    const LD bound = horizon_error_bound<Stepper, T>(d, static_cast<T>(h) * periods, T(2));
+    const LD bound = test::ld(horizon_error_bound<Stepper, T>(d, static_cast<T>(h) * periods, T(2)));
     INFO(Stepper::name << " at constant rate, h = " << static_cast<double>(h));
     CHECK(bound <= 10 * run.error);
     largest = std::fmax(largest, static_cast<double>(bound / run.error));
