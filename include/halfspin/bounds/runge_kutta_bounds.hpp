@@ -132,6 +132,25 @@ constexpr T binomial(std::size_t n, std::size_t k) noexcept {
   return r;
 }
 
+// Where stage i's rate comes from, as fractions of the step: Window == 0 (a rate function) reads it
+// at c_i (lo); with samples, it is interpolated between the samples at lo and hi with weight frac.
+template <class T>
+struct StageInterval {
+  T lo;
+  T hi;
+  T frac;
+};
+template <class T, std::size_t Window, class Positions, class Fractions, class C>
+constexpr StageInterval<T> stage_interval(C c_i, const Positions& pos, const Fractions& fraction,
+                                          std::size_t i) noexcept {
+  if (Window == 0) {
+    return {static_cast<T>(c_i), T(0), T(0)};
+  }
+  const T periods = T(static_cast<int>(Window - 1));
+  return {T(static_cast<int>(pos.lower[i])) / periods, T(static_cast<int>(pos.lower[i] + 1)) / periods,
+          fraction[i]};
+}
+
 // The local bound of section 2–3 above for tableau `Tableau`, Window rate samples spanning the
 // step (0: exact stage rates from a rate function) and state order p. Envelope in rad/s^(k+1),
 // h in s, result in rad.
@@ -192,17 +211,10 @@ T runge_kutta_local_bound(const RateEnvelope<T>& e, T h) noexcept {
   std::array<std::array<T, 6>, S> alpha{};
   std::array<std::array<T, 6>, S> dalpha{};
   for (std::size_t i = 0; i < S; ++i) {
-    T lo = T(0);
-    T hi = T(0);
-    T frac = T(0);
-    if (Window == 0) {
-      lo = Coefficients::c[i];
-    } else {
-      const T periods = T(static_cast<int>(Window - 1));
-      lo = T(static_cast<int>(pos.lower[i])) / periods;
-      hi = T(static_cast<int>(pos.lower[i] + 1)) / periods;
-      frac = fraction[i];
-    }
+    const StageInterval<T> iv = stage_interval<T, Window>(Coefficients::c[i], pos, fraction, i);
+    const T lo = iv.lo;
+    const T hi = iv.hi;
+    const T frac = iv.frac;
     T plo = T(1);
     T phi_k = T(1);
     alpha[i][0] = a[0];
@@ -408,17 +420,10 @@ T munthe_kaas_local_bound(const RateEnvelope<T>& env, T h) noexcept {
   // (A), RK side.
   std::array<std::array<T, 6>, S> kk{};
   for (std::size_t i = 0; i < S; ++i) {
-    T lo = T(0);
-    T hi = T(0);
-    T frac = T(0);
-    if (Window == 0) {
-      lo = Coefficients::c[i];
-    } else {
-      const T periods = T(static_cast<int>(Window - 1));
-      lo = T(static_cast<int>(pos.lower[i])) / periods;
-      hi = T(static_cast<int>(pos.lower[i] + 1)) / periods;
-      frac = fraction[i];
-    }
+    const StageInterval<T> iv = stage_interval<T, Window>(Coefficients::c[i], pos, fraction, i);
+    const T lo = iv.lo;
+    const T hi = iv.hi;
+    const T frac = iv.frac;
     const T ci = Coefficients::c[i];
     std::array<T, 6> ei{};
     std::array<T, 6> wi{};
