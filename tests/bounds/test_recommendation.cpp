@@ -1,13 +1,15 @@
 // The recommendation (bounds/recommendation.hpp) on three invented scenarios, each worked out by
 // hand below from leading-order formulas, then checked: the chosen stepper, and every candidate's
 // bound within 15 % of the hand value (so the hand working, not just the decision, is checked).
-// Sources of the hand formulas: the per-step coning errors of the coning algorithms as derived in
-// propagation/coning_compensation.hpp (the coning motion: Miller 1983; coefficients: Ignagni
-// 1990), the zero-order-hold error ∫(ω(h) − ω(τ))dτ ≈ ω̇h²/2 (common practice, no source), and
-// the rounding model of roundoff_floor.hpp (Higham 2002). Costs: flops per step from each
-// stepper's header divided by its periods per step: hold-end 51, midpoint-mean 55, RK2
-// interpolated 68, RK4 sampled 144/2 = 72, one-sample 48, two-sample 66/2 = 33, three-sample
-// 96/3 = 32, four-sample 138/4 = 34.5 flops per gyro sample.
+// Sources of the hand formulas: the coning motion and its drift (Miller 1983), the coning
+// algorithms' coefficients and residuals as derived in propagation/coning_compensation.hpp
+// (Ignagni 1990), the rotation vector of a step Φ* = ∫ω + ½∫α×ω + … (Bortz 1971), the quadrature
+// errors of the hold and trapezoid rules (common practice, no source), and the rounding model of
+// roundoff_floor.hpp (Higham 2002). Costs: flops per step from each stepper's header divided by
+// its periods per step: hold-end 51, midpoint-mean 55, RK2 interpolated 68, RK4 sampled
+// 144/2 = 72, one-sample 48, two-sample 66/2 = 33, three-sample 96/3 = 32, four-sample
+// 138/4 = 34.5 flops per gyro sample.
+//
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -37,35 +39,60 @@ void check_candidate(const Recommendation<T, N>& r, std::size_t i, const char* n
 
 }  // namespace
 
+// How a coning horizon bound is worked by hand (the small-angle form of coning_error.hpp's
+// closed form). Every step makes the same error up to a turn about the cone axis by λ = Ω·dt, so
+// split the step's error rotation vector e in the cone's frame: the axial part e_ax repeats and
+// adds up (N·e_ax after N steps); the lateral part e_lat turns by λ per step, and its running sum
+// traces a circle of diameter e_lat/sin(λ/2), never more. The lateral error also lengthens the
+// composed per-step rotation by e_lat²/(4·tan(λ/2)) (second order: cos(α/2) = cos(λ/2)cos(e/2) −
+// …), which adds to the axial drift. Bound ≈ √((N·(e_ax + e_lat²/(4 tan(λ/2))))² + (e_lat/sin(λ/2))²)
+// + roundoff. The error of a step in the body frame: with v the stepper's rotation vector,
+// e ≈ v − Φ* − ½·v × Φ* (Baker–Campbell–Hausdorff to second order), Φ*'s axial part carrying the
+// coning drift d = ½ sin²a (λ − sin λ) ≈ a²λ³/12 (a the half-angle, here λ = Ω·h per sample);
+// seen from the body at the step's start the cone axis is (cos a, 0, sin a) and the lateral rate
+// points along z, so e_ax = e_x + a·e_z.
+
 // Scenario 1, a quiet platform (double): a gentle 1e-3 rad wobble at 0.5 Hz (coning), rate gyro
-// at 1 kHz, 10 minutes. Ω = π rad/s, h = 1 ms, 600 000 steps of one period for every candidate
-// except RK4 sampled (two periods, 300 000 steps).
-//   hold-end: local ≈ ω̇h²/2 = Ω² sin a h²/2 = 9.8696·1e-3·1e-6/2 = 4.935e-9 → ×6e5 = 2.961e-3 rad
-//   midpoint-mean (trapezoid on ω, then exp): local ≈ |ω̈|h³/12 = Ω³ sin a h³/12
-//     = 31.006·1e-3·1e-9/12 = 2.584e-12 → ×6e5 = 1.550e-6 rad
-//   RK2 interpolated (midpoint rate = mean of the ends, same rotation vector to leading order):
-//     also 1.550e-6 rad
-//   RK4 sampled: truncation negligible here (≪ 1e-9); bound = roundoff floor 3e5·10u_d
-//     = 3e5·10·1.11e-16 = 3.33e-10 rad
-//   Budget 1e-2 rad: all meet; cheapest is hold-end (51 kflop/s) → expmap_hold_end.
-//   Budget 1e-3 rad: hold-end (2.96e-3) fails; next cheapest meeting: midpoint-mean (55 kflop/s).
+// at 1 kHz, 10 minutes. Ω = π rad/s, h = 1 ms, λ = Ωh = π·1e-3, d = a²λ³/12 = 2.584e-15 rad;
+// N = 600 000 steps of one period for every candidate except RK4 sampled (two periods, 300 000).
+// Roundoff (roundoff_floor.hpp, θ ≈ 3e-6 so its θ terms vanish): exponential-map family 18u per
+// step (Hamilton product 16u, renormalization 2u), u = 2⁻⁵³ = 1.11e-16: 6e5·2.0e-15 = 1.2e-9;
+// RK2 6u (sum of 2 weights 2·γ₂ = 4u, renormalization 2u): 4.0e-10; RK4 10u per step: 3e5·1.11e-15
+// = 3.33e-10.
+//   hold-end, v = h·ω(h): lateral quadrature error ≈ ω̇h²/2 = Ω² sin a h²/2 = 4.935e-9, bounded
+//     part e_lat/sin(λ/2) = Ωh·sin a = 3.1416e-6; axial: e_x = −d + 3d (the BCH term, −½·v×Φ*
+//     with v ∦ Φ*: ½·a²λ³/2) = 2d, e_z = −aλ³/3 (h·ω(h)'s in-phase part aλ cos λ against
+//     a sin λ), e_ax = 2d − 4d = −2d: N·2d = 3.1e-9, and the lengthening e_lat²/(4 tan(λ/2))
+//     = 3.9e-15 nearly cancels it; both are negligible against the lateral part.
+//     Bound ≈ 3.1416e-6 + 1.2e-9 = 3.143e-6 rad.
+//   midpoint-mean, v = h(ω(0) + ω(h))/2: exact axial, in-phase (z) trapezoid error −aλ³/12
+//     = −2.584e-12, bounded part aλ³/12/(λ/2) = aλ²/6 = 1.645e-9; e_x = −d (no commutator; v ∥ ∫ω
+//     so no BCH term), e_ax = −d − a·aλ³/12 = −2d: N·2d = 3.100e-9.
+//     Bound ≈ √(3.100² + 1.645²)·1e-9 + 1.2e-9 = 3.510e-9 + 1.2e-9 = 4.71e-9 rad.
+//   RK2 interpolated: the same lateral error; the product of its two slopes puts (h²/8)·ω(0) × ω(h)
+//     = a²λ³/8 into the vector part against the truth's d = a²λ³/12: e_x = +a²λ³/24 = d/2,
+//     e_ax = d/2 − d = −d/2: N·d/2 = 7.75e-10. Bound ≈ √(0.775² + 1.645²)·1e-9 + 4.0e-10
+//     = 1.818e-9 + 0.40e-9 = 2.22e-9 rad.
+//   RK4 sampled: truncation below 1e-14 here; bound = roundoff floor 3.33e-10 rad.
+//   Budget 1e-5 rad: all meet; cheapest is hold-end (51 kflop/s) → expmap_hold_end.
+//   Budget 1e-6 rad: hold-end (3.14e-6) fails; next cheapest meeting: midpoint-mean (55 kflop/s).
 TEST_CASE("recommendation: quiet platform, the cheapest exponential-map step suffices",
           "[reference]") {
   MotionDescription<double> d{};
   d.coning = {1e-3, 0.5};
   const StepperList<ExpMapHoldEnd, ExpMapMidpointMean, RungeKutta2Interpolated, RungeKutta4Sampled>
       list{};
-  const auto loose = recommend_stepper(list, d, 1e-2, 600.0, 1000.0);
+  const auto loose = recommend_stepper(list, d, 1e-5, 600.0, 1000.0);
   REQUIRE(loose.found);
   CHECK(std::strcmp(loose.name, "expmap_hold_end") == 0);
   CHECK(loose.index == 0);
-  check_candidate(loose, 0, "expmap_hold_end", 2.961e-3, CandidateOutcome::meets_budget, 51e3);
-  check_candidate(loose, 1, "expmap_midpoint_mean", 1.550e-6, CandidateOutcome::meets_budget, 55e3);
-  check_candidate(loose, 2, "rk2_midpoint_interpolated", 1.550e-6, CandidateOutcome::meets_budget,
+  check_candidate(loose, 0, "expmap_hold_end", 3.143e-6, CandidateOutcome::meets_budget, 51e3);
+  check_candidate(loose, 1, "expmap_midpoint_mean", 4.71e-9, CandidateOutcome::meets_budget, 55e3);
+  check_candidate(loose, 2, "rk2_midpoint_interpolated", 2.22e-9, CandidateOutcome::meets_budget,
                   68e3);
   check_candidate(loose, 3, "rk4_sampled", 3.33e-10, CandidateOutcome::meets_budget, 72e3);
 
-  const auto tight = recommend_stepper(list, d, 1e-3, 600.0, 1000.0);
+  const auto tight = recommend_stepper(list, d, 1e-6, 600.0, 1000.0);
   REQUIRE(tight.found);
   CHECK(std::strcmp(tight.name, "expmap_midpoint_mean") == 0);
   CHECK(tight.candidates[0].outcome == CandidateOutcome::over_budget);  // why the cheaper failed
@@ -73,14 +100,19 @@ TEST_CASE("recommendation: quiet platform, the cheapest exponential-map step suf
 }
 
 // Scenario 2, strong coning (double): 2e-3 rad at 50 Hz, 1 kHz delta-angles (hold-end on 1 kHz
-// rates), 60 s, budget 5e-6 rad. λ = Ωh = 2π·50·1e-3 = 0.31416, sin²a = 4.0e-6.
-//   hold-end: Ω² sin a h²/2 = 98696·2e-3·1e-6/2 = 9.87e-5 per step → ×6e4 = 5.92 rad: fails
-//   one-sample (no coning term): the coning drift ½ sin²a (λ − sin λ) = ½·4e-6·5.142e-3
-//     = 1.028e-8 per step → ×6e4 = 6.17e-4 rad: fails
-//   two-sample: λ⁵/30·sin²a = 3.060e-3/30·4e-6 = 4.08e-10 per step → ×3e4 = 1.22e-5 rad: fails
-//   four-sample: its coning term λ⁹/315·sin²a = 3.8e-13 is swamped by the third Magnus term,
-//     lateral a³(ΩT)⁵/240 with ΩT = 4λ = 1.2566: 8e-9·3.133/240 = 1.04e-10 per step
-//     → ×1.5e4 = 1.57e-6 rad: meets.
+// rates), 60 s, budget 5e-6 rad. λ = Ωh = 2π·50·1e-3 = 0.31416, sin²a = 4.0e-6,
+// d = ½ sin²a (λ − sin λ) = ½·4e-6·5.142e-3 = 1.028e-8. Roundoff ≤ 1.2e-10 for every candidate.
+//   hold-end: lateral e_lat = a·|λ e^{iλ/2} − 2 sin(λ/2)| = 2e-3·0.049213 = 9.843e-5 (≈ aλ²/2),
+//     bounded part 9.843e-5/sin(λ/2) = 9.843e-5/0.15643 = 6.292e-4; axial −2d = −2.057e-8 per
+//     step (as in scenario 1) plus the lengthening e_lat²/(4 tan(λ/2)) = 9.688e-9/0.63354
+//     = 1.529e-8: net −5.28e-9 → ×6e4 = 3.17e-4. Bound ≈ √(6.292² + 3.17²)·1e-4 = 7.05e-4: fails.
+//   one-sample (no coning term): e_ax = −d per step, lateral negligible → ×6e4 = 6.17e-4: fails
+//   two-sample: its coning residual λ⁵/30·sin²a = 3.060e-3/30·4e-6 = 4.08e-10 per step of 2h
+//     → ×3e4 = 1.22e-5 rad: fails
+//   four-sample: its coning residual λ⁹/315·sin²a = 2.98e-5/315·4e-6 = 3.79e-13 per step of 4h
+//     → ×1.5e4 = 5.68e-9; its larger but lateral third-Magnus error a³(4λ)⁵/240 = 1.04e-10 stays
+//     within 1.04e-10/sin(2λ) = 1.8e-10 (the linear sum would have made it 1.57e-6); roundoff
+//     3e-11: bound ≈ 5.7e-9 rad: meets.
 //   Only a coning algorithm meets; the cheapest candidate, two-sample (33 kflop/s), fails on its
 //   λ⁵ coning residual, so the answer is four-sample at 34.5 kflop/s.
 TEST_CASE("recommendation: strong coning, only a coning algorithm meets the budget at 1 kHz",
@@ -92,19 +124,19 @@ TEST_CASE("recommendation: strong coning, only a coning algorithm meets the budg
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
   CHECK(r.cost_flops_per_s == Approx(34.5e3));
-  check_candidate(r, 0, "expmap_hold_end", 5.92, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 0, "expmap_hold_end", 7.05e-4, CandidateOutcome::over_budget, 51e3);
   check_candidate(r, 1, "coning_1_sample", 6.17e-4, CandidateOutcome::over_budget, 48e3);
   check_candidate(r, 2, "coning_2_sample", 1.22e-5, CandidateOutcome::over_budget, 33e3);
-  check_candidate(r, 3, "coning_4_sample", 1.57e-6, CandidateOutcome::meets_budget, 34.5e3);
+  check_candidate(r, 3, "coning_4_sample", 5.7e-9, CandidateOutcome::meets_budget, 34.5e3);
 }
 
 // Scenario 3, a float budget set by roundoff: 1e-3 rad coning at 1 Hz, 1 kHz samples, float.
 // u = 2⁻²⁴ = 5.960e-8. θ = 2Ω sin(a/2)·dt ≤ 2.6e-5 rad, so the θ terms of the rounding model are
 // negligible: per step 16u (Hamilton product, x = 2γ₄ ≈ 8u, angle 2x) + 2u (renormalization)
 // = 18u = 1.073e-6 rad for the exponential-map family, 8u (sum over 4 weights, x = γ₄ ≈ 4u)
-// + 2u = 10u = 5.96e-7 rad for RK4. Truncation is negligible except hold-end's 1.97e-8 per step
-// (Ω² sin a h²/2 = 39.48·1e-3·1e-6/2).
-//   600 s, budget 0.2 rad: hold-end 6e5·(1.073e-6 + 1.97e-8) = 0.656; one-sample 6e5·1.073e-6
+// + 2u = 10u = 5.96e-7 rad for RK4. Truncation is negligible, hold-end's too: its lateral error
+// stays within Ωh·sin a = 6.3e-6 rad (scenario 1).
+//   600 s, budget 0.2 rad: hold-end 6e5·1.073e-6 = 0.644; one-sample 6e5·1.073e-6
 //   = 0.644; two-sample 3e5·1.073e-6 = 0.322; four-sample 1.5e5·1.073e-6 = 0.161; RK4 sampled
 //   3e5·5.96e-7 = 0.179. Meeting: four-sample (34.5 kflop/s) and RK4 (72): answer four-sample;
 //   the cheaper two-sample (33) fails on roundoff (twice the steps).
@@ -119,7 +151,7 @@ TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets,
   const auto r = recommend_stepper(list, d, 0.2f, 600.0f, 1000.0f);
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
-  check_candidate(r, 0, "expmap_hold_end", 0.656, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 0, "expmap_hold_end", 0.644, CandidateOutcome::over_budget, 51e3);
   check_candidate(r, 1, "coning_1_sample", 0.644, CandidateOutcome::over_budget, 48e3);
   check_candidate(r, 2, "coning_2_sample", 0.322, CandidateOutcome::over_budget, 33e3);
   check_candidate(r, 3, "coning_4_sample", 0.161, CandidateOutcome::meets_budget, 34.5e3);

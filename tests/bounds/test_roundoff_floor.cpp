@@ -12,6 +12,7 @@
 #include "halfspin/bounds/roundoff_floor.hpp"
 #include "halfspin/core/exponential_map.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
+#include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/lie_group_runge_kutta.hpp"
@@ -130,6 +131,12 @@ TEST_CASE("roundoff floor: one step's rounding stays under the per-step bound", 
   check_per_step_bound<RungeKutta4Sampled, double>(8);
   check_per_step_bound<MuntheKaas4RateFunction, float>(9);
   check_per_step_bound<MuntheKaas4RateFunction, double>(10);
+  // The stage growth from each tableau's own coefficients: Kutta's third order (a negative
+  // coefficient) and Dormand–Prince (rows summing to 24.7 in absolute value).
+  check_per_step_bound<RungeKutta3Sampled, float>(11);
+  check_per_step_bound<RungeKutta3Sampled, double>(12);
+  check_per_step_bound<DormandPrince54RateFunction, float>(13);
+  check_per_step_bound<DormandPrince54RateFunction, double>(14);
 }
 
 namespace {

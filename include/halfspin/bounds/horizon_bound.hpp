@@ -6,8 +6,9 @@
 // angle metric, so the global error after N steps is at most the sum of the N local errors, with
 // no growth factor; rounding adds its own per-step angle the same way (roundoff_floor.hpp).
 //
-// The local term: for pure classical coning the exact per-step error (coning_error.hpp); for any
-// other motion LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step
+// The local term: for pure classical coning the exact per-step error (coning_error.hpp), whose
+// sum over a horizon is then replaced by the smaller exact-structure form where the error turns
+// with the cone (truncation_bound below); for any other motion LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step
 // bound over every rate with those derivative bounds. A stepper without a LocalErrorBound
 // specialization gets +∞ for non-coning motions ("no bound known": we do not guess), so the
 // recommendation can list it as unbounded instead of failing to compile.
@@ -77,15 +78,24 @@ T step_rotation_bound(const MotionDescription<T>& description, T dt) noexcept {
   return description.envelope().derivative[0] * dt;
 }
 
-// Truncation part (rad) of the horizon bound over `steps` steps by worst-case linear accumulation:
-// steps × the exact per-step error for pure coning, else steps × the local bound. (For pure coning
-// coning_truncation_bound_tight in coning_error.hpp also bounds the part of the error that turns
-// with the cone instead of adding it up.)
+// Truncation part (rad) of the horizon bound over `steps` steps. Any motion but pure coning:
+// worst-case linear accumulation, steps × the local bound. Pure coning: the smaller of steps × the
+// exact per-step error and coning_error.hpp's closed form from E_N = (δ0 ⊗ r)^N ⊗ r^(−N), in which
+// the axial drift adds up and the lateral part, which turns with the cone, stays bounded (both
+// rigorous; the second is what keeps a mostly lateral local error — the zero-order-hold steps,
+// the one-plus-previous algorithm — from being summed as if it never turned).
 template <class Stepper, class T>
 T truncation_bound(const MotionDescription<T>& description, T dt, std::int64_t steps) noexcept {
   if (description.is_pure_coning()) {
-    return coning_truncation_bound<Stepper>(description.coning, dt, steps);
+    return coning_truncation_bound_tight<Stepper>(description.coning, dt, steps);
   }
+  return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt);
+}
+
+// The linear-accumulation form alone, steps × local bound, for every motion (pure coning
+// included): the textbook worst case the tighter coning form is measured against.
+template <class Stepper, class T>
+T truncation_bound_linear(const MotionDescription<T>& description, T dt, std::int64_t steps) noexcept {
   return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt);
 }
 
@@ -95,7 +105,9 @@ T truncation_bound(const MotionDescription<T>& description, T dt, std::int64_t s
 // so its first step lacks the correction c·Δθ_prev × Δθ with c = 1/12. Since
 // Δθ_prev × Δθ = Δθ_prev × (Δθ − Δθ_prev) and |Δθ − Δθ_prev| ≤ D1·dt² (each is ∫ω over dt, the two
 // a step apart), |c·Δθ_prev × Δθ| ≤ c·D0·dt·min(D0·dt, D1·dt²). Every other stepper's first step is
-// an ordinary step.
+// an ordinary step. Added to either truncation form: the propagated attitude after N steps is
+// Q0 ⊗ P'0 ⊗ X against the steady-state run's Q0 ⊗ P0 ⊗ X (X the same later increments), and
+// d(Q0 ⊗ P'0 ⊗ X, Q0 ⊗ P0 ⊗ X) = d(P'0, P0) by bi-invariance.
 template <class Stepper, class T>
 T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
   if constexpr (Stepper::layout == SampleLayout::delta_angles_with_previous) {

@@ -43,6 +43,7 @@ template <class Tableau, SampleLayout Layout, std::size_t Window>
 struct EmbeddedRungeKutta {
   static_assert(Tableau::value.embedded_order > 0, "the tableau has no embedded solution");
   using Base = ExplicitRungeKutta<Tableau, Layout, Window>;
+  using tableau = Tableau;  // the coefficients, for the bounds layer (stage growth, weights)
 
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;

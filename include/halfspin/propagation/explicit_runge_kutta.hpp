@@ -222,6 +222,7 @@ struct ExplicitRungeKutta {
   static_assert(Layout != SampleLayout::rate_function || Window == 0,
                 "a rate function replaces the sample window");
 
+  using tableau = Tableau;  // the coefficients, for the bounds layer (stage growth, weights)
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;
   static constexpr std::size_t new_samples = Window == 0 ? 0 : Window - 1;
