@@ -56,6 +56,7 @@
 // truth
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
+#include "halfspin/truth/composed_motion.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"

@@ -22,6 +22,7 @@
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
+#include "halfspin/truth/composed_motion.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "test_support.hpp"
@@ -81,6 +82,12 @@ AxisymmetricBodyMotion<T> flattened_body() {
 template <class T>
 AxisymmetricBodyMotion<T> elongated_body() {
   return {widen_or_narrow<T>(start_attitude(14)), T(2.5), T(0.625), T(1.25), T(-1.5), T(-1.75)};
+}
+
+// A steady turn carrying a coned body (the tools' demo scenario, at test-friendly rates).
+template <class T>
+auto turning_coned_motion() {
+  return halfspin::compose<T>(constant_rate_motion<T>(), coning_motion<T>());
 }
 
 // ---- Boost.Odeint reference integration ---------------------------------------------------------
@@ -248,6 +255,11 @@ TEST_CASE("closed-form attitudes match Boost.Odeint rkf78 integration of their r
     halfspin::test::report_worst("odeint: oscillation attitude (rad)", worst);
     CHECK(worst < tol);
   }
+  SECTION("a steady turn carrying classical coning (composed motion), 20 s") {
+    const LD worst = worst_attitude_vs_odeint(turning_coned_motion<LD>(), 80, LD(0.25));
+    halfspin::test::report_worst("odeint: composed turn + coning attitude (rad)", worst);
+    CHECK(worst < tol);
+  }
   SECTION("axisymmetric body, flattened and elongated, 40 s") {
     const LD a = worst_attitude_vs_odeint(flattened_body<LD>(), 80, LD(0.5));
     const LD b = worst_attitude_vs_odeint(elongated_body<LD>(), 80, LD(0.5));
@@ -310,6 +322,9 @@ TEST_CASE("closed-form rates match 2 q* q' from central differences of the attit
   const LD c = worst_rate_vs_differences(oscillation_motion<LD>(), 5);
   const LD d = worst_rate_vs_differences(flattened_body<LD>(), 20);
   const LD e = worst_rate_vs_differences(elongated_body<LD>(), 20);
+  const LD f = worst_rate_vs_differences(turning_coned_motion<LD>(), 5);
+  halfspin::test::report_worst("differences: composed turn + coning (rad/s)", f);
+  CHECK(f < tol);
   halfspin::test::report_worst("differences: constant rate (rad/s)", a);
   halfspin::test::report_worst("differences: coning (rad/s)", b);
   halfspin::test::report_worst("differences: oscillation (rad/s)", c);

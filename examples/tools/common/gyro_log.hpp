@@ -1,0 +1,290 @@
+#pragma once
+// The tools' gyro-log CSV format, a streaming reader for it and a writer. Tool code (not part of
+// the installed library): it uses the standard library and POSIX freely.
+//
+// Format (our own; CSV per RFC 4180 without quoting, since every field is a number):
+//   line 1:  a header, exactly `t,wx,wy,wz` (rate form) or `t,dx,dy,dz` (delta-angle form)
+//   then one sample per line, comma-separated decimal numbers (anything strtod reads in the "C"
+//   locale; spaces around a field are allowed, a trailing CR is ignored):
+//     rate form:   t (s), body rate wx, wy, wz (rad/s) at time t
+//     delta form:  t (s), delta-angle dx, dy, dz (rad): the integral of the body rate over the
+//                  interval that ends at t (the previous row's t, or the log's start time)
+//   The attitude CSV the tools also read and write has the header `t,qw,qx,qy,qz` (s, unit
+//   quaternion body → reference, scalar first).
+//
+// Interface (all in halfspin::tools):
+//   LineProblem, line_problem_name(p)    what can be wrong with one line (the reader's classes)
+//   NumericCsvReader<N>                  one line at a time, constant memory, 1-based line numbers:
+//       read_header(text) → bool           the first line (false: empty file or over-long line)
+//       next(values)      → ReadOutcome    row / end / bad; after `bad`, problem(), message(),
+//                                          and the parsed values (non_finite: values hold the
+//                                          parsed numbers, non-finite ones included)
+//       line()                             line number of the line last read
+//   GyroLogForm, gyro_log_form_from_header(text), gyro_log_header(form)
+//   StagedOutputFile                     writes to a temporary file beside the destination and
+//                                        renames it over the destination on commit(); removes the
+//                                        temporary on destruction if not committed (no partial
+//                                        output ever appears under the destination's name)
+//   write_csv_row(file, values, digits)  one row of numbers, %.<digits>g
+#include <array>
+#include <cerrno>
+#include <cstddef>
+#include <cstdio>
+#include <cstdlib>
+#include <istream>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <utility>
+
+#include <unistd.h>
+
+namespace halfspin::tools {
+
+// Lines longer than this are rejected (the reader then never holds more than this many bytes).
+inline constexpr std::size_t max_line_length = 1024;
+
+enum class LineProblem {
+  none,
+  too_long,           // more than max_line_length characters
+  wrong_field_count,  // not the expected number of comma-separated fields (an empty line too)
+  non_numeric,        // a field that is not a number (empty, or text)
+  non_finite          // a field that is a number but NaN or ±infinity (or overflows a double)
+};
+
+// Stable short names of the classes ("malformed", "non_numeric", ...), used in summaries.
+inline const char* line_problem_name(LineProblem p) noexcept {
+  switch (p) {
+    case LineProblem::none: return "none";
+    case LineProblem::too_long: return "malformed";
+    case LineProblem::wrong_field_count: return "malformed";
+    case LineProblem::non_numeric: return "non_numeric";
+    case LineProblem::non_finite: return "non_finite";
+  }
+  return "unknown";
+}
+
+enum class ReadOutcome { row, end, bad };
+
+// Reads CSV lines of N numeric fields from a stream, one at a time.
+template <std::size_t N>
+class NumericCsvReader {
+ public:
+  explicit NumericCsvReader(std::istream& in) : in_(in) {}
+
+  // Reads the first line into `text` (without line end). False at end of input or if too long.
+  bool read_header(std::string& text) {
+    if (!read_line()) {
+      return false;
+    }
+    text = line_;
+    return !too_long_;
+  }
+
+  // Reads the next line into `values`. Field names (for messages) are given by `names`.
+  ReadOutcome next(std::array<double, N>& values, const std::array<const char*, N>& names) {
+    if (!read_line()) {
+      return ReadOutcome::end;
+    }
+    problem_ = LineProblem::none;
+    message_.clear();
+    if (too_long_) {
+      return fail(LineProblem::too_long,
+                  "line longer than " + std::to_string(max_line_length) + " characters");
+    }
+    std::size_t field = 0;
+    std::size_t start = 0;
+    std::optional<std::pair<LineProblem, std::string>> first_problem;
+    while (true) {
+      const std::size_t comma = line_.find(',', start);
+      const std::size_t stop = comma == std::string::npos ? line_.size() : comma;
+      if (field < N) {
+        const std::string_view text = trim(std::string_view(line_).substr(start, stop - start));
+        const std::string owned(text);
+        char* end = nullptr;
+        errno = 0;
+        const double v = owned.empty() ? 0.0 : std::strtod(owned.c_str(), &end);
+        if (owned.empty() || end != owned.c_str() + owned.size()) {
+          if (!first_problem) {
+            first_problem.emplace(LineProblem::non_numeric,
+                                  "field " + std::to_string(field + 1) + " (" + names[field] +
+                                      ") is not a number: '" + owned + "'");
+          }
+          values[field] = 0.0;
+        } else {
+          values[field] = v;
+          if (!(v - v == 0.0) && !first_problem) {
+            first_problem.emplace(LineProblem::non_finite,
+                                  "field " + std::to_string(field + 1) + " (" + names[field] +
+                                      ") is not finite: '" + owned + "'");
+          }
+        }
+      }
+      ++field;
+      if (comma == std::string::npos) {
+        break;
+      }
+      start = comma + 1;
+    }
+    if (field != N) {
+      return fail(LineProblem::wrong_field_count,
+                  "malformed line: expected " + std::to_string(N) +
+                      " comma-separated fields, found " + std::to_string(field));
+    }
+    if (first_problem) {
+      return fail(first_problem->first, first_problem->second);
+    }
+    return ReadOutcome::row;
+  }
+
+  // 1-based number of the line last read.
+  std::size_t line() const noexcept { return line_number_; }
+  LineProblem problem() const noexcept { return problem_; }
+  const std::string& message() const noexcept { return message_; }
+
+ private:
+  static std::string_view trim(std::string_view s) noexcept {
+    while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
+    while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
+    return s;
+  }
+
+  ReadOutcome fail(LineProblem p, std::string m) {
+    problem_ = p;
+    message_ = std::move(m);
+    return ReadOutcome::bad;
+  }
+
+  // Reads up to '\n', keeping at most max_line_length characters (the rest is consumed).
+  bool read_line() {
+    line_.clear();
+    too_long_ = false;
+    int c = in_.get();
+    if (c == std::char_traits<char>::eof()) {
+      return false;
+    }
+    while (c != std::char_traits<char>::eof() && c != '\n') {
+      if (line_.size() < max_line_length + 1) {
+        line_.push_back(static_cast<char>(c));
+      }
+      c = in_.get();
+    }
+    if (!line_.empty() && line_.back() == '\r') {
+      line_.pop_back();
+    }
+    if (line_.size() > max_line_length) {
+      too_long_ = true;
+    }
+    ++line_number_;
+    return true;
+  }
+
+  std::istream& in_;
+  std::string line_;
+  bool too_long_ = false;
+  std::size_t line_number_ = 0;
+  LineProblem problem_ = LineProblem::none;
+  std::string message_;
+};
+
+enum class GyroLogForm { rate, delta_angle };
+
+inline const char* gyro_log_header(GyroLogForm form) noexcept {
+  return form == GyroLogForm::rate ? "t,wx,wy,wz" : "t,dx,dy,dz";
+}
+
+// The form a header names (spaces around the names allowed), or nothing.
+inline std::optional<GyroLogForm> gyro_log_form_from_header(std::string_view header) {
+  std::string compact;
+  for (const char c : header) {
+    if (c != ' ' && c != '\t' && c != '\r') compact.push_back(c);
+  }
+  if (compact == gyro_log_header(GyroLogForm::rate)) return GyroLogForm::rate;
+  if (compact == gyro_log_header(GyroLogForm::delta_angle)) return GyroLogForm::delta_angle;
+  return std::nullopt;
+}
+
+inline constexpr const char* attitude_csv_header = "t,qw,qx,qy,qz";
+
+inline constexpr std::array<const char*, 4> gyro_log_field_names(GyroLogForm form) noexcept {
+  return form == GyroLogForm::rate ? std::array<const char*, 4>{{"t", "wx", "wy", "wz"}}
+                                   : std::array<const char*, 4>{{"t", "dx", "dy", "dz"}};
+}
+
+inline constexpr std::array<const char*, 5> attitude_field_names{{"t", "qw", "qx", "qy", "qz"}};
+
+// A destination file written through a temporary beside it (same directory, so the final rename
+// is atomic on POSIX file systems).
+class StagedOutputFile {
+ public:
+  StagedOutputFile() = default;
+  StagedOutputFile(const StagedOutputFile&) = delete;
+  StagedOutputFile& operator=(const StagedOutputFile&) = delete;
+  ~StagedOutputFile() { discard(); }
+
+  // Creates the temporary `<destination>.tmp-XXXXXX`. False (with errno) if it cannot.
+  bool open(const std::string& destination) {
+    destination_ = destination;
+    std::string pattern = destination + ".tmp-XXXXXX";
+    const int fd = mkstemp(pattern.data());
+    if (fd < 0) {
+      return false;
+    }
+    temporary_ = pattern;
+    file_ = fdopen(fd, "w");
+    if (file_ == nullptr) {
+      close(fd);
+      std::remove(temporary_.c_str());
+      temporary_.clear();
+      return false;
+    }
+    return true;
+  }
+
+  std::FILE* get() const noexcept { return file_; }
+
+  // Flushes, closes and renames over the destination. False if any write or the rename failed
+  // (the temporary is then removed).
+  bool commit() {
+    if (file_ == nullptr) return false;
+    const bool write_ok = std::ferror(file_) == 0;
+    const bool close_ok = std::fclose(file_) == 0;
+    file_ = nullptr;
+    if (!write_ok || !close_ok || std::rename(temporary_.c_str(), destination_.c_str()) != 0) {
+      std::remove(temporary_.c_str());
+      temporary_.clear();
+      return false;
+    }
+    temporary_.clear();
+    return true;
+  }
+
+  // Closes and removes the temporary (nothing under the destination's name is touched).
+  void discard() noexcept {
+    if (file_ != nullptr) {
+      std::fclose(file_);
+      file_ = nullptr;
+    }
+    if (!temporary_.empty()) {
+      std::remove(temporary_.c_str());
+      temporary_.clear();
+    }
+  }
+
+ private:
+  std::string destination_;
+  std::string temporary_;
+  std::FILE* file_ = nullptr;
+};
+
+// Writes `values` as one CSV row with `digits` significant digits (17 round-trips a double,
+// 9 a float).
+template <std::size_t N>
+void write_csv_row(std::FILE* f, const std::array<double, N>& values, int digits) {
+  for (std::size_t i = 0; i < N; ++i) {
+    std::fprintf(f, i == 0 ? "%.*g" : ",%.*g", digits, values[i]);
+  }
+  std::fputc('\n', f);
+}
+
+}  // namespace halfspin::tools

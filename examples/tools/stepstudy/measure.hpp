@@ -1,0 +1,149 @@
+#pragma once
+// One measured run of halfspin-stepstudy: a stepper, in scalar T, fed exact inputs from a truth
+// motion at a fixed step, through the library's Propagator; the worst attitude error at step ends
+// against the truth, and the time per step.
+//
+// Inputs: the step dt spans periods_per_step(layout, window) gyro periods h = dt/periods. Rate
+// sample k is ω(k·h) and delta-angle sample k is ∫ω over ((k−1)h, kh], both from the long double
+// truth rounded to T (what a perfect sensor in T would deliver); rates_spanning layouts start with
+// the sample at t = 0, the others with sample 1. Rate-function steppers call the motion's rate in
+// double at t0 + τ (rounded to T). The propagator starts from the truth's attitude at 0 rounded to
+// T and renormalizes exactly after every step (ExactRenormalization, as the library's bound tests
+// do), so only the attitude error counts.
+//
+// Timing: samples are prepared in chunks outside the clock; steady_clock brackets only the
+// propagator's push/advance calls of each chunk (validation, history, the step, renormalization,
+// and for rate-function steppers the rate evaluations). The error against the truth is computed
+// after each chunk, also outside the clock.
+//
+// Tool code (not part of the installed library).
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <vector>
+
+#include "halfspin/core/angle_between.hpp"
+#include "halfspin/propagation/propagator.hpp"
+#include "halfspin/propagation/renormalization.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+#include "study_motions.hpp"
+
+namespace halfspin::tools::stepstudy {
+
+struct MeasuredRun {
+  bool ok = false;            // every sample accepted and every step taken
+  double max_error_rad = 0;   // max over step ends of angle_between(propagated, truth)
+  std::int64_t steps = 0;     // steps taken
+  double ns_per_step = 0;     // steady_clock time of the propagator calls / steps
+};
+
+namespace detail {
+
+template <class T>
+Vector3<T> narrow_vector(const Vector3<LD>& v) {
+  return {static_cast<T>(v.x), static_cast<T>(v.y), static_cast<T>(v.z)};
+}
+template <class T>
+Vector3<T> narrow_vector(const Vector3<double>& v) {
+  return {static_cast<T>(v.x), static_cast<T>(v.y), static_cast<T>(v.z)};
+}
+template <class T>
+Quaternion<LD> widen_quaternion(const Quaternion<T>& q) {
+  return {static_cast<LD>(q.w), static_cast<LD>(q.x), static_cast<LD>(q.y), static_cast<LD>(q.z)};
+}
+
+inline constexpr std::int64_t chunk_steps = 4096;
+
+}  // namespace detail
+
+// Runs `steps` steps of length dt_s (s) of Stepper in T on the truth motion.
+template <class Stepper, class T>
+MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t steps) {
+  using clock = std::chrono::steady_clock;
+  MeasuredRun run;
+  const Quaternion<LD> q0 = motion.attitude(0.0L);
+  const GyroLimits<T> limits{T(1e4), static_cast<T>(std::max(10.0, 4.0 * dt_s))};
+  Propagator<T, Stepper, ExactRenormalization> propagator(
+      Quaternion<T>{static_cast<T>(q0.w), static_cast<T>(q0.x), static_cast<T>(q0.y),
+                    static_cast<T>(q0.z)},
+      limits);
+  const LD dt = static_cast<LD>(dt_s);
+  std::vector<Quaternion<T>> ends;
+  ends.reserve(static_cast<std::size_t>(detail::chunk_steps));
+  clock::duration spent{};
+  LD worst = 0;
+  std::int64_t done = 0;  // steps whose end was compared
+
+  auto compare_chunk = [&]() {
+    for (std::size_t i = 0; i < ends.size(); ++i) {
+      const LD t = static_cast<LD>(done + 1) * dt;
+      worst = std::fmax(worst, angle_between(detail::widen_quaternion(ends[i]), motion.attitude(t)));
+      ++done;
+    }
+    ends.clear();
+  };
+
+  if constexpr (Stepper::layout == SampleLayout::rate_function) {
+    const T dt_t = static_cast<T>(dt_s);
+    for (std::int64_t begin = 0; begin < steps; begin += detail::chunk_steps) {
+      const std::int64_t end = std::min(steps, begin + detail::chunk_steps);
+      const clock::time_point start = clock::now();
+      for (std::int64_t k = begin; k < end; ++k) {
+        const double t0 = static_cast<double>(k) * dt_s;
+        const Status s = propagator.advance(
+            [&](T tau) { return detail::narrow_vector<T>(motion.rate_double(t0 + static_cast<double>(tau))); },
+            dt_t);
+        if (s != Status::ok) {
+          return run;
+        }
+        ends.push_back(propagator.attitude());
+      }
+      spent += clock::now() - start;
+      compare_chunk();
+    }
+  } else {
+    constexpr std::int64_t periods =
+        static_cast<std::int64_t>(periods_per_step(Stepper::layout, Stepper::window));
+    const LD h = dt / static_cast<LD>(periods);
+    const T h_t = static_cast<T>(h);
+    const std::int64_t first = Stepper::layout == SampleLayout::rates_spanning ? 0 : 1;
+    const std::int64_t last = steps * periods;  // the sample that ends the last step
+    std::vector<Vector3<T>> samples;
+    samples.reserve(static_cast<std::size_t>(detail::chunk_steps * periods + 1));
+    const std::int64_t chunk = detail::chunk_steps * periods;
+    for (std::int64_t begin = first; begin <= last; begin += chunk) {
+      const std::int64_t end = std::min(last + 1, begin + chunk);
+      samples.clear();
+      for (std::int64_t k = begin; k < end; ++k) {
+        const LD t = static_cast<LD>(k) * h;
+        samples.push_back(carries_delta_angles(Stepper::layout)
+                              ? detail::narrow_vector<T>(motion.delta_angle(t - h, t))
+                              : detail::narrow_vector<T>(motion.rate(t)));
+      }
+      const clock::time_point start = clock::now();
+      for (const Vector3<T>& sample : samples) {
+        const Status s = propagator.push(sample, h_t);
+        if (s == Status::ok) {
+          ends.push_back(propagator.attitude());
+        } else if (s != Status::waiting_for_samples) {
+          return run;
+        }
+      }
+      spent += clock::now() - start;
+      compare_chunk();
+    }
+  }
+  run.steps = static_cast<std::int64_t>(propagator.counters().steps);
+  run.ok = run.steps == steps && done == steps;
+  run.max_error_rad = static_cast<double>(worst);
+  run.ns_per_step =
+      steps > 0 ? static_cast<double>(std::chrono::duration_cast<std::chrono::nanoseconds>(spent).count()) /
+                      static_cast<double>(steps)
+                : 0.0;
+  return run;
+}
+
+}  // namespace halfspin::tools::stepstudy

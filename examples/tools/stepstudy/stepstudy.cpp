@@ -1,0 +1,546 @@
+// halfspin-stepstudy: steppers × steps × scalar types, measured against the exact truth of a
+// motion and against the library's a-priori horizon bounds; with a budget, the recommended method
+// and step (bounds layer: recommend_stepper at the gyro rate, select_step per studied method).
+// `halfspin-stepstudy --help` documents the options, units and exit codes.
+//
+// Caution: the bounds and measurements support engineering judgement; validate in
+// hardware-in-the-loop and flight test under local airworthiness rules and licensed practice.
+
+#include <unistd.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <cstdio>
+#include <fstream>
+#include <limits>
+#include <string>
+#include <tuple>
+#include <type_traits>
+#include <utility>
+#include <vector>
+
+#include "halfspin/bounds/horizon_bound.hpp"
+#include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/bounds/recommendation.hpp"
+#include "halfspin/bounds/step_selection.hpp"
+#include "measure.hpp"
+#include "method_registry.hpp"
+#include "options.hpp"
+#include "study_motions.hpp"
+#include "svg_chart.hpp"
+
+namespace {
+
+using namespace halfspin;
+using namespace halfspin::tools;
+using namespace halfspin::tools::stepstudy;
+
+constexpr int exit_ok = 0;
+constexpr int exit_usage = 1;
+constexpr int exit_failure = 2;
+constexpr int exit_no_recommendation = 3;
+constexpr double degree = 3.14159265358979323846 / 180.0;
+
+// One row of the table: NaN where not measured.
+struct Row {
+  std::string method;
+  std::string scalar;
+  double step_s = 0;
+  std::int64_t steps = 0;
+  double max_error_rad = std::numeric_limits<double>::quiet_NaN();
+  double bound_rad = std::numeric_limits<double>::quiet_NaN();
+  double order = std::numeric_limits<double>::quiet_NaN();
+  double ns_per_step = std::numeric_limits<double>::quiet_NaN();
+};
+
+// The sample-driven steppers of the catalogue as a StepperList (recommend_stepper's candidates).
+template <class Tuple>
+struct SampleDriven;
+template <class... S>
+struct SampleDriven<std::tuple<S...>> {
+  using tuple = decltype(std::tuple_cat(
+      std::declval<std::conditional_t<S::layout != SampleLayout::rate_function, std::tuple<S>,
+                                      std::tuple<>>>()...));
+};
+template <class Tuple>
+struct AsStepperList;
+template <class... S>
+struct AsStepperList<std::tuple<S...>> {
+  using type = StepperList<S...>;
+};
+using SampleDrivenList = AsStepperList<SampleDriven<AllMethods>::tuple>::type;
+
+const MethodInfo* find_method(const std::string& name) {
+  for (const MethodInfo& m : method_catalogue()) {
+    if (name == m.name) {
+      return &m;
+    }
+  }
+  return nullptr;
+}
+
+std::string format(const char* fmt, double v) {
+  char buffer[64];
+  std::snprintf(buffer, sizeof buffer, fmt, v);
+  return buffer;
+}
+std::string sci(double v) { return std::isfinite(v) ? format("%.3e", v) : (std::isnan(v) ? "-" : "inf"); }
+
+std::vector<double> step_grid(double lo, double hi, int n) {
+  std::vector<double> steps;
+  if (n == 1) {
+    steps.push_back(lo);
+    return steps;
+  }
+  for (int i = 0; i < n; ++i) {
+    const double f = static_cast<double>(i) / static_cast<double>(n - 1);
+    steps.push_back(lo * std::pow(hi / lo, f));
+  }
+  return steps;
+}
+
+class Progress {
+ public:
+  explicit Progress(std::size_t total) : total_(total), on_(isatty(2) != 0) {}
+  void show(std::size_t done, const std::string& what) const {
+    if (on_) {
+      std::fprintf(stderr, "\r[%3zu/%zu] %-60.60s", done, total_, what.c_str());
+      std::fflush(stderr);
+    }
+  }
+  void finish() const {
+    if (on_) {
+      std::fprintf(stderr, "\r%*s\r", 72, "");
+      std::fflush(stderr);
+    }
+  }
+
+ private:
+  std::size_t total_;
+  bool on_;
+};
+
+template <class Stepper, class T>
+Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& failed) {
+  Row row;
+  row.method = Stepper::name;
+  row.scalar = sizeof(T) == sizeof(float) ? "float" : "double";
+  row.step_s = dt;
+  const MotionDescription<T> d = description_in<T>(motion.description);
+  if (o.bounds_only) {
+    row.steps = steps_for_horizon(dt, o.duration);
+    row.bound_rad = static_cast<double>(
+        horizon_error_bound<Stepper, T>(d, static_cast<T>(dt), static_cast<T>(o.duration)));
+    return row;
+  }
+  const std::int64_t steps = std::max<std::int64_t>(1, std::llround(o.duration / dt));
+  const MeasuredRun run = measure_run<Stepper, T>(motion.truth, dt, steps);
+  if (!run.ok) {
+    failed = true;
+  }
+  row.steps = run.steps;
+  row.max_error_rad = run.max_error_rad;
+  row.ns_per_step = run.ns_per_step;
+  row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T>(
+      d, static_cast<T>(dt), static_cast<T>(static_cast<double>(steps) * dt)));
+  return row;
+}
+
+void fill_orders(std::vector<Row>& rows) {
+  for (std::size_t i = 1; i < rows.size(); ++i) {
+    const Row& a = rows[i - 1];
+    Row& b = rows[i];
+    if (a.method != b.method || a.scalar != b.scalar) {
+      continue;
+    }
+    if (a.max_error_rad > 0 && b.max_error_rad > 0 && std::isfinite(a.max_error_rad) &&
+        std::isfinite(b.max_error_rad) && b.step_s != a.step_s) {
+      b.order = std::log(b.max_error_rad / a.max_error_rad) / std::log(b.step_s / a.step_s);
+    }
+  }
+}
+
+void print_table(const std::vector<Row>& rows, bool bounds_only) {
+  std::printf("%-34s %-6s %10s %10s %11s %11s %6s %10s\n", "method", "scalar", "step (s)",
+              bounds_only ? "steps" : "steps run",
+              "max err rad", "bound (rad)", "order", "ns/step");
+  for (const Row& r : rows) {
+    const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
+    const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
+    std::printf("%-34s %-6s %10.3e %10lld %11s %11s %6s %10s\n", r.method.c_str(), r.scalar.c_str(),
+                r.step_s, static_cast<long long>(r.steps), sci(r.max_error_rad).c_str(),
+                sci(r.bound_rad).c_str(), order.c_str(), ns.c_str());
+  }
+}
+
+bool write_csv(const std::string& path, const std::vector<Row>& rows) {
+  std::ofstream out(path);
+  if (!out) {
+    return false;
+  }
+  out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step\n";
+  auto field = [](double v) { return std::isnan(v) ? std::string() : format("%.17g", v); };
+  for (const Row& r : rows) {
+    out << r.method << ',' << r.scalar << ',' << format("%.17g", r.step_s) << ',' << field(r.max_error_rad)
+        << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step) << '\n';
+  }
+  return static_cast<bool>(out.flush());
+}
+
+bool write_svg(const std::string& path, const Options& o, const StudyMotion& motion,
+               const std::vector<std::string>& methods, const std::vector<Row>& rows) {
+  svg::Figure fig;
+  fig.title = "halfspin step study: " + motion.name;
+  fig.subtitle = motion.summary + (o.bounds_only ? "; bounds only" : "; runs of " + format("%g s", o.duration));
+  svg::Chart error_chart;
+  error_chart.title = o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
+  error_chart.x_label = "step (s)";
+  error_chart.y_label = "attitude error (rad)";
+  svg::Chart cost_chart;
+  cost_chart.title = "Max attitude error against cost";
+  cost_chart.x_label = "cost (ns per step, measured on this machine)";
+  cost_chart.y_label = "max attitude error (rad)";
+  if (o.has_budget) {
+    error_chart.has_reference = true;
+    error_chart.reference_y = o.budget;
+    error_chart.reference_label =
+        "budget " + format("%.3e rad", o.budget) + " (over " + format("%g s", o.horizon) + ")";
+  }
+  for (std::size_t m = 0; m < methods.size(); ++m) {
+    fig.legend.push_back({methods[m], m});
+    for (const char* scalar : {"double", "float"}) {
+      const bool is_double = std::string(scalar) == "double";
+      svg::Series measured{m, svg::LineStyle::solid,
+                           is_double ? svg::Marker::filled_circle : svg::Marker::open_square, {}};
+      svg::Series bound{m, is_double ? svg::LineStyle::dashed : svg::LineStyle::dotted, svg::Marker::none, {}};
+      svg::Series cost{m, svg::LineStyle::solid,
+                       is_double ? svg::Marker::filled_circle : svg::Marker::open_square, {}};
+      for (const Row& r : rows) {
+        if (r.method != methods[m] || r.scalar != scalar) {
+          continue;
+        }
+        if (!o.bounds_only) {
+          measured.points.emplace_back(r.step_s, r.max_error_rad);
+          cost.points.emplace_back(r.ns_per_step, r.max_error_rad);
+        }
+        bound.points.emplace_back(r.step_s, r.bound_rad);
+      }
+      if (!measured.points.empty()) {
+        error_chart.series.push_back(measured);
+      }
+      if (!bound.points.empty()) {
+        error_chart.series.push_back(bound);
+      }
+      if (!cost.points.empty()) {
+        cost.line = svg::LineStyle::none;  // ns/step barely changes with the step: points only
+        cost_chart.series.push_back(cost);
+      }
+    }
+  }
+  if (!o.bounds_only) {
+    if (o.want_double) {
+      fig.keys.push_back({svg::LineStyle::solid, svg::Marker::filled_circle, "double, measured (chart 2: points)"});
+    }
+    if (o.want_float) {
+      fig.keys.push_back({svg::LineStyle::solid, svg::Marker::open_square, "float, measured (chart 2: points)"});
+    }
+  }
+  if (o.has_budget) {
+    fig.reference_key = "budget (" + format("%.3e rad", o.budget) + ")";
+  }
+  if (o.want_double) {
+    fig.keys.push_back({svg::LineStyle::dashed, svg::Marker::none, "double, a-priori bound"});
+  }
+  if (o.want_float) {
+    fig.keys.push_back({svg::LineStyle::dotted, svg::Marker::none, "float, a-priori bound"});
+  }
+  fig.charts.push_back(error_chart);
+  if (!o.bounds_only) {
+    fig.charts.push_back(cost_chart);
+  }
+  std::ofstream out(path);
+  if (!out) {
+    return false;
+  }
+  out << svg::render(fig);
+  return static_cast<bool>(out.flush());
+}
+
+const char* outcome_text(CandidateOutcome c) {
+  switch (c) {
+    case CandidateOutcome::meets_budget: return "meets the budget";
+    case CandidateOutcome::over_budget: return "over budget";
+    case CandidateOutcome::no_bound: return "no finite bound";
+  }
+  return "";
+}
+
+struct Chosen {
+  bool found = false;
+  std::string method;
+  bool delta = false;
+  double step_s = 0;
+  double bound_rad = 0;
+};
+
+template <class T>
+Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<std::string>& methods,
+                 const char* scalar) {
+  const MotionDescription<T> d = description_in<T>(motion.description);
+  const auto r = recommend_stepper(SampleDrivenList{}, d, static_cast<T>(o.budget),
+                                   static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate));
+  std::printf("\nRecommendation in %s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
+              o.budget, o.budget / degree, o.horizon, o.gyro_rate);
+  Chosen chosen;
+  auto candidates = r.candidates;
+  std::stable_sort(candidates.begin(), candidates.end(), [](const auto& a, const auto& b) {
+    return a.cost_flops_per_s < b.cost_flops_per_s;
+  });
+  if (r.found) {
+    const MethodInfo* info = find_method(r.name);
+    chosen.found = true;
+    chosen.method = r.name;
+    chosen.delta = info != nullptr && carries_delta_angles(info->layout);
+    chosen.step_s = static_cast<double>(r.candidates[r.index].step_s);
+    chosen.bound_rad = static_cast<double>(r.bound_rad);
+    std::printf("  recommended: %s, step %.4e s (%.1f Hz updates, %s log), bound %.3e rad "
+                "(%.4f deg), %.0f flop/s\n",
+                r.name, chosen.step_s, 1.0 / chosen.step_s, chosen.delta ? "delta-angle" : "rate",
+                chosen.bound_rad, chosen.bound_rad / degree, static_cast<double>(r.cost_flops_per_s));
+    std::printf("  why: the cheapest sample-driven stepper (flops per step x steps per second) whose\n"
+                "  worst-case horizon bound at this gyro rate meets the budget; the cheaper ones:\n");
+  } else {
+    std::printf("  no sample-driven stepper meets the budget at this gyro rate; candidates:\n");
+  }
+  bool any_cheaper = false;
+  for (const auto& c : candidates) {
+    any_cheaper = any_cheaper || !r.found || c.cost_flops_per_s < r.cost_flops_per_s;
+  }
+  if (!any_cheaper) {
+    std::printf("    (none: it is the cheapest candidate)\n");
+  }
+  for (const auto& c : candidates) {
+    if (r.found && !(c.cost_flops_per_s < r.cost_flops_per_s)) {
+      continue;
+    }
+    std::printf("    %-30s %10.0f flop/s  step %.4e s  bound %s rad  %s\n", c.name,
+                static_cast<double>(c.cost_flops_per_s), static_cast<double>(c.step_s),
+                sci(static_cast<double>(c.bound_rad)).c_str(), outcome_text(c.outcome));
+  }
+  std::printf("  largest step meeting the budget, per studied method (select_step):\n");
+  for (const std::string& name : methods) {
+    visit_method(name, [&](auto tag) {
+      using S = typename decltype(tag)::type;
+      const StepSelection<T> s = select_step<S, T>(d, static_cast<T>(o.budget), static_cast<T>(o.horizon));
+      const double step = static_cast<double>(s.step_s);
+      switch (s.status) {
+        case StepSelectionStatus::ok:
+          std::printf("    %-34s step %.4e s (%9.1f Hz updates, %9.1f Hz gyro)  bound %.3e rad\n", S::name,
+                      step, static_cast<double>(s.update_rate_hz), static_cast<double>(s.sample_rate_hz),
+                      static_cast<double>(s.bound_rad));
+          break;
+        case StepSelectionStatus::budget_unreachable:
+          std::printf("    %-34s no step meets the budget (least bound %.3e rad at %.4e s)\n", S::name,
+                      static_cast<double>(s.minimum_bound_rad), static_cast<double>(s.minimizing_step_s));
+          break;
+        case StepSelectionStatus::no_bound:
+          std::printf("    %-34s no finite bound for this description\n", S::name);
+          break;
+        case StepSelectionStatus::invalid_arguments:
+          std::printf("    %-34s invalid arguments\n", S::name);
+          break;
+      }
+    });
+  }
+  return chosen;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  Options o;
+  std::string error;
+  if (!parse_options(argc, argv, o, error)) {
+    std::fprintf(stderr, "halfspin-stepstudy: %s\n(see halfspin-stepstudy --help)\n", error.c_str());
+    return exit_usage;
+  }
+  if (o.help) {
+    std::fputs(help_text(), stdout);
+    return exit_ok;
+  }
+  if (o.methods.size() == 1 && o.methods[0] == "list") {
+    std::printf("%-34s %-10s %5s %6s  %s\n", "method", "input", "order", "flops", "description");
+    for (const MethodInfo& m : method_catalogue()) {
+      const char* input = m.layout == SampleLayout::rate_function ? "function"
+                          : carries_delta_angles(m.layout)      ? "delta"
+                                                                : "rate";
+      std::printf("%-34s %-10s %5d %6d  %s\n", m.name, input, m.order, m.flops, m.description);
+    }
+    return exit_ok;
+  }
+
+  // The motion: a truth motion, or a description alone.
+  StudyMotion motion;
+  if (o.bounds_only) {
+    motion.name = "description";
+    std::string summary;
+    if (!o.envelope.empty()) {
+      for (std::size_t k = 0; k < o.envelope.size(); ++k) {
+        motion.description.maneuver.derivative[k] = o.envelope[k];
+      }
+      summary = "envelope D0..D" + std::to_string(o.envelope.size() - 1) + " given";
+    }
+    if (o.has_coning) {
+      motion.description.coning = ConingSpec<double>{o.coning_deg * degree, o.coning_hz};
+      summary += (summary.empty() ? "" : " + ") + format("coning %g deg", o.coning_deg) +
+                 format(" at %g Hz", o.coning_hz);
+    }
+    motion.summary = summary;
+    motion.description_summary = summary;
+    motion.default_step_min = 1e-4;
+    motion.default_step_max = 1e-2;
+  } else if (!make_study_motion(o.motion, motion)) {
+    std::fprintf(stderr, "halfspin-stepstudy: unknown motion '%s' (constant, oscillation, coning, body, demo)\n",
+                 o.motion.c_str());
+    return exit_usage;
+  }
+  const double step_min = o.step_min > 0 ? o.step_min : motion.default_step_min;
+  const double step_max = o.step_max > 0 ? o.step_max : motion.default_step_max;
+  if (step_max < step_min || (o.steps == 1 && step_max != step_min) || (o.steps > 1 && step_max == step_min)) {
+    std::fprintf(stderr, "halfspin-stepstudy: need --step-min < --step-max for --steps > 1, equal for 1\n");
+    return exit_usage;
+  }
+  if (step_max > o.duration) {
+    std::fprintf(stderr, "halfspin-stepstudy: the largest step (%g s) is longer than --duration (%g s)\n",
+                 step_max, o.duration);
+    return exit_usage;
+  }
+
+  // The methods.
+  std::vector<std::string> methods;
+  if (o.all_methods) {
+    for (const MethodInfo& m : method_catalogue()) {
+      methods.emplace_back(m.name);
+    }
+  } else if (o.methods.empty()) {
+    methods.assign(std::begin(default_methods), std::end(default_methods));
+  } else {
+    for (const std::string& name : o.methods) {
+      if (find_method(name) == nullptr) {
+        std::fprintf(stderr, "halfspin-stepstudy: unknown method '%s' (--methods list shows them)\n",
+                     name.c_str());
+        return exit_usage;
+      }
+      if (std::find(methods.begin(), methods.end(), name) == methods.end()) {
+        methods.push_back(name);
+      }
+    }
+  }
+  if (o.bounds_only) {
+    std::vector<std::string> kept;
+    for (const std::string& name : methods) {
+      if (find_method(name)->layout == SampleLayout::rate_function) {
+        std::printf("note: %s left out (rate-function steppers need a truth motion)\n", name.c_str());
+      } else {
+        kept.push_back(name);
+      }
+    }
+    methods = kept;
+    if (methods.empty()) {
+      std::fprintf(stderr, "halfspin-stepstudy: no sample-driven method to study\n");
+      return exit_usage;
+    }
+  }
+
+  const std::vector<double> steps = step_grid(step_min, step_max, o.steps);
+  std::vector<const char*> scalars;
+  if (o.want_float) {
+    scalars.push_back("float");
+  }
+  if (o.want_double) {
+    scalars.push_back("double");
+  }
+
+  std::printf("halfspin step study\n");
+  std::printf("  motion:      %s%s\n", o.bounds_only ? "" : (motion.name + ": ").c_str(), motion.summary.c_str());
+  std::printf("  bounds from: %s\n", motion.description_summary.c_str());
+  std::printf("  %s %g s; steps %.3e .. %.3e s (%d, log-spaced)\n\n",
+              o.bounds_only ? "bound horizon:" : "each run:     ", o.duration, step_min, step_max, o.steps);
+
+  std::vector<Row> rows;
+  Progress progress(methods.size() * scalars.size() * steps.size());
+  std::size_t done = 0;
+  bool failed = false;
+  for (const std::string& name : methods) {
+    visit_method(name, [&](auto tag) {
+      using S = typename decltype(tag)::type;
+      for (const char* scalar : scalars) {
+        for (const double dt : steps) {
+          progress.show(++done, name + " " + scalar + " step " + format("%.3e s", dt));
+          if (std::string(scalar) == "float") {
+            rows.push_back(study_point<S, float>(o, motion, dt, failed));
+          } else {
+            rows.push_back(study_point<S, double>(o, motion, dt, failed));
+          }
+        }
+      }
+    });
+  }
+  progress.finish();
+  fill_orders(rows);
+  print_table(rows, o.bounds_only);
+  if (failed) {
+    std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");
+  }
+
+  int status = failed ? exit_failure : exit_ok;
+  if (!o.csv.empty() && !write_csv(o.csv, rows)) {
+    std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.csv.c_str());
+    status = exit_failure;
+  }
+  if (!o.svg.empty() && !write_svg(o.svg, o, motion, methods, rows)) {
+    std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.svg.c_str());
+    status = exit_failure;
+  }
+
+  if (o.has_budget) {
+    // Every requested scalar gets its recommendation; the file takes double's when double is
+    // studied (float's worst-case roundoff floor rarely allows long horizons), else float's.
+    Chosen file_choice;
+    if (o.want_float) {
+      file_choice = recommend<float>(o, motion, methods, "float");
+    }
+    if (o.want_double) {
+      file_choice = recommend<double>(o, motion, methods, "double");
+    }
+    if (!o.recommendation_file.empty()) {
+      std::printf("\nRecommendation file %s: the %s recommendation\n", o.recommendation_file.c_str(),
+                  o.want_double ? "double" : "float");
+    }
+    if (!o.recommendation_file.empty()) {
+      if (!file_choice.found) {
+        std::fprintf(stderr, "halfspin-stepstudy: no stepper meets the budget; %s not written\n",
+                     o.recommendation_file.c_str());
+        if (status == exit_ok) {
+          status = exit_no_recommendation;
+        }
+      } else {
+        std::ofstream out(o.recommendation_file);
+        out << "method=" << file_choice.method << '\n'
+            << "form=" << (file_choice.delta ? "delta" : "rate") << '\n'
+            << "step_s=" << format("%.17g", file_choice.step_s) << '\n'
+            << "gyro_rate_hz=" << format("%.17g", o.gyro_rate) << '\n'
+            << "bound_rad=" << format("%.17g", file_choice.bound_rad) << '\n';
+        if (!out.flush()) {
+          std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.recommendation_file.c_str());
+          status = exit_failure;
+        }
+      }
+    }
+  }
+  std::printf("\nCaution: bounds and measurements support engineering judgement. Validate in\n"
+              "hardware-in-the-loop and flight test, under local airworthiness rules and licensed practice.\n");
+  return status;
+}
