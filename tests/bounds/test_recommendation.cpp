@@ -167,6 +167,31 @@ TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets,
   CHECK(none.candidates[3].bound_rad == Approx(0.966).epsilon(0.05));
 }
 
+// Scenario 3 with the expected (random-walk) roundoff model: the same float platform, 600 s,
+// budget 5e-4 rad. No candidate meets it by a bound (scenario 3: the best worst-case floor is
+// four-sample's 0.161 rad). Expected sizes √N × per-step rounding (roundoff_floor.hpp; truncation as
+// in scenario 3, negligible: hold-end's lateral part 6.3e-6, one-sample's drift N·d = 1.2e-8):
+//   hold-end √6e5·1.073e-6 = 774.6·1.073e-6 = 8.31e-4 (+6.3e-6 = 8.37e-4); one-sample 8.31e-4;
+//   two-sample √3e5·1.073e-6 = 547.7·1.073e-6 = 5.88e-4; four-sample √1.5e5·1.073e-6
+//   = 387.3·1.073e-6 = 4.16e-4; RK4 sampled √3e5·5.96e-7 = 3.26e-4.
+//   Meeting 5e-4: four-sample (34.5 kflop/s) and RK4 (72): four-sample, a typical size, not a bound.
+TEST_CASE("recommendation: the expected roundoff model, float over ten minutes", "[reference]") {
+  MotionDescription<float> d{};
+  d.coning = {1e-3f, 1.0f};
+  const StepperList<ExpMapHoldEnd, ConingOneSample, ConingTwoSample, ConingFourSample,
+                    RungeKutta4Sampled>
+      list{};
+  CHECK_FALSE(recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f).found);
+  const auto r = recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f, RoundoffModel::expected);
+  REQUIRE(r.found);
+  CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
+  check_candidate(r, 0, "expmap_hold_end", 8.37e-4, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 1, "coning_1_sample", 8.31e-4, CandidateOutcome::over_budget, 48e3);
+  check_candidate(r, 2, "coning_2_sample", 5.88e-4, CandidateOutcome::over_budget, 33e3);
+  check_candidate(r, 3, "coning_4_sample", 4.16e-4, CandidateOutcome::meets_budget, 34.5e3);
+  check_candidate(r, 4, "rk4_sampled", 3.26e-4, CandidateOutcome::meets_budget, 72e3);
+}
+
 // A candidate with no bound (a non-coning motion and no LocalErrorBound specialization in this
 // translation unit for a test-only stepper) is reported as such, never chosen.
 namespace bounds_test_only {

@@ -119,6 +119,28 @@ TEST_CASE("step selection: the total is U-shaped and an unreachable budget is re
   CHECK(finer / fine < 9.0f);
 }
 
+// The expected (random-walk) roundoff model: where the worst-case floor makes a float budget
+// unreachable, the expected form finds the step whose typical error meets it. The same search
+// and bracketing, on horizon_error_expected (a typical size, not a bound).
+TEST_CASE("step selection: the expected roundoff model for float over a long horizon") {
+  MotionDescription<float> d{};
+  d.coning = {1e-3f, 1.0f};
+  const float budget = 5e-4f;
+  const float horizon = 600.0f;
+  REQUIRE(select_step<ConingFourSample>(d, budget, horizon).status ==
+          StepSelectionStatus::budget_unreachable);
+  StepSearch<float> search{};
+  search.roundoff = RoundoffModel::expected;
+  const StepSelection<float> sel = select_step<ConingFourSample>(d, budget, horizon, search);
+  INFO("step " << sel.step_s << " expected " << sel.bound_rad);
+  REQUIRE(sel.status == StepSelectionStatus::ok);
+  CHECK(horizon_error_expected<ConingFourSample>(d, sel.step_s, horizon) <= budget);
+  CHECK(sel.bound_rad == horizon_error_expected<ConingFourSample>(d, sel.step_s, horizon));
+  CHECK(horizon_error_expected<ConingFourSample>(d, sel.step_s * 2.0f, horizon) > budget);
+  CHECK(horizon_error<ConingFourSample>(d, sel.step_s, horizon, RoundoffModel::worst_case) ==
+        horizon_error_bound<ConingFourSample>(d, sel.step_s, horizon));
+}
+
 TEST_CASE("step selection: invalid arguments are refused") {
   MotionDescription<double> d{};
   d.coning = {0.05, 5.0};

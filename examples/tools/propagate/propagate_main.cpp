@@ -467,7 +467,7 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
                seq.c_str());
   std::fprintf(stderr, "steps: %llu\n", u(c.steps));
   std::fprintf(stderr, "samples read: %llu\n", u(samples_read));
-  std::fprintf(stderr, "max interval: %.17g s\n", *max_interval);
+  std::fprintf(stderr, "longest interval accepted: %.9g s (a longer one is a gap)\n", *max_interval);
   std::fprintf(stderr,
                "skipped by class: malformed %llu, non_numeric %llu, non_finite %llu, "
                "time_not_increasing %llu, gap %llu, over_range %llu\n",
@@ -491,7 +491,7 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
                static_cast<double>(e.angles.third * deg));
   if (truth != nullptr) {
     std::fprintf(stderr,
-                 "attitude error vs truth: max %.6e rad (%.6e deg) at t = %.17g; final %.6e rad "
+                 "attitude error vs truth: max %.6e rad (%.6e deg) at t = %.9g s; final %.6e rad "
                  "(%.6e deg)\n",
                  max_truth_error, to_degrees(max_truth_error), max_truth_error_time,
                  final_truth_error, to_degrees(final_truth_error));

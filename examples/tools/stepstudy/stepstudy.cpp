@@ -285,13 +285,18 @@ struct Chosen {
   double bound_rad = 0;
 };
 
+// With RoundoffModel::expected every figure carries the random-walk rounding term instead of the
+// worst case: a typical size, not a bound (bounds/horizon_bound.hpp); the output says so.
 template <class T>
 Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<std::string>& methods,
-                 const char* scalar) {
+                 const char* scalar, RoundoffModel model = RoundoffModel::worst_case) {
   const MotionDescription<T> d = description_in<T>(motion.description);
+  const bool expected = model == RoundoffModel::expected;
+  const char* figure = expected ? "expected" : "bound";
   const auto r = recommend_stepper(SampleDrivenList{}, d, static_cast<T>(o.budget),
-                                   static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate));
-  std::printf("\nRecommendation in %s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
+                                   static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate), model);
+  std::printf("\nRecommendation in %s%s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
+              expected ? " with the expected (random-walk) rounding: typical sizes, NOT bounds" : "",
               o.budget, o.budget / degree, o.horizon, o.gyro_rate);
   Chosen chosen;
   auto candidates = r.candidates;
@@ -305,12 +310,14 @@ Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<
     chosen.delta = info != nullptr && carries_delta_angles(info->layout);
     chosen.step_s = static_cast<double>(r.candidates[r.index].step_s);
     chosen.bound_rad = static_cast<double>(r.bound_rad);
-    std::printf("  recommended: %s, step %.4e s (%.1f Hz updates, %s log), bound %.3e rad "
+    std::printf("  recommended: %s, step %.4e s (%.1f Hz updates, %s log), %s %.3e rad "
                 "(%.4f deg), %.0f flop/s\n",
                 r.name, chosen.step_s, 1.0 / chosen.step_s, chosen.delta ? "delta-angle" : "rate",
-                chosen.bound_rad, chosen.bound_rad / degree, static_cast<double>(r.cost_flops_per_s));
+                figure, chosen.bound_rad, chosen.bound_rad / degree,
+                static_cast<double>(r.cost_flops_per_s));
     std::printf("  why: the cheapest sample-driven stepper (flops per step x steps per second) whose\n"
-                "  worst-case horizon bound at this gyro rate meets the budget; the cheaper ones:\n");
+                "  %s at this gyro rate meets the budget; the cheaper ones:\n",
+                expected ? "expected horizon error" : "worst-case horizon bound");
   } else {
     std::printf("  no sample-driven stepper meets the budget at this gyro rate; candidates:\n");
   }
@@ -325,25 +332,29 @@ Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<
     if (r.found && !(c.cost_flops_per_s < r.cost_flops_per_s)) {
       continue;
     }
-    std::printf("    %-30s %10.0f flop/s  step %.4e s  bound %s rad  %s\n", c.name,
-                static_cast<double>(c.cost_flops_per_s), static_cast<double>(c.step_s),
+    std::printf("    %-30s %10.0f flop/s  step %.4e s  %s %s rad  %s\n", c.name,
+                static_cast<double>(c.cost_flops_per_s), static_cast<double>(c.step_s), figure,
                 sci(static_cast<double>(c.bound_rad)).c_str(), outcome_text(c.outcome));
   }
   std::printf("  largest step meeting the budget, per studied method (select_step):\n");
   for (const std::string& name : methods) {
     visit_method(name, [&](auto tag) {
       using S = typename decltype(tag)::type;
-      const StepSelection<T> s = select_step<S, T>(d, static_cast<T>(o.budget), static_cast<T>(o.horizon));
+      StepSearch<T> search{};
+      search.roundoff = model;
+      const StepSelection<T> s =
+          select_step<S, T>(d, static_cast<T>(o.budget), static_cast<T>(o.horizon), search);
       const double step = static_cast<double>(s.step_s);
       switch (s.status) {
         case StepSelectionStatus::ok:
-          std::printf("    %-34s step %.4e s (%9.1f Hz updates, %9.1f Hz gyro)  bound %.3e rad\n", S::name,
+          std::printf("    %-34s step %.4e s (%9.1f Hz updates, %9.1f Hz gyro)  %s %.3e rad\n", S::name,
                       step, static_cast<double>(s.update_rate_hz), static_cast<double>(s.sample_rate_hz),
-                      static_cast<double>(s.bound_rad));
+                      figure, static_cast<double>(s.bound_rad));
           break;
         case StepSelectionStatus::budget_unreachable:
-          std::printf("    %-34s no step meets the budget (least bound %.3e rad at %.4e s)\n", S::name,
-                      static_cast<double>(s.minimum_bound_rad), static_cast<double>(s.minimizing_step_s));
+          std::printf("    %-34s no step meets the budget (least %s %.3e rad at %.4e s)\n", S::name,
+                      figure, static_cast<double>(s.minimum_bound_rad),
+                      static_cast<double>(s.minimizing_step_s));
           break;
         case StepSelectionStatus::no_bound:
           std::printf("    %-34s no finite bound for this description\n", S::name);
@@ -511,6 +522,12 @@ int main(int argc, char** argv) {
     Chosen file_choice;
     if (o.want_float) {
       file_choice = recommend<float>(o, motion, methods, "float");
+      if (!file_choice.found) {
+        // The worst-case rounding term (every rounding in the same direction) is what fails in
+        // float over long horizons; show what the typical (random-walk) rounding allows, labelled
+        // as such. It never feeds the recommendation file.
+        recommend<float>(o, motion, methods, "float", RoundoffModel::expected);
+      }
     }
     if (o.want_double) {
       file_choice = recommend<double>(o, motion, methods, "double");

@@ -144,4 +144,22 @@ T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizo
          roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
+// Which roundoff term a horizon figure carries: the worst case (every rounding in the same
+// direction, N·c·u: a bound) or the expected random walk (√N·c·u: a typical size, not a bound).
+// In float the worst case dominates long horizons — 10⁵–10⁶ steps at ~18u each is 0.1–1 rad —
+// while measured float runs sit near the random walk; a firmware engineer choosing for float
+// looks at both, and must say which one a number is.
+enum class RoundoffModel : std::uint8_t {
+  worst_case,  // horizon_error_bound: a bound
+  expected     // horizon_error_expected: a typical size
+};
+
+// horizon_error_bound or horizon_error_expected, by `model`.
+template <class Stepper, class T>
+T horizon_error(const MotionDescription<T>& description, T dt, T horizon_s,
+                RoundoffModel model) noexcept {
+  return model == RoundoffModel::expected ? horizon_error_expected<Stepper>(description, dt, horizon_s)
+                                          : horizon_error_bound<Stepper>(description, dt, horizon_s);
+}
+
 }  // namespace halfspin

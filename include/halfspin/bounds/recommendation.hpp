@@ -37,7 +37,7 @@ template <class T>
 struct CandidateReport {
   const char* name = "";
   T step_s = T(0);            // dt = periods per step / sample rate (s)
-  T bound_rad = T(0);         // worst-case horizon bound (rad)
+  T bound_rad = T(0);         // horizon bound (rad; the expected size with RoundoffModel::expected)
   T cost_flops_per_s = T(0);  // flops per step × steps per second
   CandidateOutcome outcome = CandidateOutcome::no_bound;
 };
@@ -56,13 +56,13 @@ namespace detail {
 
 template <class Stepper, class T>
 CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T budget_rad,
-                                    T horizon_s, T sample_rate_hz) noexcept {
+                                    T horizon_s, T sample_rate_hz, RoundoffModel roundoff) noexcept {
   CandidateReport<T> c{};
   const T periods = static_cast<T>(periods_per_step(Stepper::layout, Stepper::window));
   c.name = Stepper::name;
   c.step_s = periods / sample_rate_hz;
   c.cost_flops_per_s = static_cast<T>(Stepper::flops) * sample_rate_hz / periods;
-  c.bound_rad = horizon_error_bound<Stepper>(description, c.step_s, horizon_s);
+  c.bound_rad = horizon_error<Stepper>(description, c.step_s, horizon_s, roundoff);
   if (!std::isfinite(c.bound_rad)) {
     c.outcome = CandidateOutcome::no_bound;
   } else {
@@ -76,18 +76,19 @@ CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T b
 
 // The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
 // (rad) at sample_rate_hz (Hz) gyro samples, for scalar T; every candidate's outcome included.
+// With roundoff = RoundoffModel::expected the candidates' figures carry the random-walk roundoff
+// term instead (horizon_bound.hpp): typical sizes, not bounds — say so wherever they are shown.
 template <class T, class... Steppers>
-Recommendation<T, sizeof...(Steppers)> recommend_stepper(StepperList<Steppers...> /*list*/,
-                                                         const MotionDescription<T>& description,
-                                                         T budget_rad, T horizon_s,
-                                                         T sample_rate_hz) noexcept {
+Recommendation<T, sizeof...(Steppers)> recommend_stepper(
+    StepperList<Steppers...> /*list*/, const MotionDescription<T>& description, T budget_rad,
+    T horizon_s, T sample_rate_hz, RoundoffModel roundoff = RoundoffModel::worst_case) noexcept {
   constexpr std::size_t n = sizeof...(Steppers);
   Recommendation<T, n> r{};
   if (!(sample_rate_hz > T(0)) || !(horizon_s > T(0)) || !(budget_rad > T(0))) {
     return r;
   }
   r.candidates = {{detail::assess_candidate<Steppers, T>(description, budget_rad, horizon_s,
-                                                          sample_rate_hz)...}};
+                                                          sample_rate_hz, roundoff)...}};
   for (std::size_t i = 0; i < n; ++i) {
     const CandidateReport<T>& c = r.candidates[i];
     if (c.outcome != CandidateOutcome::meets_budget) {

@@ -54,10 +54,15 @@ struct StepSearch {
   T dt_max = T(1);
   std::size_t grid_points = 241;  // 40 per decade over six decades
   T relative_tolerance = T(1e-3);
+  // worst_case: the step meets the budget by a bound; expected: by the random-walk roundoff
+  // term (horizon_bound.hpp), a typical size — for float over long horizons, where the
+  // worst-case rounding term alone can exceed the budget.
+  RoundoffModel roundoff = RoundoffModel::worst_case;
 };
 
 // Largest step (s) whose worst-case horizon bound (rad) over horizon_s (s) meets budget_rad (rad)
-// for Stepper in T; see the header comment for the search and the status values.
+// for Stepper in T (or whose expected error does, with search.roundoff = expected); see the header
+// comment for the search and the status values.
 template <class Stepper, class T>
 StepSelection<T> select_step(const MotionDescription<T>& description, T budget_rad, T horizon_s,
                              const StepSearch<T>& search = StepSearch<T>{}) noexcept {
@@ -75,7 +80,9 @@ StepSelection<T> select_step(const MotionDescription<T>& description, T budget_r
   auto grid = [&](std::size_t i) noexcept {
     return std::exp(log_min + log_step * static_cast<T>(i));
   };
-  auto bound = [&](T dt) noexcept { return horizon_error_bound<Stepper>(description, dt, horizon_s); };
+  auto bound = [&](T dt) noexcept {
+    return horizon_error<Stepper>(description, dt, horizon_s, search.roundoff);
+  };
   auto finish = [&](StepSelectionStatus status, T dt, T b) noexcept {
     r.status = status;
     r.step_s = dt;
