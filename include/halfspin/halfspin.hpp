@@ -29,6 +29,7 @@
 #include "halfspin/representations/su2_matrix.hpp"
 
 // propagation
+#include "halfspin/propagation/batch_propagator.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"

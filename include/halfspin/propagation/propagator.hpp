@@ -165,20 +165,22 @@ class Propagator {
         return Status::waiting_for_samples;
       }
     }
-    // The window is complete: step on a copy so that a non-finite result (which validated input
-    // cannot produce, but state must never be corrupted) leaves everything as it was.
-    std::array<Vector3<T>, window> input = history_;
-    input[window - 1] = sample;
+    // The window is complete: step on the history with the new sample in its last slot. A
+    // non-finite result (which validated input cannot produce, but state must never be
+    // corrupted) puts the slot's previous bits back, so everything is as it was. (Stepping on a
+    // copy of the window instead cost up to 1.3× a bare step in the propagator benchmarks.)
+    const Vector3<T> displaced = history_[window - 1];
+    history_[window - 1] = sample;
     const T step_dt = window_dt_ + dt;
     T estimate = T(0);
-    const Quaternion<T> next = run_stepper(input, step_dt, estimate);
+    const Quaternion<T> next = run_stepper(history_, step_dt, estimate);
     if (!is_finite(next)) {
+      history_[window - 1] = displaced;
       count_rejection(Status::non_finite);
       return Status::non_finite;
     }
     ++counters_.samples_accepted;
     last_error_estimate_ = estimate;
-    history_ = input;
     commit(next, step_dt);
     shift_history();
     return Status::ok;
