@@ -5,7 +5,9 @@
 // Format (our own; CSV per RFC 4180 without quoting, since every field is a number):
 //   line 1:  a header, exactly `t,wx,wy,wz` (rate form) or `t,dx,dy,dz` (delta-angle form)
 //   then one sample per line, comma-separated decimal numbers (anything strtod reads in the "C"
-//   locale; spaces around a field are allowed, a trailing CR is ignored):
+//   locale; spaces around a field are allowed, a trailing CR is ignored, so CRLF files read the
+//   same as LF files; a UTF-8 byte-order mark before the header is skipped; the last line may
+//   lack its newline):
 //     rate form:   t (s), body rate wx, wy, wz (rad/s) at time t
 //     delta form:  t (s), delta-angle dx, dy, dz (rad): the integral of the body rate over the
 //                  interval that ends at t (the previous row's t, or the log's start time)
@@ -15,7 +17,8 @@
 // Interface (all in halfspin::tools):
 //   LineProblem, line_problem_name(p)    what can be wrong with one line (the reader's classes)
 //   NumericCsvReader<N>                  one line at a time, constant memory, 1-based line numbers:
-//       read_header(text) → bool           the first line (false: empty file or over-long line)
+//       read_header(text) → bool           the first line, a UTF-8 byte-order mark removed (false:
+//                                          empty file, i.e. line() == 0, or over-long line)
 //       next(values)      → ReadOutcome    row / end / bad; after `bad`, problem(), message(),
 //                                          and the parsed values (non_finite: values hold the
 //                                          parsed numbers, non-finite ones included)
@@ -72,12 +75,16 @@ class NumericCsvReader {
  public:
   explicit NumericCsvReader(std::istream& in) : in_(in) {}
 
-  // Reads the first line into `text` (without line end). False at end of input or if too long.
+  // Reads the first line into `text` (without line end or a leading UTF-8 byte-order mark, which
+  // editors on Windows write). False at end of input (line() stays 0) or if too long.
   bool read_header(std::string& text) {
     if (!read_line()) {
       return false;
     }
     text = line_;
+    if (text.compare(0, 3, "\xEF\xBB\xBF") == 0) {
+      text.erase(0, 3);
+    }
     return !too_long_;
   }
 

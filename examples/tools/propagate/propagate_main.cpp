@@ -12,6 +12,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include <type_traits>
 
 #include "gyro_log.hpp"
 #include "halfspin/core/angle_between.hpp"
@@ -35,7 +36,8 @@ constexpr const char* help_text = R"(halfspin-propagate: propagate the attitude 
 
 Usage: halfspin-propagate LOG --output FILE [options]
 
-Input LOG: CSV with a header row, then one sample per line:
+Input LOG: CSV with a header row, then one sample per line (LF or CRLF line ends; a UTF-8
+byte-order mark before the header is skipped; the last line may lack its newline):
   t,wx,wy,wz   rate form: t (s), body rate (rad/s) at t. Propagation starts at the first row's
                time with the initial attitude; a step ends at each row that completes a window.
   t,dx,dy,dz   delta-angle form: t (s), delta-angle (rad) = integral of the body rate over the
@@ -87,8 +89,12 @@ attitude (quaternion and Euler), and with --truth the attitude error.
 
 Bad input: a malformed or over-long line, a wrong number of fields, a non-numeric field, NaN or
 infinity, a timestamp that does not increase, a gap (interval > --max-interval), a sample over
-range, a bad header, a log with no complete step. Each is reported as FILE:LINE: reason. Without
---skip-bad the first one rejects the file and nothing is written.
+range (above --max-rate, or with --scalar float beyond the largest float, 3.4e38), a sample whose
+step result is not finite in the scalar type (e.g. a rate of 1e300 rad/s in double: set --max-rate
+to the gyro's full scale), a bad header, an empty file, a log with no complete step. A last line
+cut short is reported like any other bad line (a cut number is not a number, missing fields are a
+malformed line). Subnormal values are valid numbers and propagate like any other. Each is reported
+as FILE:LINE: reason. Without --skip-bad the first one rejects the file and nothing is written.
 
 Memory stays constant however long the log: it is read one line at a time and written as it goes.
 
@@ -232,6 +238,17 @@ class TruthTrack {
 
 double to_degrees(double rad) noexcept { return rad * (180.0 / pi<double>); }
 
+// `x` in the scalar type T, ±infinity beyond T's finite range: converting an out-of-range double
+// to float is undefined behaviour in C++ ([conv.double]), so it is never done directly.
+template <class T>
+T to_scalar(double x) noexcept {
+  if (std::fabs(x) > static_cast<double>(std::numeric_limits<T>::max())) {
+    return std::signbit(x) ? -std::numeric_limits<T>::infinity()
+                           : std::numeric_limits<T>::infinity();
+  }
+  return static_cast<T>(x);
+}
+
 template <class T, class Stepper>
 int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroLogForm form,
         StagedOutputFile& out, TruthTrack* truth) {
@@ -247,19 +264,17 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
   SelectedRenormalization<T> policy;
   policy.kind = opt.renormalize;
   policy.periodic.period = opt.period;
-  policy.threshold.threshold = static_cast<T>(opt.threshold);
+  policy.threshold.threshold = to_scalar<T>(opt.threshold);
 
   Quaternion<double> q0d = normalized(opt.initial);
   const Quaternion<T> q0{static_cast<T>(q0d.w), static_cast<T>(q0d.x), static_cast<T>(q0d.y),
                          static_cast<T>(q0d.z)};
   // The gap limit is set once the first interval is known (or from --max-interval).
   std::optional<double> max_interval = opt.max_interval;
-  const T max_rate = opt.max_rate > static_cast<double>(std::numeric_limits<T>::max())
-                         ? std::numeric_limits<T>::infinity()
-                         : static_cast<T>(opt.max_rate);
+  const T max_rate = to_scalar<T>(opt.max_rate);
   std::optional<Propagator<T, Stepper, SelectedRenormalization<T>>> prop;
   const auto make_propagator = [&](double max_step) {
-    prop.emplace(q0, GyroLimits<T>{max_rate, static_cast<T>(max_step)}, T(0), policy);
+    prop.emplace(q0, GyroLimits<T>{max_rate, to_scalar<T>(max_step)}, T(0), policy);
   };
   if (max_interval) make_propagator(*max_interval);
 
@@ -324,7 +339,7 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
 
   // Pushes one sample; returns false on a fatal problem (message printed).
   const auto push = [&](const Vector3<T>& v, double dt, double t, std::size_t line) -> bool {
-    const Status s = prop->push(v, static_cast<T>(dt));
+    const Status s = prop->push(v, to_scalar<T>(dt));
     if (s == Status::ok) {
       return emit(t);
     }
@@ -335,6 +350,14 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
         return false;
       }
       ++skipped.over_range;
+    } else if (s == Status::non_finite && !opt.skip_bad) {
+      // The input was checked finite: the step's result overflowed the scalar type.
+      bad(line, std::string("sample rejected by the propagator: non_finite (the step's result is "
+                            "not finite in ") +
+                    (std::is_same<T, float>::value ? "float" : "double") +
+                    ": a rate or delta-angle too large for the scalar type; set --max-rate to the "
+                    "gyro's full scale)");
+      return false;
     } else if (is_rejection(s) && !opt.skip_bad) {
       bad(line, std::string("sample rejected by the propagator: ") + status_name(s));
       return false;
@@ -369,13 +392,32 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
       if (!time_ok || !have_prev_time || !(v[0] > prev_time) || !prop) {
         continue;
       }
-      static_cast<void>(prop->push(Vector3<T>{static_cast<T>(v[1]), static_cast<T>(v[2]),
-                                              static_cast<T>(v[3])},
-                                   static_cast<T>(v[0] - prev_time)));
+      static_cast<void>(prop->push(Vector3<T>{to_scalar<T>(v[1]), to_scalar<T>(v[2]),
+                                              to_scalar<T>(v[3])},
+                                   to_scalar<T>(v[0] - prev_time)));
       prev_time = v[0];
       continue;
     }
     const double t = v[0];
+    // A finite double beyond the scalar type's range (float: 3.4e38) cannot be converted.
+    std::size_t beyond = 0;
+    for (std::size_t i = 1; i < 4 && beyond == 0; ++i) {
+      if (std::fabs(v[i]) > static_cast<double>(std::numeric_limits<T>::max())) beyond = i;
+    }
+    if (beyond != 0) {
+      if (!opt.skip_bad) {
+        char buf[200];
+        std::snprintf(buf, sizeof buf,
+                      "sample over range: field %zu (%s) = %.17g is beyond the largest %s (%.9g)",
+                      beyond + 1, names[beyond], v[beyond],
+                      std::is_same<T, float>::value ? "float" : "double",
+                      static_cast<double>(std::numeric_limits<T>::max()));
+        bad(line, buf);
+        return exit_input;
+      }
+      ++skipped.over_range;
+      continue;
+    }
     const Vector3<T> sample{static_cast<T>(v[1]), static_cast<T>(v[2]), static_cast<T>(v[3])};
     if (!have_prev_time) {  // rate form, first row: the start
       have_prev_time = true;
@@ -447,9 +489,11 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
   }
   const PropagationCounters c = prop ? prop->counters() : PropagationCounters{};
   if (c.steps == 0) {
-    std::fprintf(stderr, "%s: no step completed (%llu samples read; %s needs %zu per step)\n",
-                 opt.log.c_str(), static_cast<unsigned long long>(samples_read), Stepper::name,
-                 Stepper::window);
+    std::fprintf(stderr,
+                 "%s:%zu: no complete step in the log (%llu samples read after the header; %s "
+                 "needs %zu per step)\n",
+                 opt.log.c_str(), reader.line(), static_cast<unsigned long long>(samples_read),
+                 Stepper::name, Stepper::window);
     return exit_input;
   }
 
@@ -640,7 +684,13 @@ int main(int argc, char** argv) {
   NumericCsvReader<4> reader(in);
   std::string header;
   if (!reader.read_header(header)) {
-    std::fprintf(stderr, "%s:1: empty log or over-long header line\n", opt.log.c_str());
+    if (reader.line() == 0) {
+      std::fprintf(stderr, "%s:1: empty file: no header line (expected 't,wx,wy,wz' or 't,dx,dy,dz')\n",
+                   opt.log.c_str());
+    } else {
+      std::fprintf(stderr, "%s:1: header line longer than %zu characters\n", opt.log.c_str(),
+                   max_line_length);
+    }
     return exit_input;
   }
   const std::optional<GyroLogForm> form = gyro_log_form_from_header(header);

@@ -323,9 +323,170 @@ TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no tempo
                              (dir / "out.csv").string()},
                             dir);
     CHECK(r.code == 2);
-    CHECK(r.err.find("no step completed") != std::string::npos);
+    CHECK(r.err.find("short.csv:3: no complete step") != std::string::npos);
     CHECK(slurp(dir / "out.csv") == "previous contents\n");
     CHECK(files_starting_with(dir, "out.csv") == 1);
+  }
+}
+
+namespace {
+
+// Writes `text` byte for byte (no line end added).
+void write_bytes(const fs::path& p, const std::string& text) {
+  std::ofstream f(p, std::ios::binary);
+  f << text;
+}
+
+// The good rate log with `end` after every line, and row `row` (0-based, line row + 2) replaced.
+std::string rate_log_text(const std::string& end, int row = -1, const std::string& replacement = "") {
+  std::vector<std::string> lines = good_rate_lines();
+  if (row >= 0) lines[static_cast<std::size_t>(row + 1)] = replacement;
+  std::string text;
+  for (const std::string& l : lines) text += l + end;
+  return text;
+}
+
+}  // namespace
+
+TEST_CASE("bad files: CRLF and byte-order mark accepted, bit-identical to the LF log", "[tools]") {
+  // CRLF is RFC 4180's own line end and a UTF-8 byte-order mark (EF BB BF, Unicode standard §2.6)
+  // is what Windows editors put first: both must read as the same numbers, so the output files
+  // are byte-identical to the LF log's (the numbers, not the line ends, drive the propagation).
+  const fs::path dir = work_dir("bad_files_accepted");
+  write_bytes(dir / "lf.csv", rate_log_text("\n"));
+  write_bytes(dir / "crlf.csv", rate_log_text("\r\n"));
+  write_bytes(dir / "bom.csv", "\xEF\xBB\xBF" + rate_log_text("\n"));
+  write_bytes(dir / "bom_crlf.csv", "\xEF\xBB\xBF" + rate_log_text("\r\n"));
+  std::string no_newline = rate_log_text("\n");
+  no_newline.pop_back();  // a complete last line without its newline
+  write_bytes(dir / "no_newline.csv", no_newline);
+  for (const char* scalar : {"double", "float"}) {
+    INFO(scalar);
+    REQUIRE(propagate({(dir / "lf.csv").string(), "--scalar", scalar, "--output", (dir / "lf_out.csv").string()}, dir)
+                .code == 0);
+    const std::string reference = slurp(dir / "lf_out.csv");
+    REQUIRE(read_csv(dir / "lf_out.csv").rows.size() == 29u);  // 30 rows, one step per interval
+    for (const char* name : {"crlf", "bom", "bom_crlf", "no_newline"}) {
+      INFO(name);
+      const Run r = propagate({(dir / (std::string(name) + ".csv")).string(), "--scalar", scalar,
+                               "--output", (dir / "out.csv").string()},
+                              dir);
+      INFO(r.err);
+      REQUIRE(r.code == 0);
+      CHECK(slurp(dir / "out.csv") == reference);
+    }
+  }
+  SECTION("the help text documents it") {
+    const fs::path out = dir / "help.txt";
+    REQUIRE(std::system(("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --help > '" + out.string() + "'").c_str()) == 0);
+    const std::string help = slurp(out);
+    CHECK(help.find("CRLF") != std::string::npos);
+    CHECK(help.find("byte-order mark before the header is skipped") != std::string::npos);
+    CHECK(help.find("the last line may lack its newline") != std::string::npos);
+  }
+}
+
+TEST_CASE("bad files: empty, header only, cut last line: exit 2, FILE:LINE: reason, no output", "[tools]") {
+  const fs::path dir = work_dir("bad_files_rejected");
+  struct Case {
+    const char* name;
+    std::string text;
+    std::string where;  // expected "FILE:LINE: " suffix
+    const char* reason;
+  };
+  // The good log (header + 30 rows = 31 lines) with its last line (31) replaced by a cut one.
+  std::string head = rate_log_text("\n");
+  head.pop_back();
+  head.erase(head.rfind('\n') + 1);
+  const std::string cut_number = head + "0.29,0.2,0,1.2e-";  // cut inside the exponent, no newline
+  const std::string cut_short = head + "0.005,1.2e-";        // cut after the second field
+  const std::vector<Case> cases{
+      {"empty (0 bytes)", "", ":1: ", "empty file: no header line"},
+      {"header only", "t,wx,wy,wz\n", ":1: ", "no complete step in the log (0 samples read"},
+      {"header only, no newline", "t,wx,wy,wz", ":1: ", "no complete step"},
+      {"header and one row", "t,wx,wy,wz\r\n0,0.1,0,0\r\n", ":2: ", "no complete step in the log (1 samples read"},
+      {"last line cut in a number", cut_number, ":31: ", "field 4 (wz) is not a number: '1.2e-'"},
+      {"last line cut short", cut_short, ":31: ", "expected 4 comma-separated fields, found 2"},
+  };
+  for (const Case& c : cases) {
+    for (const char* scalar : {"double", "float"}) {
+      INFO(c.name << " " << scalar);
+      write_bytes(dir / "bad.csv", c.text);
+      const Run r = propagate({(dir / "bad.csv").string(), "--scalar", scalar, "--output", (dir / "out.csv").string()},
+                              dir);
+      INFO(r.err);
+      CHECK(r.code == 2);
+      CHECK(r.err.find((dir / "bad.csv").string() + c.where) != std::string::npos);
+      CHECK(r.err.find(c.reason) != std::string::npos);
+      CHECK(files_starting_with(dir, "out.csv") == 0);
+    }
+  }
+}
+
+TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tools]") {
+  // IEEE 754 binary64/binary32 ranges (common practice, no source): largest double ≈ 1.8e308,
+  // largest float ≈ 3.4e38, smallest normal float ≈ 1.2e-38, double ≈ 2.2e-308. The tool itself
+  // is built with the project's warnings; the undefined float conversion of an out-of-range
+  // double ([conv.double]) is avoided by checking the range first (the float cases below).
+  const fs::path dir = work_dir("bad_files_values");
+  struct Case {
+    const char* name;
+    const char* scalar;
+    std::string row;     // replaces row 9 (line 11)
+    int code;
+    const char* reason;  // for exit 2
+  };
+  const std::vector<Case> cases{
+      // 1e300 rad/s × 0.01 s squared overflows double: the step's result is not finite.
+      {"1e300 in double", "double", "0.09,1e300,0,0", 2, "line 11 non_finite (the step's result is not finite in double"},
+      // 1e300 is no float at all: over range before any conversion.
+      {"1e300 in float", "float", "0.09,0.2,-1e300,0", 2, "sample over range: field 3 (wy) = -1.0000000000000001e+300 is beyond the largest float"},
+      // 1e38 rad/s is a float, but 1e38 × 0.01 squared (1e72) overflows float.
+      {"1e38 in float", "float", "0.09,1e38,0,0", 2, "non_finite (the step's result is not finite in float"},
+      // 1e38 in double: 1e36 rad in one step; finite arithmetic throughout.
+      {"1e38 in double", "double", "0.09,1e38,0,0", 0, ""},
+      {"1e-310 (subnormal double) in double", "double", "0.09,1e-310,0,0", 0, ""},
+      {"1e-310 in float (rounds to 0)", "float", "0.09,1e-310,0,0", 0, ""},
+      {"1e-40 (subnormal float) in float", "float", "0.09,1e-40,0,0", 0, ""},
+      {"1e-40 in double", "double", "0.09,1e-40,0,0", 0, ""},
+  };
+  for (const Case& c : cases) {
+    INFO(c.name);
+    write_bytes(dir / "log.csv", rate_log_text("\n", 9, c.row));
+    const Run r = propagate({(dir / "log.csv").string(), "--method", "expmap_hold_end", "--scalar", c.scalar,
+                             "--output", (dir / "out.csv").string()},
+                            dir);
+    INFO(r.err);
+    REQUIRE(r.code == c.code);
+    if (c.code == 2) {
+      const std::string reason(c.reason);
+      if (reason.rfind("line 11 ", 0) == 0) {
+        CHECK(r.err.find((dir / "log.csv").string() + ":11: sample rejected by the propagator: ") != std::string::npos);
+        CHECK(r.err.find(reason.substr(8)) != std::string::npos);
+      } else {
+        CHECK(r.err.find((dir / "log.csv").string() + ":11: ") != std::string::npos);
+        CHECK(r.err.find(reason) != std::string::npos);
+      }
+      CHECK(files_starting_with(dir, "out.csv") == 0);
+      continue;
+    }
+    const Csv out = read_csv(dir / "out.csv");
+    REQUIRE(out.rows.size() == 29u);
+    const double eps = std::string(c.scalar) == "float" ? 1.1920929e-07 : 2.220446049250313e-16;
+    for (const auto& row : out.rows) {
+      for (const double x : row) REQUIRE(std::isfinite(x));
+      CHECK(std::fabs(halfspin::norm(row_quaternion(row)) - 1.0) < 8 * eps);
+    }
+    if (c.row.find("1e-") != std::string::npos) {
+      // A subnormal rate turns the attitude by less than half an ulp of 1 (IEEE 754 round to
+      // nearest, common practice, no source): the output is byte-identical to the log with 0.
+      write_bytes(dir / "zero.csv", rate_log_text("\n", 9, "0.09,0,0,0"));
+      REQUIRE(propagate({(dir / "zero.csv").string(), "--method", "expmap_hold_end", "--scalar", c.scalar,
+                         "--output", (dir / "zero_out.csv").string()},
+                        dir)
+                  .code == 0);
+      CHECK(slurp(dir / "out.csv") == slurp(dir / "zero_out.csv"));
+    }
   }
 }
 
