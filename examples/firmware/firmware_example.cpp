@@ -132,6 +132,12 @@ void emit(const ImuFrame& frame) {
 // The IMU data-ready interrupt, played by SysTick (cmake/boards/mps2/startup.c puts
 // SysTick_Handler in vector 15 and lets the application define it).
 extern "C" void SysTick_Handler() {
+  // After the last frame the counter is stopped, but a tick that became pending while this
+  // handler ran (qemu on a loaded host can fall that far behind) would still be taken once:
+  // ignore it, the run is over.
+  if (imu_finished) {
+    return;
+  }
   const firmware::DeltaAngleSource& source = imu_source;
   const std::uint32_t k = imu_tick + 1;
   imu_tick = k;
