@@ -3,10 +3,13 @@
 // saw the bad sample), and is counted. The gap policy restarts the history.
 #include <catch2/catch.hpp>
 
+#include <cmath>
 #include <cstring>
 #include <limits>
 #include <vector>
 
+#include "halfspin/propagation/embedded_runge_kutta.hpp"
+#include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
@@ -166,4 +169,66 @@ TEST_CASE("a non-finite step result is rejected and leaves state intact", "[prop
     REQUIRE(same_bits(p.attitude(), fresh.attitude()));
   }
   REQUIRE(p.counters().steps == 3);
+}
+
+// Found by fuzzing (fuzz/fuzz_propagator.cpp; inputs in fuzz/regressions/fuzz_propagator/): a
+// step result that is finite can renormalize to an attitude that is not. Classic RK4 over a step
+// angle of √3·1000 rad/s·2 s ≈ 3500 rad (a gyro range and gap limit this wide make it valid input)
+// returns ‖q‖² ≈ 1e23 in float; the first-order Newton factor 3/2 − ‖q‖²/2 ≈ −7e22 then gives
+// components near 3e34, whose squared norm overflows. Before the fix the step was taken (status
+// ok) and the propagator was stuck on that attitude; now the renormalized result is checked
+// (‖q‖² positive and finite) and the step is rejected as non_finite with the state intact, the
+// policy's own state (a periodic counter) included.
+TEST_CASE(
+    "a step whose renormalized result or error estimate overflows is rejected with state intact",
+    "[propagation]") {
+  const GyroLimits<float> wide{1000.0f, 1.0f};
+  const Quaternion<float> q0{0.6f, 0.0f, 0.8f, 0.0f};
+  const Vector3<float> w{1000.0f, -1000.0f, 1000.0f};
+  Propagator<float, RungeKutta4Sampled, FirstOrderRenormalization> p(q0, wide);
+  REQUIRE(p.push(w, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(p.push(w, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(p.push(w, 1.0f) == Status::non_finite);
+  REQUIRE(same_bits(p.attitude(), q0));
+  REQUIRE(p.counters().rejected_non_finite == 1);
+  REQUIRE(p.counters().steps == 0);
+  REQUIRE(p.counters().samples_accepted == 2);
+  // The rate-function path checks the same.
+  Propagator<float, RungeKutta4RateFunction, FirstOrderRenormalization> f(q0, wide);
+  REQUIRE(f.advance([&w](float) { return w; }, 1.0f) == Status::non_finite);
+  REQUIRE(same_bits(f.attitude(), q0));
+  // Periodic, every second step: the first step is kept as it is (‖q‖² ≈ 1e23, finite), the
+  // second overflows inside the step and would have reached the Newton factor as −∞; it is
+  // rejected and the policy's counter stays where the first step left it.
+  PeriodicRenormalization<FirstOrderRenormalization> every_second{};
+  every_second.period = 2;
+  Propagator<float, RungeKutta4Sampled, PeriodicRenormalization<FirstOrderRenormalization>> r(
+      q0, wide, 0.0f, every_second);
+  for (int k = 0; k < 2; ++k) REQUIRE(r.push(w, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(r.push(w, 1.0f) == Status::ok);
+  REQUIRE(r.renormalization().count == 1);
+  const Quaternion<float> after_first = r.attitude();
+  REQUIRE(r.push(w, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(r.push(w, 1.0f) == Status::non_finite);
+  REQUIRE(r.counters().rejected_non_finite == 1);
+  REQUIRE(r.renormalization().count == 1);
+  REQUIRE(same_bits(r.attitude(), after_first));
+  // An error estimate that overflows is rejected the same way: Bogacki–Shampine 3(2) over a step
+  // of 3e5 rad/s per axis for 1 s returns ‖q‖² ≈ 9e30 (which exact renormalization would bring
+  // back to unit) but 2‖q_high − q_low‖ = +∞ in float; before the fix only a NaN estimate was
+  // rejected and the infinity entered last_error_estimate() and accumulated_error_estimate().
+  const GyroLimits<float> wider{3e5f, 1.0f};
+  Propagator<float, BogackiShampine32RateFunction, ExactRenormalization> b(q0, wider);
+  const Vector3<float> fast{3e5f, -3e5f, 3e5f};
+  REQUIRE(b.advance([&fast](float) { return fast; }, 1.0f) == Status::non_finite);
+  REQUIRE(same_bits(b.attitude(), q0));
+  REQUIRE(b.last_error_estimate() == 0.0f);
+  REQUIRE(b.accumulated_error_estimate() == 0.0f);
+  REQUIRE(b.counters().rejected_non_finite == 1);
+  // With exact renormalization the same step keeps a unit attitude and is taken.
+  Propagator<float, RungeKutta4Sampled, ExactRenormalization> e(q0, wide);
+  static_cast<void>(e.push(w, 1.0f));
+  static_cast<void>(e.push(w, 1.0f));
+  REQUIRE(e.push(w, 1.0f) == Status::ok);
+  REQUIRE(std::fabs(e.norm_error()) <= 4 * std::numeric_limits<float>::epsilon());
 }

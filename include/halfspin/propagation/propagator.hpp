@@ -7,7 +7,9 @@
 // Bad input never touches the state: a sample with NaN/Inf, a non-positive or oversized interval,
 // or a rate beyond the gyro range is rejected with its status code, the attitude and the history
 // stay bit-for-bit as they were, and the rejection is counted. A step whose result is not finite
-// (a rate function that returned NaN) is rejected the same way.
+// (a rate function that returned NaN), whose error estimate is not finite, or whose renormalized
+// result is not finite or has a squared norm of zero or beyond T's range, is rejected the same
+// way, as non_finite.
 //
 // Gap policy: an interval above limits.max_step is rejected as step_too_long (samples were
 // missed; the rotation during the gap is lost and the attitude must be re-anchored by whatever
@@ -23,6 +25,7 @@
 #include <array>
 #include <cstddef>
 #include <cstdint>
+#include <limits>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
@@ -113,12 +116,14 @@ class Propagator {
     } else {
       next = Stepper::step(attitude_, rate_at, dt);
     }
-    if (!is_finite(next) || !(estimate == estimate)) {
+    Renormalization policy = policy_;
+    const Quaternion<T> kept = policy.apply(next);
+    if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
       count_rejection(Status::non_finite);
       return Status::non_finite;
     }
     last_error_estimate_ = estimate;
-    commit(next, dt);
+    commit(kept, policy, dt);
     return Status::ok;
   }
 
@@ -174,14 +179,19 @@ class Propagator {
     const T step_dt = window_dt_ + dt;
     T estimate = T(0);
     const Quaternion<T> next = run_stepper(history_, step_dt, estimate);
-    if (!is_finite(next)) {
+    // The policy runs on a copy (it may count steps) and its result is checked as well: a finite
+    // step result can still renormalize to a non-finite or zero attitude (a first-order Newton
+    // step on a Runge–Kutta result far from unit norm after a huge step angle overflows).
+    Renormalization policy = policy_;
+    const Quaternion<T> kept = policy.apply(next);
+    if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
       history_[window - 1] = displaced;
       count_rejection(Status::non_finite);
       return Status::non_finite;
     }
     ++counters_.samples_accepted;
     last_error_estimate_ = estimate;
-    commit(next, step_dt);
+    commit(kept, policy, step_dt);
     shift_history();
     return Status::ok;
   }
@@ -198,8 +208,17 @@ class Propagator {
     }
   }
 
-  void commit(const Quaternion<T>& next, T dt) noexcept {
-    attitude_ = policy_.apply(next);
+  // An attitude the state may hold: ‖q‖² positive and finite in T (so no NaN or infinity, and
+  // normalized(), rotate() and the conversions work on it).
+  static bool is_usable(const Quaternion<T>& q) noexcept {
+    const T n2 = squared_norm(q);
+    return n2 > T(0) && n2 <= std::numeric_limits<T>::max();
+  }
+
+  // Takes a checked step: the renormalized attitude and the policy state that produced it.
+  void commit(const Quaternion<T>& kept, const Renormalization& policy, T dt) noexcept {
+    attitude_ = kept;
+    policy_ = policy;
     ++counters_.steps;
     accumulated_error_estimate_ += last_error_estimate_;
     // Kahan summation of elapsed time.
