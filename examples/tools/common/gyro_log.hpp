@@ -59,7 +59,7 @@ enum class LineProblem {
 inline const char* line_problem_name(LineProblem p) noexcept {
   switch (p) {
     case LineProblem::none: return "none";
-    case LineProblem::too_long: return "malformed";
+    case LineProblem::too_long:
     case LineProblem::wrong_field_count: return "malformed";
     case LineProblem::non_numeric: return "non_numeric";
     case LineProblem::non_finite: return "non_finite";
@@ -111,7 +111,7 @@ class NumericCsvReader {
         char* end = nullptr;
         errno = 0;
         const double v = owned.empty() ? 0.0 : std::strtod(owned.c_str(), &end);
-        if (owned.empty() || end != owned.c_str() + owned.size()) {
+        if (owned.empty() || end - owned.c_str() != static_cast<std::ptrdiff_t>(owned.size())) {
           if (!first_problem) {
             first_problem.emplace(LineProblem::non_numeric,
                                   "field " + std::to_string(field + 1) + " (" + names[field] +
@@ -170,16 +170,21 @@ class NumericCsvReader {
     if (c == std::char_traits<char>::eof()) {
       return false;
     }
+    bool cut = false;  // characters beyond max_line_length + 1 were dropped
     while (c != std::char_traits<char>::eof() && c != '\n') {
       if (line_.size() < max_line_length + 1) {
         line_.push_back(static_cast<char>(c));
+      } else {
+        cut = true;
       }
       c = in_.get();
     }
-    if (!line_.empty() && line_.back() == '\r') {
+    // Only a CR that ends the line is a line end: one kept at the cut is inside an over-long line
+    // (found by fuzzing: such a line was accepted as its first max_line_length characters).
+    if (!cut && !line_.empty() && line_.back() == '\r') {
       line_.pop_back();
     }
-    if (line_.size() > max_line_length) {
+    if (cut || line_.size() > max_line_length) {
       too_long_ = true;
     }
     ++line_number_;
@@ -227,6 +232,8 @@ class StagedOutputFile {
   StagedOutputFile() = default;
   StagedOutputFile(const StagedOutputFile&) = delete;
   StagedOutputFile& operator=(const StagedOutputFile&) = delete;
+  StagedOutputFile(StagedOutputFile&&) = delete;
+  StagedOutputFile& operator=(StagedOutputFile&&) = delete;
   ~StagedOutputFile() { discard(); }
 
   // Creates the temporary `<destination>.tmp-XXXXXX`. False (with errno) if it cannot.

@@ -3,6 +3,7 @@
 #include <array>
 #include <cerrno>
 #include <cmath>
+#include <cstddef>
 #include <cstdint>
 #include <cstdio>
 #include <cstdlib>
@@ -79,7 +80,10 @@ bool parse_positive(const std::string& text, double& out) {
   if (text.empty()) return false;
   char* end = nullptr;
   const double v = std::strtod(text.c_str(), &end);
-  if (end != text.c_str() + text.size() || !(v - v == 0.0) || !(v > 0.0)) return false;
+  if (end - text.c_str() != static_cast<std::ptrdiff_t>(text.size()) || !(v - v == 0.0) ||
+      !(v > 0.0)) {
+    return false;
+  }
   out = v;
   return true;
 }
@@ -132,9 +136,11 @@ int main(int argc, char** argv) {
   std::string output;
   std::string truth_path;
   for (int i = 1; i < argc; ++i) {
+    // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
     const std::string a = argv[i];
     const auto value = [&]() -> std::string {
       if (i + 1 >= argc) usage_error("option " + a + " needs a value");
+      // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
       return argv[++i];
     };
     if (a == "--help" || a == "-h") {

@@ -116,7 +116,9 @@ std::optional<double> parse_number(const std::string& text) {
   if (text.empty()) return std::nullopt;
   char* end = nullptr;
   const double v = std::strtod(text.c_str(), &end);
-  if (end != text.c_str() + text.size() || !(v - v == 0.0)) return std::nullopt;
+  if (end - text.c_str() != static_cast<std::ptrdiff_t>(text.size()) || !(v - v == 0.0)) {
+    return std::nullopt;
+  }
   return v;
 }
 
@@ -142,8 +144,9 @@ struct Options {
 
 std::string euler_name(EulerSequence s) {
   const EulerAxes a = euler_axes(s);
-  const char* axis = "xyz";
-  return {axis[a.first], axis[a.second], axis[a.third]};
+  constexpr std::array<char, 3> axis{'x', 'y', 'z'};
+  return {axis[static_cast<std::size_t>(a.first)], axis[static_cast<std::size_t>(a.second)],
+          axis[static_cast<std::size_t>(a.third)]};
 }
 
 // The library's policies behind one run-time choice (each apply() is the library's own).
@@ -375,7 +378,7 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
     const std::size_t line = reader.line();
     if (r == ReadOutcome::bad) {
       const LineProblem p = reader.problem();
-      const bool time_ok = p == LineProblem::non_finite && (v[0] - v[0] == 0.0);
+      const bool time_ok = p == LineProblem::non_finite && std::isfinite(v[0]);
       if (!opt.skip_bad) {
         bad(line, reader.message());
         return exit_input;
@@ -406,13 +409,13 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
     }
     if (beyond != 0) {
       if (!opt.skip_bad) {
-        char buf[200];
-        std::snprintf(buf, sizeof buf,
+        std::array<char, 200> buf{};
+        std::snprintf(buf.data(), buf.size(),
                       "sample over range: field %zu (%s) = %.17g is beyond the largest %s (%.9g)",
                       beyond + 1, names[beyond], v[beyond],
                       std::is_same<T, float>::value ? "float" : "double",
                       static_cast<double>(std::numeric_limits<T>::max()));
-        bad(line, buf);
+        bad(line, buf.data());
         return exit_input;
       }
       ++skipped.over_range;
@@ -429,10 +432,10 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
     }
     if (!(t > prev_time)) {
       if (!opt.skip_bad) {
-        char buf[160];
-        std::snprintf(buf, sizeof buf, "timestamp %.17g does not increase (previous %.17g)", t,
-                      prev_time);
-        bad(line, buf);
+        std::array<char, 160> buf{};
+        std::snprintf(buf.data(), buf.size(),
+                      "timestamp %.17g does not increase (previous %.17g)", t, prev_time);
+        bad(line, buf.data());
         return exit_input;
       }
       ++skipped.time_not_increasing;
@@ -470,12 +473,12 @@ int run(const Options& opt, std::istream& in, NumericCsvReader<4>& reader, GyroL
     }
     if (dt > *max_interval) {
       if (!opt.skip_bad) {
-        char buf[200];
-        std::snprintf(buf, sizeof buf,
+        std::array<char, 200> buf{};
+        std::snprintf(buf.data(), buf.size(),
                       "gap: interval %.17g s exceeds the limit %.17g s (--max-interval; default "
                       "2.5 x the first interval)",
                       dt, *max_interval);
-        bad(line, buf);
+        bad(line, buf.data());
         return exit_input;
       }
       ++skipped.gap;
@@ -559,9 +562,11 @@ int main(int argc, char** argv) {
   Options opt;
   std::string initial_text;
   for (int i = 1; i < argc; ++i) {
+    // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
     const std::string a = argv[i];
     const auto value = [&]() -> std::string {
       if (i + 1 >= argc) usage_error("option " + a + " needs a value");
+      // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
       return argv[++i];
     };
     if (a == "--help" || a == "-h") {

@@ -1,7 +1,9 @@
 #pragma once
 // Command line of halfspin-stepstudy: parsing and the help text. Tool code.
 
+#include <array>
 #include <cmath>
+#include <cstddef>
 #include <cstdlib>
 #include <string>
 #include <string_view>
@@ -9,11 +11,12 @@
 
 namespace halfspin::tools::stepstudy {
 
-inline constexpr const char* default_methods[] = {
+inline constexpr std::array<const char*, 8> default_methods{
     "expmap_midpoint_mean", "magnus4",        "coning_1_sample",  "coning_2_sample",
     "coning_3_sample",      "rk4_sampled",    "rkmk4_sampled",    "dormand_prince_54_rate_function"};
 
-struct Options {
+// Grouped by meaning, not packed: read once from the command line.
+struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool help = false;
   std::string motion;                 // truth motion name ("" in bounds-only mode)
   bool bounds_only = false;           // --envelope and/or --coning
@@ -146,13 +149,14 @@ inline bool parse_number(const std::string& text, double& value) {
   }
   char* end = nullptr;
   value = std::strtod(text.c_str(), &end);
-  return end == text.c_str() + text.size() && std::isfinite(value);
+  return end - text.c_str() == static_cast<std::ptrdiff_t>(text.size()) && std::isfinite(value);
 }
 
 }  // namespace detail
 
 // Parses argv into `o`; on bad usage returns false with a message in `error`.
 inline bool parse_options(int argc, char** argv, Options& o, std::string& error) {
+  // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, argc entries
   std::vector<std::string> args(argv + 1, argv + argc);
   bool step_given = false;
   bool have_horizon = false;
@@ -176,7 +180,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
         return false;
       }
       if (!detail::parse_number(v, out) || !(out > 0)) {
-        error = a + ": '" + v + "' is not a positive finite number";
+        error = a;
+        error.append(": '").append(v).append("' is not a positive finite number");
         return false;
       }
       return true;
@@ -246,7 +251,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       }
       char* end = nullptr;
       const long n = std::strtol(v.c_str(), &end, 10);
-      if (v.empty() || end != v.c_str() + v.size() || n < 1 || n > 400) {
+      if (v.empty() || end - v.c_str() != static_cast<std::ptrdiff_t>(v.size()) || n < 1 ||
+          n > 400) {
         error = "--steps: '" + v + "' is not a whole number from 1 to 400";
         return false;
       }

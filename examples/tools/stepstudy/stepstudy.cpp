@@ -9,6 +9,7 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <cstdint>
@@ -82,9 +83,9 @@ const MethodInfo* find_method(const std::string& name) {
 }
 
 std::string format(const char* fmt, double v) {
-  char buffer[64];
-  std::snprintf(buffer, sizeof buffer, fmt, v);
-  return buffer;
+  std::array<char, 64> buffer{};
+  std::snprintf(buffer.data(), buffer.size(), fmt, v);
+  return buffer.data();
 }
 std::string sci(double v) { return std::isfinite(v) ? format("%.3e", v) : (std::isnan(v) ? "-" : "inf"); }
 

@@ -94,9 +94,9 @@ AxisymmetricBodyMotion<T> body_motion() {
 }
 
 inline std::string format(const char* fmt, double a, double b = 0, double c = 0) {
-  char buffer[256];
-  std::snprintf(buffer, sizeof buffer, fmt, a, b, c);
-  return buffer;
+  std::array<char, 256> buffer{};
+  std::snprintf(buffer.data(), buffer.size(), fmt, a, b, c);
+  return buffer.data();
 }
 
 }  // namespace detail

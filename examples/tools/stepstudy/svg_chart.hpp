@@ -16,6 +16,7 @@
 // Tool code (not part of the installed library).
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <cstdio>
@@ -69,16 +70,17 @@ struct Figure {
 
 // Our palette: ten hand-picked colours, then hues spread by the golden angle.
 inline std::string colour(std::size_t index) {
-  static const char* const palette[] = {"#1d5fa0", "#c8433a", "#2f8f46", "#d08a12", "#7b4ea3",
-                                        "#178a8f", "#9c5b2e", "#c2508f", "#5a6b1f", "#3f3f9f"};
-  constexpr std::size_t count = sizeof palette / sizeof palette[0];
+  static constexpr std::array<const char*, 10> palette{"#1d5fa0", "#c8433a", "#2f8f46", "#d08a12",
+                                                       "#7b4ea3", "#178a8f", "#9c5b2e", "#c2508f",
+                                                       "#5a6b1f", "#3f3f9f"};
+  constexpr std::size_t count = palette.size();
   if (index < count) {
     return palette[index];
   }
   const double hue = std::fmod(static_cast<double>(index - count) * 137.50776 + 20.0, 360.0);
-  char buffer[40];
-  std::snprintf(buffer, sizeof buffer, "hsl(%.0f,62%%,38%%)", hue);
-  return buffer;
+  std::array<char, 40> buffer{};
+  std::snprintf(buffer.data(), buffer.size(), "hsl(%.0f,62%%,38%%)", hue);
+  return buffer.data();
 }
 
 inline std::string escape(const std::string& text) {
@@ -100,9 +102,9 @@ inline std::string escape(const std::string& text) {
 namespace detail {
 
 inline std::string num(double v) {
-  char buffer[32];
-  std::snprintf(buffer, sizeof buffer, "%.2f", v);
-  return buffer;
+  std::array<char, 32> buffer{};
+  std::snprintf(buffer.data(), buffer.size(), "%.2f", v);
+  return buffer.data();
 }
 
 inline bool drawable(double x, double y) {

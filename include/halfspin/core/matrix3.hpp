@@ -10,7 +10,8 @@ namespace halfspin {
 
 template <class T>
 struct Matrix3 {
-  T m[3][3]{};
+  // Row-major; a C array keeps the documented brace initializer {{{r0}, {r1}, {r2}}}.
+  T m[3][3]{};  // NOLINT(cppcoreguidelines-avoid-c-arrays): public aggregate layout (see above)
 
   // The identity matrix.
   static constexpr Matrix3 identity() noexcept {

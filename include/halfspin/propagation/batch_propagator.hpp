@@ -244,6 +244,7 @@ class BatchPropagator {
  private:
   // The lane loop, reading copy From and writing the other; returns the lanes accepted.
   template <std::size_t From>
+  // cppcheck-suppress unusedPrivateFunction ; called as step_lanes<0>() / <1>() by step()
   std::size_t step_lanes() noexcept {
     const Lanes& dx = samples_.dx;
     const Lanes& dy = samples_.dy;

@@ -218,7 +218,7 @@ EulerDecomposition<T> to_euler_angles(const Quaternion<T>& q, EulerSequence sequ
   T first;
   T second;
   T third;
-  bool near_singular;
+  bool near_singular = false;
   if (is_proper_euler(sequence)) {
     const T sc = s * qc;
     second = T(2) * std::atan2(std::hypot(qb, sc), std::hypot(w, qa));

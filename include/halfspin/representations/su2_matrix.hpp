@@ -17,6 +17,7 @@ namespace halfspin {
 
 template <class T>
 struct Su2Matrix {
+  // NOLINTNEXTLINE(cppcoreguidelines-avoid-c-arrays): aggregate, initialized {{{a, b}, {c, d}}}
   std::complex<T> m[2][2];
 
   // Element at row r, column c (0-based).

@@ -27,6 +27,7 @@
 //    input); without it the rounding errors add up as a random walk. A quantum of 0 turns
 //    quantization off.
 
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <cstdint>
@@ -110,10 +111,12 @@ template <class T, class Motion>
 Vector3<T> gauss_legendre_delta_angle(const Motion& motion, T t0, T t1) noexcept {
   // Nodes ±x_i on [−1, 1] and their weights, computed to 30 digits by Newton's method on the
   // degree-8 Legendre polynomial (checked against GSL's table in the tests).
-  constexpr long double node[4] = {0.183434642495649804939476142360L, 0.525532409916328985817739049189L,
-                                   0.796666477413626739591553936476L, 0.960289856497536231683560868569L};
-  constexpr long double weight[4] = {0.362683783378361982965150449277L, 0.313706645877887287337962201987L,
-                                     0.222381034453374470544355994426L, 0.101228536290376259152531354310L};
+  constexpr std::array<long double, 4> node{
+      0.183434642495649804939476142360L, 0.525532409916328985817739049189L,
+      0.796666477413626739591553936476L, 0.960289856497536231683560868569L};
+  constexpr std::array<long double, 4> weight{
+      0.362683783378361982965150449277L, 0.313706645877887287337962201987L,
+      0.222381034453374470544355994426L, 0.101228536290376259152531354310L};
   const T half = T(0.5) * (t1 - t0);
   const T mid = t0 + half;
   Vector3<T> sum = Vector3<T>::zero();
