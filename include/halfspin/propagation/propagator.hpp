@@ -116,15 +116,7 @@ class Propagator {
     } else {
       next = Stepper::step(attitude_, rate_at, dt);
     }
-    Renormalization policy = policy_;
-    const Quaternion<T> kept = policy.apply(next);
-    if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
-      count_rejection(Status::non_finite);
-      return Status::non_finite;
-    }
-    last_error_estimate_ = estimate;
-    commit(kept, policy, dt);
-    return Status::ok;
+    return commit_if_usable(next, estimate, dt) ? Status::ok : Status::non_finite;
   }
 
   // The attitude (body → reference) after the last step.
@@ -179,19 +171,11 @@ class Propagator {
     const T step_dt = window_dt_ + dt;
     T estimate = T(0);
     const Quaternion<T> next = run_stepper(history_, step_dt, estimate);
-    // The policy runs on a copy (it may count steps) and its result is checked as well: a finite
-    // step result can still renormalize to a non-finite or zero attitude (a first-order Newton
-    // step on a Runge–Kutta result far from unit norm after a huge step angle overflows).
-    Renormalization policy = policy_;
-    const Quaternion<T> kept = policy.apply(next);
-    if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
+    if (!commit_if_usable(next, estimate, step_dt)) {
       history_[window - 1] = displaced;
-      count_rejection(Status::non_finite);
       return Status::non_finite;
     }
     ++counters_.samples_accepted;
-    last_error_estimate_ = estimate;
-    commit(kept, policy, step_dt);
     shift_history();
     return Status::ok;
   }
@@ -215,8 +199,18 @@ class Propagator {
     return n2 > T(0) && n2 <= std::numeric_limits<T>::max();
   }
 
-  // Takes a checked step: the renormalized attitude and the policy state that produced it.
-  void commit(const Quaternion<T>& kept, const Renormalization& policy, T dt) noexcept {
+  // Takes a step if its result is usable, else counts a non_finite rejection and changes nothing.
+  // The policy runs on a copy (it may count steps) and its result is checked as well: a finite
+  // step result can still renormalize to a non-finite or zero attitude (a first-order Newton step
+  // on a Runge–Kutta result far from unit norm after a huge step angle overflows).
+  bool commit_if_usable(const Quaternion<T>& next, T estimate, T dt) noexcept {
+    Renormalization policy = policy_;
+    const Quaternion<T> kept = policy.apply(next);
+    if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
+      count_rejection(Status::non_finite);
+      return false;
+    }
+    last_error_estimate_ = estimate;
     attitude_ = kept;
     policy_ = policy;
     ++counters_.steps;
@@ -226,6 +220,7 @@ class Propagator {
     const T t = elapsed_sum_ + y;
     elapsed_carry_ = (t - elapsed_sum_) - y;
     elapsed_sum_ = t;
+    return true;
   }
 
   // After a step: layouts that share a boundary sample keep the newest one as history_[0].
