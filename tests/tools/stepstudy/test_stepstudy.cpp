@@ -11,6 +11,7 @@
 #include <algorithm>
 #include <cmath>
 #include <complex>
+#include <cstdio>
 #include <cstdlib>
 #include <fstream>
 #include <map>
@@ -159,6 +160,72 @@ std::vector<std::vector<std::string>> table_rows(const std::string& out, const s
   return rows;
 }
 
+// An sRGB colour as the chart writes it: "#rrggbb" or "hsl(H,S%,L%)" (the fallback beyond the
+// palette). HSL to RGB by the algorithm of CSS Color Module Level 3, section 4.2.4 (W3C; from
+// memory). Channels in [0, 1].
+struct Rgb {
+  double r = 0;
+  double g = 0;
+  double b = 0;
+};
+
+double hsl_channel(double m1, double m2, double h) {
+  if (h < 0) h += 1;
+  if (h > 1) h -= 1;
+  if (h * 6 < 1) return m1 + (m2 - m1) * h * 6;
+  if (h * 2 < 1) return m2;
+  if (h * 3 < 2) return m1 + (m2 - m1) * (2.0 / 3.0 - h) * 6;
+  return m1;
+}
+
+Rgb parse_colour(const std::string& text) {
+  INFO("colour '" << text << "'");
+  Rgb c;
+  if (text.size() == 7 && text[0] == '#') {
+    const auto channel = [&](std::size_t at) {
+      return static_cast<double>(std::stoi(text.substr(at, 2), nullptr, 16)) / 255.0;
+    };
+    c = {channel(1), channel(3), channel(5)};
+    return c;
+  }
+  double h = 0;
+  double sat = 0;
+  double light = 0;
+  REQUIRE(std::sscanf(text.c_str(), "hsl(%lf,%lf%%,%lf%%)", &h, &sat, &light) == 3);
+  h /= 360.0;
+  sat /= 100.0;
+  light /= 100.0;
+  const double m2 = light <= 0.5 ? light * (sat + 1) : light + sat - light * sat;
+  const double m1 = light * 2 - m2;
+  c = {hsl_channel(m1, m2, h + 1.0 / 3.0), hsl_channel(m1, m2, h),
+       hsl_channel(m1, m2, h - 1.0 / 3.0)};
+  return c;
+}
+
+// Relative luminance and contrast ratio as defined by WCAG 2.1 (W3C, "relative luminance" and
+// "contrast ratio" in its glossary; from memory): sRGB channels linearized, weighted 0.2126,
+// 0.7152, 0.0722; ratio (L1 + 0.05) / (L2 + 0.05) with L1 the lighter.
+double relative_luminance(const Rgb& c) {
+  const auto linear = [](double v) {
+    return v <= 0.03928 ? v / 12.92 : std::pow((v + 0.055) / 1.055, 2.4);
+  };
+  return 0.2126 * linear(c.r) + 0.7152 * linear(c.g) + 0.0722 * linear(c.b);
+}
+
+double contrast_ratio(const Rgb& a, const Rgb& b) {
+  const double la = relative_luminance(a);
+  const double lb = relative_luminance(b);
+  return (std::max(la, lb) + 0.05) / (std::min(la, lb) + 0.05);
+}
+
+// The value of attribute `name` in the first tag at or after `from` that has it.
+std::string attribute(const std::string& text, const std::string& name, std::size_t from) {
+  const std::size_t at = text.find(" " + name + "=\"", from);
+  if (at == std::string::npos) return "";
+  const std::size_t start = at + name.size() + 3;
+  return text.substr(start, text.find('"', start) - start);
+}
+
 constexpr double eps_double = 2.220446049250313e-16;  // 2^-52 (IEEE 754 binary64)
 constexpr double eps_float = 1.1920928955078125e-07;  // 2^-23 (IEEE 754 binary32)
 
@@ -228,6 +295,53 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   REQUIRE(budget != std::string::npos);
   CHECK(text.find("budget 1.000e-03 rad", budget) != std::string::npos);
   CHECK(text.find("stroke-dasharray=\"7 4\"") != std::string::npos);  // the dashed bounds
+}
+
+TEST_CASE("SVG series colours: distinct, visible on white; the fonts end in a generic family",
+          "[tools][reference]") {
+  // Bounds only and every sample-driven stepper: more series than the nine palette colours, so the
+  // fallback colours are checked too.
+  const std::string svg = path("colours.svg");
+  std::remove(svg.c_str());
+  const std::string sweep = "--envelope 0.6,1,5 --methods all --step-min 1e-4 --step-max 1e-2";
+  const Result r = run_tool(sweep + " --steps 3 --svg '" + svg + "'", "colours");
+  REQUIRE(r.exit_code == 0);
+  const std::string text = read_file(svg);
+  const std::size_t legend = text.find("class=\"legend\"");
+  REQUIRE(legend != std::string::npos);
+  // The legend draws one 3-wide line in each method's colour.
+  std::vector<std::string> colours;
+  for (std::size_t at = text.find("<line", legend); at != std::string::npos;
+       at = text.find("<line", at + 1)) {
+    if (attribute(text, "stroke-width", at) == "3") {
+      colours.push_back(attribute(text, "stroke", at));
+    }
+  }
+  REQUIRE(colours.size() >= 10);
+  // The contrast formula reproduces WCAG 2.1's own end point: black on white is 21:1 (WCAG 2.1,
+  // "contrast ratio": ratios range from 1 to 21).
+  CHECK(contrast_ratio({0, 0, 0}, {1, 1, 1}) == Approx(21.0).epsilon(1e-12));
+  const Rgb white{1, 1, 1};
+  for (const std::string& c : colours) {
+    INFO("series colour " << c << ", contrast on white " << contrast_ratio(parse_colour(c), white));
+    // Visible as a thin line on the white plot area: at least 1.5:1 (pale grey #dddddd or a pale
+    // yellow fall below it; common practice, no source).
+    CHECK(contrast_ratio(parse_colour(c), white) >= 1.5);
+  }
+  // One colour per method.
+  CHECK(std::set<std::string>(colours.begin(), colours.end()).size() == colours.size());
+  // The font list ends in a generic family, so the text renders on any system (CSS Fonts Module
+  // Level 4, "generic font families"; from memory).
+  const std::string fonts = attribute(text, "font-family", text.find("<svg"));
+  REQUIRE(!fonts.empty());
+  const std::size_t comma = fonts.rfind(',');
+  std::string last = fonts.substr(comma == std::string::npos ? 0 : comma + 1);
+  last.erase(0, last.find_first_not_of(' '));
+  const std::set<std::string> generic{"serif",        "sans-serif", "monospace", "cursive",
+                                      "fantasy",      "system-ui",  "ui-serif",  "ui-sans-serif",
+                                      "ui-monospace", "ui-rounded"};
+  INFO("font-family \"" << fonts << "\"");
+  CHECK(generic.count(last) == 1);
 }
 
 TEST_CASE("CSV: exact header, one row per (method, scalar, step), error within the bound in every "
