@@ -1,0 +1,326 @@
+#pragma once
+// Command line of halfspin-propagate: the options, their parsing and the help text. Tool code.
+//
+//   parse_options(args, o)   fills `o` from the arguments (without the program name); returns
+//                            what to do (propagate, print the help, list the methods) or the
+//                            usage error to report.
+
+#include <array>
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <cstdlib>
+#include <limits>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "halfspin/core/quaternion.hpp"
+#include "halfspin/representations/euler_angles.hpp"
+
+namespace halfspin::tools::propagate {
+
+inline constexpr int exit_ok = 0;
+inline constexpr int exit_usage = 1;
+inline constexpr int exit_input = 2;
+
+inline constexpr const char* help_text =
+    R"(halfspin-propagate: propagate the attitude through a gyro log with one halfspin stepper.
+
+Usage: halfspin-propagate LOG --output FILE [options]
+
+Input LOG: CSV with a header row, then one sample per line (LF or CRLF line ends; a UTF-8
+byte-order mark before the header is skipped; the last line may lack its newline):
+  t,wx,wy,wz   rate form: t (s), body rate (rad/s) at t. Propagation starts at the first row's
+               time with the initial attitude; a step ends at each row that completes a window.
+  t,dx,dy,dz   delta-angle form: t (s), delta-angle (rad) = integral of the body rate over the
+               interval ending at t; the first interval starts at --start-time.
+The method must match the form: rate methods take rate logs, delta-angle (coning) methods take
+delta-angle logs. Rate-function methods need a model of the motion and cannot run on a log.
+
+Options:
+  --output FILE         required. CSV written through a temporary file in the same directory and
+                        renamed at the end: on any error nothing is written (an existing FILE is
+                        left as it was).
+  --method NAME         stepper (default expmap_midpoint_mean for rate logs, coning_2_sample for
+                        delta-angle logs); --list-methods prints them.
+  --list-methods        print every method, its input ([rate], [delta] or [rate-function: not
+                        usable on a log]) and one line of description, then exit.
+  --renormalize P       none | exact | first_order (default) | periodic | threshold
+  --renormalize-period N      steps between corrections for `periodic` (default 16)
+  --renormalize-threshold X   | |q|^2 - 1 | above which `threshold` corrects (default 1e-5)
+  --initial qw,qx,qy,qz initial attitude (body -> reference, scalar first; normalized; must be
+                        finite and nonzero). Default 1,0,0,0. `--initial truth` takes the --truth
+                        file's row at the start time.
+  --scalar float|double scalar type of the propagation (default double); float is what a
+                        Cortex-M4F board runs.
+  --euler SEQ           Euler sequence of the output angles: xyz xzy yxz yzx zxy zyx (default;
+                        yaw, pitch, roll) xyx xzx yxy yzy zxz zyz. Intrinsic: zyx means
+                        q = qz(first) * qy(second) * qx(third).
+  --start-time S        delta-angle logs: start of the first row's interval (s, default 0).
+  --max-interval S      longest sample interval (s) accepted; a longer one is a gap (missed
+                        samples). Default: 2.5 x the first interval of the log.
+  --max-rate R          gyro full scale (rad/s per axis); a rate or a delta-angle/interval above it
+                        is over range. Default: no limit.
+  --skip-bad            skip bad samples instead of rejecting the file; they are counted per class
+                        in the summary (the propagator's own rejection counters too).
+  --truth FILE          CSV t,qw,qx,qy,qz (as written by halfspin-gyro-log --truth) holding rows at
+                        every step end time: the summary adds the max and final attitude error
+                        against it (rad and deg, angle_between).
+  --help                this text.
+
+Output FILE: CSV, one row per completed step, at the step's end time:
+  t,qw,qx,qy,qz                       s; attitude body -> reference, scalar first
+  first_A_deg,second_B_deg,third_C_deg  Euler angles (deg) of --euler SEQ = ABC
+  norm_error                          | |q| - 1 | after renormalization
+  error_estimate_rad                  the stepper's per-step error estimate (rad); present only
+                                      for methods that have one (see the README)
+Numbers are printed to round-trip: 17 significant digits in double, 9 in float.
+
+Summary (stderr): steps, samples read, skipped/rejected samples by class, max norm error, final
+attitude (quaternion and Euler), and with --truth the attitude error.
+
+Bad input: a malformed or over-long line, a wrong number of fields, a non-numeric field, NaN or
+infinity, a timestamp that does not increase, a gap (interval > --max-interval), a sample over
+range (above --max-rate, or with --scalar float beyond the largest float, 3.4e38), a sample whose
+step result is not finite in the scalar type (e.g. a rate of 1e300 rad/s in double: set --max-rate
+to the gyro's full scale), a bad header, an empty file, a log with no complete step. A last line
+cut short is reported like any other bad line (a cut number is not a number, missing fields are a
+malformed line). Subnormal values are valid numbers and propagate like any other. Each is reported
+as FILE:LINE: reason. Without --skip-bad the first one rejects the file and nothing is written.
+
+Memory stays constant however long the log: it is read one line at a time and written as it goes.
+
+Exit codes: 0 ok; 1 bad usage (unknown option or method, bad option value, a method that needs
+the other log form or a rate function, output cannot be created); 2 bad input (or a read/write
+failure).
+
+Caution: attitude errors can crash vehicles and hurt people. These results support engineering
+judgement; they do not replace it. Validate any attitude solution in hardware-in-the-loop and
+flight test; local airworthiness rules and licensed engineering practice govern what may fly.
+)";
+
+enum class Renormalize { none, exact, first_order, periodic, threshold };
+
+// Grouped by meaning, not packed: read once from the command line.
+struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
+  std::string log;
+  std::string output;
+  std::string method;  // "" until chosen: then the default for the log's form
+  Renormalize renormalize = Renormalize::first_order;
+  std::uint32_t period = 16;
+  double threshold = 1e-5;
+  bool initial_from_truth = false;
+  Quaternion<double> initial = Quaternion<double>::identity();
+  bool use_float = false;
+  EulerSequence euler = EulerSequence::zyx;
+  double start_time = 0.0;
+  std::optional<double> max_interval;
+  double max_rate = std::numeric_limits<double>::infinity();
+  bool skip_bad = false;
+  std::string truth;
+};
+
+enum class Command { propagate, help, list_methods };
+
+struct ParseResult {
+  Command command = Command::propagate;
+  std::string error;  // non-empty: bad usage, reported as is
+};
+
+// A finite number filling the whole text, or nothing.
+inline std::optional<double> parse_number(const std::string& text) {
+  if (text.empty()) return std::nullopt;
+  char* end = nullptr;
+  const double v = std::strtod(text.c_str(), &end);
+  if (end - text.c_str() != static_cast<std::ptrdiff_t>(text.size()) || !(v - v == 0.0)) {
+    return std::nullopt;
+  }
+  return v;
+}
+
+// "zyx" for EulerSequence::zyx: the axes of the first, second and third rotation.
+inline std::string euler_name(EulerSequence s) {
+  const EulerAxes a = euler_axes(s);
+  constexpr std::array<char, 3> axis{'x', 'y', 'z'};
+  return {axis[static_cast<std::size_t>(a.first)], axis[static_cast<std::size_t>(a.second)],
+          axis[static_cast<std::size_t>(a.third)]};
+}
+
+inline const char* renormalize_name(Renormalize r) {
+  switch (r) {
+    case Renormalize::none:
+      return "none";
+    case Renormalize::exact:
+      return "exact";
+    case Renormalize::first_order:
+      return "first_order";
+    case Renormalize::periodic:
+      return "periodic";
+    case Renormalize::threshold:
+      return "threshold";
+  }
+  return "threshold";
+}
+
+namespace detail {
+
+// Each returns the usage error, "" when the value is good.
+
+inline std::string set_renormalize(const std::string& p, Options& o) {
+  for (const Renormalize r : {Renormalize::none, Renormalize::exact, Renormalize::first_order,
+                              Renormalize::periodic, Renormalize::threshold}) {
+    if (p == renormalize_name(r)) {
+      o.renormalize = r;
+      return "";
+    }
+  }
+  return "unknown renormalization '" + p + "'";
+}
+
+inline std::string set_scalar(const std::string& s, Options& o) {
+  if (s != "float" && s != "double") return "--scalar must be float or double";
+  o.use_float = s == "float";
+  return "";
+}
+
+inline std::string set_euler(const std::string& s, Options& o) {
+  for (const EulerSequence e : all_euler_sequences) {
+    if (euler_name(e) == s) {
+      o.euler = e;
+      return "";
+    }
+  }
+  return "unknown Euler sequence '" + s + "'";
+}
+
+inline std::string set_number(const std::string& option, const std::string& text, Options& o) {
+  const std::optional<double> x = parse_number(text);
+  const bool positive = x && *x > 0;
+  if (option == "--renormalize-period") {
+    if (!x || *x < 1 || *x > 4294967295.0 || *x != std::floor(*x)) {
+      return "--renormalize-period needs an integer >= 1";
+    }
+    o.period = static_cast<std::uint32_t>(*x);
+  } else if (option == "--renormalize-threshold") {
+    if (!positive) return "--renormalize-threshold needs a number > 0";
+    o.threshold = *x;
+  } else if (option == "--start-time") {
+    if (!x) return "--start-time needs a finite number";
+    o.start_time = *x;
+  } else if (option == "--max-interval") {
+    if (!positive) return "--max-interval needs a number > 0";
+    o.max_interval = *x;
+  } else if (option == "--max-rate") {
+    if (!positive) return "--max-rate needs a number > 0";
+    o.max_rate = *x;
+  }
+  return "";
+}
+
+inline bool takes_value(const std::string& option) {
+  static constexpr std::array<const char*, 12> options{
+      "--output",     "--method",       "--renormalize", "--renormalize-period",
+      "--initial",    "--scalar",       "--euler",       "--renormalize-threshold",
+      "--start-time", "--max-interval", "--max-rate",    "--truth"};
+  for (const char* o : options) {
+    if (option == o) return true;
+  }
+  return false;
+}
+
+// `option value` (option one of takes_value()'s); --initial is kept as text until the end.
+inline std::string set_value(const std::string& option, const std::string& value, Options& o,
+                             std::string& initial_text) {
+  if (option == "--output") {
+    o.output = value;
+  } else if (option == "--method") {
+    o.method = value;
+  } else if (option == "--initial") {
+    initial_text = value;
+  } else if (option == "--truth") {
+    o.truth = value;
+  } else if (option == "--renormalize") {
+    return set_renormalize(value, o);
+  } else if (option == "--scalar") {
+    return set_scalar(value, o);
+  } else if (option == "--euler") {
+    return set_euler(value, o);
+  } else {
+    return set_number(option, value, o);
+  }
+  return "";
+}
+
+// --initial: "truth" or qw,qx,qy,qz (four finite numbers, nonzero finite norm).
+inline std::string set_initial(const std::string& text, Options& o) {
+  if (text == "truth") {
+    if (o.truth.empty()) return "--initial truth needs --truth FILE";
+    o.initial_from_truth = true;
+    return "";
+  }
+  std::array<double, 4> c{};
+  std::size_t n = 0;
+  std::size_t start = 0;
+  bool ok = true;
+  while (ok) {
+    const std::size_t comma = text.find(',', start);
+    const std::optional<double> x =
+        parse_number(text.substr(start, comma == std::string::npos ? comma : comma - start));
+    ok = x && n < 4;
+    if (ok) c[n++] = *x;
+    if (comma == std::string::npos) break;
+    start = comma + 1;
+  }
+  if (!ok || n != 4) return "--initial needs four finite numbers qw,qx,qy,qz";
+  o.initial = Quaternion<double>{c[0], c[1], c[2], c[3]};
+  const double n2 = squared_norm(o.initial);
+  if (!(n2 > 0.0) || !(n2 - n2 == 0.0)) {
+    return "--initial must be a nonzero quaternion of finite norm";
+  }
+  return "";
+}
+
+inline ParseResult usage(std::string message) {
+  ParseResult r;
+  r.error = std::move(message);
+  return r;
+}
+
+}  // namespace detail
+
+// The arguments in order: --help and --list-methods act at once, the first bad one is the error.
+inline ParseResult parse_options(const std::vector<std::string>& args, Options& o) {
+  std::string initial_text;
+  for (std::size_t i = 0; i < args.size(); ++i) {
+    const std::string& a = args[i];
+    std::string error;
+    if (a == "--help" || a == "-h") {
+      return ParseResult{Command::help, ""};
+    } else if (a == "--list-methods") {
+      return ParseResult{Command::list_methods, ""};
+    } else if (a == "--skip-bad") {
+      o.skip_bad = true;
+    } else if (detail::takes_value(a)) {
+      if (i + 1 >= args.size()) return detail::usage("option " + a + " needs a value");
+      error = detail::set_value(a, args[++i], o, initial_text);
+    } else if (!a.empty() && a[0] == '-') {
+      error = "unknown option '" + a + "'";
+    } else if (o.log.empty()) {
+      o.log = a;
+    } else {
+      error = "more than one log given ('" + o.log + "', '" + a + "')";
+    }
+    if (!error.empty()) return detail::usage(error);
+  }
+  if (o.log.empty()) return detail::usage("no gyro log given");
+  if (o.output.empty()) return detail::usage("--output FILE is required");
+  if (!initial_text.empty()) {
+    std::string error = detail::set_initial(initial_text, o);
+    if (!error.empty()) return detail::usage(std::move(error));
+  }
+  return ParseResult{};
+}
+
+}  // namespace halfspin::tools::propagate
