@@ -1,8 +1,8 @@
 // ns per attitude-step of the batch (structure-of-arrays) propagator for desktop Monte Carlo,
 // against a loop over N scalar propagators doing the same work: the one-sample delta-angle update
 // q ⊗ exp(Δθ/2), first-order renormalization, validation of every sample and the elapsed-time sum.
-//   batch/expmap_x<N>/<scalar>               BatchPropagator<T, N>::step(), samples written in
-//   place batch/loop_of_propagators_x<N>/<scalar>  N × Propagator<T, ConingOneSample>::push(Δθ, dt)
+//   batch/exponential_map_x<N>/<scalar>               BatchPropagator<T, N>::step(), samples written in
+//   place batch/loop_of_propagators_x<N>/<scalar>  N × Propagator<T, Coning1Sample>::push(Δθ, dt)
 // items = attitude-steps (N per iteration); the counter `per_attitude_step` is the time of one
 // (seconds, printed with an SI prefix: "2.1n" is 2.1 ns). The speed-up is the ratio of the two at
 // the same N and scalar. Inputs: |Δθ| up to 0.01 rad, seeded, the same every iteration (the
@@ -60,7 +60,7 @@ void report(benchmark::State& state, std::size_t lanes) {
 }
 
 template <class T, std::size_t N>
-void batch_expmap(benchmark::State& state) {
+void batch_exponential_map(benchmark::State& state) {
   auto batch = std::make_unique<BatchPropagator<T, N>>(initial_attitude<T>(), limits<T>);
   batch->samples() = seeded_samples<T, N>();
   std::size_t accepted = 0;
@@ -81,8 +81,8 @@ void batch_expmap(benchmark::State& state) {
 
 template <class T, std::size_t N>
 void loop_of_propagators(benchmark::State& state) {
-  std::vector<Propagator<T, ConingOneSample>> lanes(
-      N, Propagator<T, ConingOneSample>(initial_attitude<T>(), limits<T>));
+  std::vector<Propagator<T, Coning1Sample>> lanes(
+      N, Propagator<T, Coning1Sample>(initial_attitude<T>(), limits<T>));
   const BatchSamples<T, N> s = seeded_samples<T, N>();
   std::uint64_t bad = 0;
   for (auto _ : state) {
@@ -103,12 +103,12 @@ void loop_of_propagators(benchmark::State& state) {
 
 }  // namespace
 
-BENCHMARK(batch_expmap<float, 1>)->Name("batch/expmap_x1/float");
-BENCHMARK(batch_expmap<double, 1>)->Name("batch/expmap_x1/double");
-BENCHMARK(batch_expmap<float, 8>)->Name("batch/expmap_x8/float");
-BENCHMARK(batch_expmap<double, 8>)->Name("batch/expmap_x8/double");
-BENCHMARK(batch_expmap<float, 1024>)->Name("batch/expmap_x1024/float");
-BENCHMARK(batch_expmap<double, 1024>)->Name("batch/expmap_x1024/double");
+BENCHMARK(batch_exponential_map<float, 1>)->Name("batch/exponential_map_x1/float");
+BENCHMARK(batch_exponential_map<double, 1>)->Name("batch/exponential_map_x1/double");
+BENCHMARK(batch_exponential_map<float, 8>)->Name("batch/exponential_map_x8/float");
+BENCHMARK(batch_exponential_map<double, 8>)->Name("batch/exponential_map_x8/double");
+BENCHMARK(batch_exponential_map<float, 1024>)->Name("batch/exponential_map_x1024/float");
+BENCHMARK(batch_exponential_map<double, 1024>)->Name("batch/exponential_map_x1024/double");
 BENCHMARK(loop_of_propagators<float, 1>)->Name("batch/loop_of_propagators_x1/float");
 BENCHMARK(loop_of_propagators<double, 1>)->Name("batch/loop_of_propagators_x1/double");
 BENCHMARK(loop_of_propagators<float, 8>)->Name("batch/loop_of_propagators_x8/float");

@@ -52,8 +52,8 @@ const bool registered = [] {
     register_propagator<Stepper, float>();
     register_propagator<Stepper, double>();
   });
-  register_renormalizations<ExpMapHoldEnd>();
-  register_renormalizations<ConingTwoSample>();
+  register_renormalizations<ExponentialMapHoldEnd>();
+  register_renormalizations<Coning2Sample>();
   register_renormalizations<RungeKutta4Sampled>();
   return true;
 }();

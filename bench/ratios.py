@@ -5,10 +5,10 @@ Runs halfspin_bench once with --benchmark_format=json on the benchmarks the rati
 repetitions and random interleaving (so that a load change on a shared machine hits both sides of a
 ratio alike), takes the median CPU time of each, and prints every ratio with its target:
 
-  baseline/eigen_expmap / propagator/expmap_hold_end   ≥ 4 (double), ≥ 1.5 (float)
-  baseline/eigen_expmap / propagator/coning_1_sample   ≥ 4 (double), ≥ 1.5 (float)
-  baseline/odeint_rk4 / step/rk4_sampled               ≥ 2 (both)
-  step/expmap_hold_end / floor/expmap                  ≤ 1.3 (both)
+  baseline/eigen_exponential_map / propagator/exponential_map_hold_end   ≥ 4 (double), ≥ 1.5 (float)
+  baseline/eigen_exponential_map / propagator/coning_1_sample   ≥ 4 (double), ≥ 1.5 (float)
+  baseline/odeint_rk4 / step/runge_kutta_4_sampled               ≥ 2 (both)
+  step/exponential_map_hold_end / floor/exponential_map                  ≤ 1.3 (both)
   propagator/<m> / step/<m>                            ≤ 1.25 (every sample-driven stepper)
 
     bench/ratios.py --bench build/x/bench/halfspin_bench [--repetitions 5] [--min-time 0.2]
@@ -91,11 +91,11 @@ def main():
 
     for s in SCALARS:
         fast = 4.0 if s == "double" else 1.5
-        for m in ("expmap_hold_end", "coning_1_sample"):
-            ratio("eigen_expmap / propagator %s" % m, s, "baseline/eigen_expmap/" + s,
+        for m in ("exponential_map_hold_end", "coning_1_sample"):
+            ratio("eigen_exponential_map / propagator %s" % m, s, "baseline/eigen_exponential_map/" + s,
                   "propagator/%s/%s" % (m, s), fast, True)
-        ratio("odeint_rk4 / step rk4_sampled", s, "baseline/odeint_rk4/" + s, "step/rk4_sampled/" + s, 2.0, True)
-        ratio("step expmap_hold_end / floor expmap", s, "step/expmap_hold_end/" + s, "floor/expmap/" + s, 1.3, False)
+        ratio("odeint_rk4 / step runge_kutta_4_sampled", s, "baseline/odeint_rk4/" + s, "step/runge_kutta_4_sampled/" + s, 2.0, True)
+        ratio("step exponential_map_hold_end / floor exponential_map", s, "step/exponential_map_hold_end/" + s, "floor/exponential_map/" + s, 1.3, False)
     methods = sorted({n.split("/")[1] for n in t if n.startswith("propagator/")})
     for m in methods:
         for s in SCALARS:

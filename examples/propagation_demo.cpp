@@ -71,14 +71,14 @@ int main() {
   std::printf("halfspin demo: 1 kHz gyro, frame coning 0.5 deg at 40 Hz (invented vibration), 60 s\n");
   std::printf("error = final attitude error against the closed-form truth\n\n");
   std::printf("%-32s %3s %8s %12s %12s\n", "method", "ord", "update", "float (deg)", "double (deg)");
-  row<ExpMapHoldEnd>();
-  row<ExpMapMidpointMean>();
+  row<ExponentialMapHoldEnd>();
+  row<ExponentialMapMidpointMean>();
   row<Magnus4>();
   row<RungeKutta4Interpolated>();
   row<RungeKutta4Sampled>();
-  row<ConingOneSample>();
-  const double two_sample = row<ConingTwoSample>();
-  row<ConingThreeSample>();
+  row<Coning1Sample>();
+  const double two_sample = row<Coning2Sample>();
+  row<Coning3Sample>();
   std::printf("\nUnder coning, methods that ignore the non-commutativity of successive rotations\n"
               "drift about the cone axis; the coning algorithms on delta-angles cancel the drift up\n"
               "to their order (here each added sample buys one to two orders of magnitude). In float,\n"

@@ -46,14 +46,14 @@ int main() {
   full.maneuver.derivative[5] = 4000.0 + coning.coning.envelope()[5];
 
   std::printf("Budget %.2f deg over %.0f s (double)\n\n", budget / degree, horizon);
-  table<ExpMapMidpointMean, Magnus4, RungeKutta4Sampled, ConingOneSample, ConingTwoSample,
-        ConingThreeSample>("Vibration alone (pure coning 0.02 deg at 85 Hz):", coning, budget, horizon);
+  table<ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled, Coning1Sample, Coning2Sample,
+        Coning3Sample>("Vibration alone (pure coning 0.02 deg at 85 Hz):", coning, budget, horizon);
   std::printf("\n");
-  table<ExpMapMidpointMean, Magnus4, RungeKutta4Sampled, ConingOneSample, ConingTwoSample,
-        ConingThreeSample>("Turns plus vibration, as a rate envelope (worst-case linear accumulation):",
+  table<ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled, Coning1Sample, Coning2Sample,
+        Coning3Sample>("Turns plus vibration, as a rate envelope (worst-case linear accumulation):",
                            full, budget, horizon);
-  const auto r = recommend_stepper(StepperList<ExpMapHoldEnd, ExpMapMidpointMean, ConingOneSample,
-                                               ConingTwoSample, ConingThreeSample, Magnus4>{},
+  const auto r = recommend_stepper(StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean, Coning1Sample,
+                                               Coning2Sample, Coning3Sample, Magnus4>{},
                                    full, budget, horizon, 1000.0);
   std::printf("\nAt a 1 kHz gyro, the cheapest stepper meeting the budget: %s (%.0f flop/s, bound "
               "%.3e deg)\n",

@@ -119,7 +119,7 @@ void everything_from(const Quaternion<T>& q, const Quaternion<T>& other) {
   sink = sink + quaternion_from_reference_to_body(to_reference_to_body(q)).w;
   sink = sink + quaternion_from_euler_parameters(to_euler_parameters(q)).w;
   sink = sink + angle_between(q, other) + normalized(q).w + inverse(q).x;
-  sink = sink + nearest_sign(q, other).w + canonical_sign(q).w;
+  sink = sink + nearest_sign(q, other).w + with_nonnegative_scalar(q).w;
   sink = sink + rotate(q, other.vector()).x;
   static_cast<void>(sink);
 }
@@ -237,7 +237,7 @@ void from_unit(const Quaternion<T>& u, const Quaternion<T>& v) {
   const T between = angle_between(u, v);
   HALFSPIN_FUZZ_REQUIRE(between >= T(0) && between <= pi<T>);
   HALFSPIN_FUZZ_REQUIRE(angle_between(u, -u) <= round_trip_tolerance<T>);
-  HALFSPIN_FUZZ_REQUIRE(canonical_sign(u).w >= T(0) && dot(nearest_sign(u, v), v) >= T(0));
+  HALFSPIN_FUZZ_REQUIRE(with_nonnegative_scalar(u).w >= T(0) && dot(nearest_sign(u, v), v) >= T(0));
   const Vector3<T> rotated = rotate(u, v.vector());
   HALFSPIN_FUZZ_REQUIRE(is_finite(rotated));
 }

@@ -42,9 +42,9 @@ def write(harness, name, data):
 
 
 def propagator_seeds():
-    steppers = ["expmap_hold_end", "expmap_midpoint_mean", "magnus4", "rkmk4_sampled",
-                "rkmk4_rate_function", "coning_2", "coning_4", "coning_1_plus_previous",
-                "rk4_sampled", "rk2_interpolated", "rk3_sampled", "rk4_rate_function",
+    steppers = ["exponential_map_hold_end", "exponential_map_midpoint_mean", "magnus_4", "munthe_kaas_4_sampled",
+                "munthe_kaas_4_rate_function", "coning_2", "coning_4", "coning_1_plus_previous",
+                "runge_kutta_4_sampled", "rk2_interpolated", "rk3_sampled", "runge_kutta_4_rate_function",
                 "bogacki_shampine_32", "dormand_prince_54", "coning_1"]
     for index, name in enumerate(steppers):
         for scalar in (0, 1):

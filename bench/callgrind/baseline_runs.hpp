@@ -2,14 +2,14 @@
 // The baselines and the floor, one step per call over the shared workload (workload.hpp), in the
 // same shape as runs.hpp so that halfspin_bench and halfspin_callgrind_driver measure one code:
 //
-//   EigenExpMapRun<T>   the obvious general-purpose exponential-map update with Eigen 3 (Debian
+//   EigenExponentialMapRun<T>   the obvious general-purpose exponential-map update with Eigen 3 (Debian
 //                       libeigen3-dev): AngleAxis(|ω|·dt, ω/|ω|) → Quaternion, product,
-//                       normalized(); rate at the step's end, like expmap_hold_end
+//                       normalized(); rate at the step's end, like exponential_map_hold_end
 //   OdeintRk4Run<T>     Boost.Odeint (Debian libboost-dev) runge_kutta4 on a 4-element state,
 //                       q̇ = ½ q ⊗ (0, ω), one do_step by hand per call (integrate_* would copy the
 //                       stepper); ω at a stage time is the sample at that node (start, middle,
-//                       end of a two-period step), the input rk4_sampled takes
-//   FloorExpMapRun<T>   the minimal hand-written kernel of the same math as expmap_hold_end:
+//                       end of a two-period step), the input runge_kutta_4_sampled takes
+//   FloorExponentialMapRun<T>   the minimal hand-written kernel of the same math as exponential_map_hold_end:
 //                       φ = ω·dt, the series of cos(θ/2) and sin(θ/2)/θ to the θ⁶ term (the degree
 //                       the library keeps), one Hamilton product written out: the floor
 //
@@ -29,9 +29,9 @@
 namespace halfspin::bench {
 
 template <class T>
-class EigenExpMapRun {
+class EigenExponentialMapRun {
  public:
-  EigenExpMapRun() : gyro_(gyro_table<T>()) {}
+  EigenExponentialMapRun() : gyro_(gyro_table<T>()) {}
 
   void step() noexcept {
     const Vector3<T>& w = gyro_.rate[i_];
@@ -76,7 +76,7 @@ class OdeintRk4Run {
   };
 
   OdeintRk4Run() : gyro_(gyro_table<T>()) {
-    // Windows of three rate samples spanning two periods, formed as for rk4_sampled.
+    // Windows of three rate samples spanning two periods, formed as for runge_kutta_4_sampled.
     for (std::size_t k = 0; k < table_size; ++k) {
       for (std::size_t j = 0; j < 3; ++j) {
         windows_[k][j] = gyro_.rate[(2 * k + j) & table_mask];
@@ -107,9 +107,9 @@ class OdeintRk4Run {
 };
 
 template <class T>
-class FloorExpMapRun {
+class FloorExponentialMapRun {
  public:
-  FloorExpMapRun() : gyro_(gyro_table<T>()) {}
+  FloorExponentialMapRun() : gyro_(gyro_table<T>()) {}
 
   void step() noexcept {
     const Vector3<T>& w = gyro_.rate[i_];

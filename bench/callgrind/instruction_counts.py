@@ -8,8 +8,8 @@ on the load of the machine, so they are repeatable where timings are not. Prints
 scalar, path, instructions per step, declared flops, instructions / flops.
 
     bench/callgrind/instruction_counts.py --driver build/x/bench/halfspin_callgrind_driver
-        [--methods expmap_hold_end,rk4_sampled] [--scalars float,double]
-        [--propagator expmap_hold_end,coning_1_sample,...] [--baselines] [--steps 2560 12800]
+        [--methods exponential_map_hold_end,runge_kutta_4_sampled] [--scalars float,double]
+        [--propagator exponential_map_hold_end,coning_1_sample,...] [--baselines] [--steps 2560 12800]
         [--format table|csv]
 
 Python 3 standard library only.
@@ -21,10 +21,10 @@ import subprocess
 import sys
 import tempfile
 
-DEFAULT_PROPAGATOR = ["expmap_hold_end", "expmap_hold_start", "coning_1_sample",
-                      "coning_2_sample", "magnus4", "rk4_sampled", "rk4_rate_function"]
-BASELINES = [("eigen_expmap", "baseline/eigen_expmap"), ("odeint_rk4", "baseline/odeint_rk4"),
-             ("floor_expmap", "floor/expmap")]
+DEFAULT_PROPAGATOR = ["exponential_map_hold_end", "exponential_map_hold_start", "coning_1_sample",
+                      "coning_2_sample", "magnus_4", "runge_kutta_4_sampled", "runge_kutta_4_rate_function"]
+BASELINES = [("eigen_exponential_map", "baseline/eigen_exponential_map"), ("odeint_rk4", "baseline/odeint_rk4"),
+             ("floor_exponential_map", "floor/exponential_map")]
 
 
 def list_methods(driver):

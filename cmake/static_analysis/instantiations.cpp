@@ -32,7 +32,7 @@ T exercise(const Quaternion<T>& q, const Quaternion<T>& r, const Vector3<T>& v, 
            EulerSequence sequence) noexcept {
   T sink = angle_between(q, r) + norm(quaternion_log(q)) + norm(quaternion_exp(v).vector());
   sink += determinant(m * transpose(m)) + norm(cross_matrix(v) * v) + dot(rotate(q, v), v);
-  sink += norm(nearest_sign(q, r)) + norm(canonical_sign(q)) + norm(normalized(q)) +
+  sink += norm(nearest_sign(q, r)) + norm(with_nonnegative_scalar(q)) + norm(normalized(q)) +
           norm(normalized(v));
   sink += norm(inverse(q) * conjugate(r)) + (is_finite(q) && is_finite(v) ? T(1) : T(0));
 

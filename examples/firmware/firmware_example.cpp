@@ -5,7 +5,7 @@
 //    interrupt: it produces the delta-angle of the last millisecond of an invented motion (a
 //    steady roll with a 40 Hz coning vibration, simulated_motion.hpp, computed in float) and puts
 //    it in a single-producer/single-consumer ring buffer (spsc_ring.hpp).
-//  - The main loop drains the ring and pushes each frame into a Propagator<float, ConingTwoSample>
+//  - The main loop drains the ring and pushes each frame into a Propagator<float, Coning2Sample>
 //    with its interval in timer ticks, and handles every Status code.
 //  - The simulated IMU also injects faults: a NaN frame, an over-range frame, a repeated frame
 //    (zero-tick interval) and a 20 ms dropout (a gap). Each must be rejected with its status.
@@ -190,7 +190,7 @@ struct LoopState {
   std::size_t gap_count = 0;
 };
 
-void handle(halfspin::Propagator<float, halfspin::ConingTwoSample>& attitude, LoopState& st,
+void handle(halfspin::Propagator<float, halfspin::Coning2Sample>& attitude, LoopState& st,
             const ImuFrame& frame) {
   // Unsigned difference: right across a wrap of the 32-bit counter; a repeated frame gives 0.
   const std::uint32_t interval = frame.tick - st.last_tick;
@@ -269,7 +269,7 @@ int main() {
 #else
               "Cortex-M3, soft float",
 #endif
-              halfspin::ConingTwoSample::name);
+              halfspin::Coning2Sample::name);
 
   const TimerSetup timer = one_millisecond_from_calibration();
   std::printf("SysTick: SYST_CALIB TENMS %lu, NOREF %d, SKEW %d -> reference clock %.3f MHz, "
@@ -284,7 +284,7 @@ int main() {
   // The gyro's limits: 35 rad/s per axis (a 2000 deg/s part); an interval over 1.5 ticks means
   // a frame was missed. Tick period 1 ms, from the calibrated reference clock.
   const Quaternion<double> q0 = motion.attitude(0);
-  halfspin::Propagator<float, halfspin::ConingTwoSample> attitude(
+  halfspin::Propagator<float, halfspin::Coning2Sample> attitude(
       Quaternion<float>{static_cast<float>(q0.w), static_cast<float>(q0.x),
                         static_cast<float>(q0.y), static_cast<float>(q0.z)},
       halfspin::GyroLimits<float>{35.0f, 1.5e-3f}, 1e-3f);

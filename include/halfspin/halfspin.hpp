@@ -40,13 +40,16 @@
 #include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
+#include "halfspin/propagation/rotation_vector_family.hpp"
 #include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 #include "halfspin/propagation/two_speed.hpp"
 
 // bounds
 #include "halfspin/bounds/coning_error.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
+#include "halfspin/bounds/local_error_bound.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"

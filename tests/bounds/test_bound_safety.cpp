@@ -166,21 +166,21 @@ void check_all_motions() {
 
 TEMPLATE_TEST_CASE("bounds are safe: exponential map, Magnus", "[bounds]", float, double) {
   using T = TestType;
-  check_all_motions<ExpMapHoldEnd, T>();
-  check_all_motions<ExpMapHoldStart, T>();
-  check_all_motions<ExpMapMidpointMean, T>();
-  check_all_motions<ExpMapMidpointSample, T>();
+  check_all_motions<ExponentialMapHoldEnd, T>();
+  check_all_motions<ExponentialMapHoldStart, T>();
+  check_all_motions<ExponentialMapMidpointMean, T>();
+  check_all_motions<ExponentialMapMidpointSample, T>();
   check_all_motions<Magnus4, T>();
 }
 
 TEMPLATE_TEST_CASE("bounds are safe: Runge–Kutta", "[bounds]", float, double) {
   using T = TestType;
-  check_all_motions<RungeKutta2Sampled, T>();
-  check_all_motions<RungeKutta2Interpolated, T>();
-  check_all_motions<RungeKutta2RateFunction, T>();
-  check_all_motions<RungeKutta3Sampled, T>();
-  check_all_motions<RungeKutta3Interpolated, T>();
-  check_all_motions<RungeKutta3RateFunction, T>();
+  check_all_motions<RungeKutta2MidpointSampled, T>();
+  check_all_motions<RungeKutta2MidpointInterpolated, T>();
+  check_all_motions<RungeKutta2MidpointRateFunction, T>();
+  check_all_motions<RungeKutta3KuttaSampled, T>();
+  check_all_motions<RungeKutta3KuttaInterpolated, T>();
+  check_all_motions<RungeKutta3KuttaRateFunction, T>();
   check_all_motions<RungeKutta4Sampled, T>();
   check_all_motions<RungeKutta4Interpolated, T>();
   check_all_motions<RungeKutta4RateFunction, T>();
@@ -197,12 +197,12 @@ TEMPLATE_TEST_CASE("bounds are safe: embedded pairs and RKMK4", "[bounds]", floa
 
 TEMPLATE_TEST_CASE("bounds are safe: coning compensation", "[bounds]", float, double) {
   using T = TestType;
-  check_all_motions<ConingOneSample, T>();
-  check_all_motions<ConingOneSamplePlusPrevious, T>();
-  check_all_motions<ConingTwoSample, T>();
-  check_all_motions<ConingThreeSample, T>();
-  check_all_motions<ConingThreeSampleOlder, T>();
-  check_all_motions<ConingFourSample, T>();
+  check_all_motions<Coning1Sample, T>();
+  check_all_motions<Coning1SamplePlusPrevious, T>();
+  check_all_motions<Coning2Sample, T>();
+  check_all_motions<Coning3Sample, T>();
+  check_all_motions<Coning3SampleMiller, T>();
+  check_all_motions<Coning4Sample, T>();
 }
 
 namespace {
@@ -239,8 +239,8 @@ void check_tight_at_constant_rate() {
 }  // namespace
 
 TEST_CASE("bounds are tight at constant rate for the Runge–Kutta family", "[bounds]") {
-  check_tight_at_constant_rate<RungeKutta2Sampled>();
-  check_tight_at_constant_rate<RungeKutta3Sampled>();
+  check_tight_at_constant_rate<RungeKutta2MidpointSampled>();
+  check_tight_at_constant_rate<RungeKutta3KuttaSampled>();
   check_tight_at_constant_rate<RungeKutta4Sampled>();
   check_tight_at_constant_rate<RungeKutta4RateFunction>();
   check_tight_at_constant_rate<BogackiShampine32RateFunction>();

@@ -45,11 +45,11 @@ void for_each_stepper(Types<S...>, F&& f) {
 }
 
 using AllSteppers =
-    Types<ExpMapHoldEnd, ExpMapHoldStart, ExpMapMidpointMean, ExpMapMidpointSample, Magnus4,
-          ConingOneSample, ConingTwoSample, ConingThreeSample, ConingThreeSampleOlder,
-          ConingFourSample, ConingOneSamplePlusPrevious, RungeKutta2Sampled,
-          RungeKutta2Interpolated, RungeKutta2RateFunction, RungeKutta3Sampled,
-          RungeKutta3Interpolated, RungeKutta3RateFunction, RungeKutta4Sampled,
+    Types<ExponentialMapHoldEnd, ExponentialMapHoldStart, ExponentialMapMidpointMean, ExponentialMapMidpointSample, Magnus4,
+          Coning1Sample, Coning2Sample, Coning3Sample, Coning3SampleMiller,
+          Coning4Sample, Coning1SamplePlusPrevious, RungeKutta2MidpointSampled,
+          RungeKutta2MidpointInterpolated, RungeKutta2MidpointRateFunction, RungeKutta3KuttaSampled,
+          RungeKutta3KuttaInterpolated, RungeKutta3KuttaRateFunction, RungeKutta4Sampled,
           RungeKutta4Interpolated, RungeKutta4RateFunction, BogackiShampine32RateFunction,
           DormandPrince54RateFunction, MuntheKaas4Sampled, MuntheKaas4Interpolated,
           MuntheKaas4RateFunction>;

@@ -331,17 +331,17 @@ TEST_CASE("coning-term error constants match the hand derivation", "[reference]"
   CHECK(near(coefficient(m4, m4p, d0d3, 5), 1.0L / 720));
   CHECK(near(coefficient(m4, m4p, d1d2, 5), 1.0L / 120));
   CHECK(coefficient(m4, m4p, d0d2, 4) <= 1e-9L);
-  const auto two = mb::delta_angle_samples<LD, 2, false>();
-  const auto two_pairs = mb::coning_pairs<2>(coning_coefficients::two_sample);
+  const auto two = detail::rule_sample_moments<LD>(rotation_vector_rules::Coning2Sample::value);
+  const auto two_pairs = detail::rule_pairs(rotation_vector_rules::Coning2Sample::value);
   CHECK(coefficient(two, two_pairs, d0d1, 3) == 0);
   CHECK(near(coefficient(two, two_pairs, d0d3, 5), 1.0L / 2880));
   CHECK(near(coefficient(two, two_pairs, d1d2, 5), 1.0L / 720));
   // Three- and four-sample sets are consistent (m×p exact) and time-symmetric (no m×q term).
-  const auto three = mb::delta_angle_samples<LD, 3, false>();
-  const auto four = mb::delta_angle_samples<LD, 4, false>();
-  const auto three_pairs = mb::coning_pairs<3>(coning_coefficients::three_sample);
-  const auto older_pairs = mb::coning_pairs<3>(coning_coefficients::three_sample_older);
-  const auto four_pairs = mb::coning_pairs<4>(coning_coefficients::four_sample);
+  const auto three = detail::rule_sample_moments<LD>(rotation_vector_rules::Coning3Sample::value);
+  const auto four = detail::rule_sample_moments<LD>(rotation_vector_rules::Coning4Sample::value);
+  const auto three_pairs = detail::rule_pairs(rotation_vector_rules::Coning3Sample::value);
+  const auto older_pairs = detail::rule_pairs(rotation_vector_rules::Coning3SampleMiller::value);
+  const auto four_pairs = detail::rule_pairs(rotation_vector_rules::Coning4Sample::value);
   CHECK(coefficient(three, three_pairs, d0d1, 3) == 0);
   CHECK(coefficient(three, older_pairs, d0d1, 3) == 0);
   CHECK(coefficient(four, four_pairs, d0d1, 3) == 0);
@@ -351,8 +351,8 @@ TEST_CASE("coning-term error constants match the hand derivation", "[reference]"
   // One-plus-previous is consistent but not symmetric: ∫τ²/2 is 13/24 over the previous period
   // [−3/2, −1/2] and 1/24 over the step, so κ_q = 1/12·(1/24 − 13/24) = −1/24: an h⁴·D0·D2 term,
   // the ω × ω̈ term behind its order 3 (coning_compensation.hpp).
-  const auto prev = mb::delta_angle_samples<LD, 1, true>();
-  const auto prev_pairs = mb::coning_pairs<2>(coning_coefficients::one_sample_plus_previous);
+  const auto prev = detail::rule_sample_moments<LD>(rotation_vector_rules::Coning1SamplePlusPrevious::value);
+  const auto prev_pairs = detail::rule_pairs(rotation_vector_rules::Coning1SamplePlusPrevious::value);
   CHECK(coefficient(prev, prev_pairs, d0d1, 3) == 0);
   CHECK(near(coefficient(prev, prev_pairs, d0d2, 4), 1.0L / 24));
 }
@@ -372,51 +372,55 @@ TEST_CASE("bounds are exactly zero at constant rate and +inf when a needed deriv
       CHECK(bound(constant_unknown_higher, h) == 0);
     }
   };
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExpMapHoldEnd>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExpMapHoldStart>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExpMapMidpointMean>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExpMapMidpointSample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapHoldEnd>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapHoldStart>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapMidpointMean>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapMidpointSample>::local(e, h); });
   zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Magnus4>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingOneSample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning1Sample>::local(e, h); });
   zero_at_constant(
-      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingOneSamplePlusPrevious>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingTwoSample>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingThreeSample>::local(e, h); });
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning1SamplePlusPrevious>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning2Sample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning3Sample>::local(e, h); });
   zero_at_constant(
-      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingThreeSampleOlder>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ConingFourSample>::local(e, h); });
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning3SampleMiller>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning4Sample>::local(e, h); });
   // float and double give 0 too.
   CHECK(LocalErrorBound<Magnus4>::local(RateEnvelope<float>::constant_rate(2.5f), 0.01f) == 0.0f);
-  CHECK(LocalErrorBound<ConingFourSample>::local(RateEnvelope<double>::constant_rate(2.5), 0.01) == 0.0);
+  CHECK(LocalErrorBound<Coning4Sample>::local(RateEnvelope<double>::constant_rate(2.5), 0.01) == 0.0);
   // The measured error at constant rate is rounding only.
   const ClosedForm<ConstantRateMotion<LD>> spin{
       {normalized(Quaternion<LD>{0.3L, -0.5L, 0.1L, 0.8L}), {0.3L, -1.2L, 0.7L}},
       RateEnvelope<LD>::constant_rate(std::sqrt(0.09L + 1.44L + 0.49L))};
   CHECK(one_step_error<Magnus4>(spin, 0.2L, 0.1L) <= allowance);
-  CHECK(one_step_error<ConingFourSample>(spin, 0.2L, 0.1L) <= allowance);
-  CHECK(one_step_error<ExpMapHoldEnd>(spin, 0.2L, 0.1L) <= allowance);
+  CHECK(one_step_error<Coning4Sample>(spin, 0.2L, 0.1L) <= allowance);
+  CHECK(one_step_error<ExponentialMapHoldEnd>(spin, 0.2L, 0.1L) <= allowance);
 
   // Unknown derivatives: first/second-order methods need only D0, D1 (their quadrature and
   // commutator bounds have D1-only forms); the coning algorithms with a correction need D2 (an
-  // O(h⁴) bound; with D3, D4 the O(h⁵) one); Magnus 4 needs D4 (Simpson).
+  // O(h⁴) bound; with D3, D4 the O(h⁵) one); Magnus 4 needs D4 for its O(h⁵) Simpson form.
   const RateEnvelope<LD> d01 = RateEnvelope<LD>::from_rate_bounds(2, 3, std::numeric_limits<LD>::infinity());
-  CHECK(std::isfinite(LocalErrorBound<ExpMapHoldEnd>::local(d01, 0.01L)));
-  CHECK(std::isfinite(LocalErrorBound<ExpMapMidpointMean>::local(d01, 0.01L)));
-  CHECK(std::isfinite(LocalErrorBound<ExpMapMidpointSample>::local(d01, 0.01L)));
-  CHECK(std::isfinite(LocalErrorBound<ConingOneSample>::local(d01, 0.01L)));
-  CHECK(std::isinf(LocalErrorBound<ConingOneSamplePlusPrevious>::local(d01, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<ExponentialMapHoldEnd>::local(d01, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<ExponentialMapMidpointMean>::local(d01, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<ExponentialMapMidpointSample>::local(d01, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<Coning1Sample>::local(d01, 0.01L)));
+  CHECK(std::isinf(LocalErrorBound<Coning1SamplePlusPrevious>::local(d01, 0.01L)));
   const RateEnvelope<LD> d012 = RateEnvelope<LD>::from_rate_bounds(2, 3, 4);
-  CHECK(std::isfinite(LocalErrorBound<ConingOneSamplePlusPrevious>::local(d012, 0.01L)));
-  CHECK(std::isfinite(LocalErrorBound<ConingTwoSample>::local(d012, 0.01L)));
-  CHECK(std::isinf(LocalErrorBound<Magnus4>::local(d012, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<Coning1SamplePlusPrevious>::local(d012, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<Coning2Sample>::local(d012, 0.01L)));
+  // Magnus 4 without D4: its Simpson quadrature falls back to the degree-0 Peano form (h²·D1,
+  // derived from the weights), so the bound is finite but only O(h²): halving h quarters it.
+  CHECK(std::isfinite(LocalErrorBound<Magnus4>::local(d012, 0.01L)));
+  CHECK(LocalErrorBound<Magnus4>::local(d012, 0.005L) / LocalErrorBound<Magnus4>::local(d012, 0.01L) >
+        0.2L);
   RateEnvelope<LD> d0123 = d012;
   d0123.derivative[3] = 5;
-  CHECK(std::isfinite(LocalErrorBound<ConingFourSample>::local(d0123, 0.01L)));
-  CHECK(std::isinf(LocalErrorBound<Magnus4>::local(d0123, 0.01L)));
+  CHECK(std::isfinite(LocalErrorBound<Coning4Sample>::local(d0123, 0.01L)));
+  CHECK(LocalErrorBound<Magnus4>::local(d0123, 0.01L) <= LocalErrorBound<Magnus4>::local(d012, 0.01L));
   // Outside the derivation's range (D0·h > 1 rad): +inf.
-  CHECK(std::isinf(LocalErrorBound<ExpMapHoldEnd>::local(d012, 0.6L)));
+  CHECK(std::isinf(LocalErrorBound<ExponentialMapHoldEnd>::local(d012, 0.6L)));
   // Usable in constant expressions (firmware start-up checks).
-  constexpr float b = LocalErrorBound<ConingTwoSample>::local(RateEnvelope<float>{{1, 2, 3, 4, 5, 6}}, 0.001f);
+  constexpr float b = LocalErrorBound<Coning2Sample>::local(RateEnvelope<float>{{1, 2, 3, 4, 5, 6}}, 0.001f);
   static_assert(b > 0.0f, "constexpr bound");
   CHECK(b < 1e-12f);
 }
@@ -465,16 +469,16 @@ void check_precision_of_bound() {
 TEST_CASE("bounds evaluated in float and double agree with long double", "[reference]") {
   // Reference: the same formula in long double (self-consistency of the evaluation, not of the
   // derivation).
-  check_precision_of_bound<ExpMapHoldEnd>();
-  check_precision_of_bound<ExpMapMidpointMean>();
-  check_precision_of_bound<ExpMapMidpointSample>();
+  check_precision_of_bound<ExponentialMapHoldEnd>();
+  check_precision_of_bound<ExponentialMapMidpointMean>();
+  check_precision_of_bound<ExponentialMapMidpointSample>();
   check_precision_of_bound<Magnus4>();
-  check_precision_of_bound<ConingOneSample>();
-  check_precision_of_bound<ConingOneSamplePlusPrevious>();
-  check_precision_of_bound<ConingTwoSample>();
-  check_precision_of_bound<ConingThreeSample>();
-  check_precision_of_bound<ConingThreeSampleOlder>();
-  check_precision_of_bound<ConingFourSample>();
+  check_precision_of_bound<Coning1Sample>();
+  check_precision_of_bound<Coning1SamplePlusPrevious>();
+  check_precision_of_bound<Coning2Sample>();
+  check_precision_of_bound<Coning3Sample>();
+  check_precision_of_bound<Coning3SampleMiller>();
+  check_precision_of_bound<Coning4Sample>();
 }
 
 // Measured worst bound/measured ratios on wide coning and the two bodies (HALFSPIN_REPORT_WORST):
@@ -482,21 +486,21 @@ TEST_CASE("bounds evaluated in float and double agree with long double", "[refer
 // one-plus-previous 10.1, two-sample 25, three-sample 44, older three-sample 45, four-sample 52.
 TEST_CASE("local bounds of the exponential-map steps are safe on every motion", "[reference]") {
   // Truth: closed forms of truth/*.hpp; random sinusoids by Boost.Odeint (header comment).
-  check_all_motions<ExpMapHoldEnd>(2.2L);
-  check_all_motions<ExpMapHoldStart>(2.2L);
-  check_all_motions<ExpMapMidpointMean>(4.5L);
-  check_all_motions<ExpMapMidpointSample>(3.0L);
+  check_all_motions<ExponentialMapHoldEnd>(2.2L);
+  check_all_motions<ExponentialMapHoldStart>(2.2L);
+  check_all_motions<ExponentialMapMidpointMean>(4.5L);
+  check_all_motions<ExponentialMapMidpointSample>(3.0L);
 }
 
 TEST_CASE("local bound of Magnus 4 is safe on every motion", "[reference]") { check_all_motions<Magnus4>(15.0L); }
 
 TEST_CASE("local bounds of the coning algorithms are safe on every motion", "[reference]") {
-  check_all_motions<ConingOneSample>(6.0L);
-  check_all_motions<ConingOneSamplePlusPrevious>(15.0L);
-  check_all_motions<ConingTwoSample>(38.0L);
-  check_all_motions<ConingThreeSample>(66.0L);
-  check_all_motions<ConingThreeSampleOlder>(68.0L);
-  check_all_motions<ConingFourSample>(78.0L);
+  check_all_motions<Coning1Sample>(6.0L);
+  check_all_motions<Coning1SamplePlusPrevious>(15.0L);
+  check_all_motions<Coning2Sample>(38.0L);
+  check_all_motions<Coning3Sample>(66.0L);
+  check_all_motions<Coning3SampleMiller>(68.0L);
+  check_all_motions<Coning4Sample>(78.0L);
 }
 
 namespace {
@@ -515,7 +519,7 @@ Tracking track(const M& m, LD h, LD span, int starts) {
     const auto in = step_input<Stepper>(m, t0, h);
     const StepOutcome<LD> r = Stepper::step_with_estimate(Quaternion<LD>::identity(), in, h);
     const Quaternion<LD> truth = m.increment(t0, t0 + h);
-    // The lower-order method on the same step: ConingOneSample on the step's total delta-angle,
+    // The lower-order method on the same step: Coning1Sample on the step's total delta-angle,
     // the trapezoid exponential-map step on the end rates.
     Quaternion<LD> lower;
     if constexpr (carries_delta_angles(Stepper::layout)) {
@@ -571,22 +575,22 @@ void check_tracking(const M& m, const char* who, LD h0, LD span) {
 TEST_CASE("online estimate |beta-hat| tracks the commutator part of the step", "[reference]") {
   // Truth: classical coning and the axisymmetric body in closed form (truth/*.hpp).
   static_assert(has_error_estimate<Magnus4, double>::value, "Magnus 4 has an estimate");
-  static_assert(has_error_estimate<ConingTwoSample, float>::value, "two-sample has an estimate");
-  static_assert(has_error_estimate<ConingFourSample, double>::value, "four-sample has an estimate");
-  static_assert(has_error_estimate<ConingOneSamplePlusPrevious, double>::value, "plus-previous has an estimate");
-  static_assert(!has_error_estimate<ConingOneSample, double>::value, "one sample has no correction");
-  check_tracking<Magnus4, ExpMapMidpointMean>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
-  check_tracking<Magnus4, ExpMapMidpointMean>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<ConingTwoSample, ConingOneSample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
-  check_tracking<ConingTwoSample, ConingOneSample>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<ConingThreeSample, ConingOneSample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
-  check_tracking<ConingThreeSample, ConingOneSample>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<ConingThreeSampleOlder, ConingOneSample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
-  check_tracking<ConingThreeSampleOlder, ConingOneSample>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<ConingFourSample, ConingOneSample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
-  check_tracking<ConingFourSample, ConingOneSample>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<ConingOneSamplePlusPrevious, ConingOneSample>(coning_wide, "coning 0.2 rad", 0.05L, 0.5L);
-  check_tracking<ConingOneSamplePlusPrevious, ConingOneSample>(body, "axisymmetric body", 0.2L, 7.0L);
+  static_assert(has_error_estimate<Coning2Sample, float>::value, "two-sample has an estimate");
+  static_assert(has_error_estimate<Coning4Sample, double>::value, "four-sample has an estimate");
+  static_assert(has_error_estimate<Coning1SamplePlusPrevious, double>::value, "plus-previous has an estimate");
+  static_assert(!has_error_estimate<Coning1Sample, double>::value, "one sample has no correction");
+  check_tracking<Magnus4, ExponentialMapMidpointMean>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
+  check_tracking<Magnus4, ExponentialMapMidpointMean>(body, "axisymmetric body", 0.4L, 7.0L);
+  check_tracking<Coning2Sample, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
+  check_tracking<Coning2Sample, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
+  check_tracking<Coning3Sample, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
+  check_tracking<Coning3Sample, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
+  check_tracking<Coning3SampleMiller, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
+  check_tracking<Coning3SampleMiller, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
+  check_tracking<Coning4Sample, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
+  check_tracking<Coning4Sample, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
+  check_tracking<Coning1SamplePlusPrevious, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.05L, 0.5L);
+  check_tracking<Coning1SamplePlusPrevious, Coning1Sample>(body, "axisymmetric body", 0.2L, 7.0L);
 }
 
 TEST_CASE("the propagator reports the stepper's estimate per step and accumulated", "[reference]") {
@@ -603,8 +607,8 @@ TEST_CASE("the propagator reports the stepper's estimate per step and accumulate
   // step_with_estimate returns the same attitude as step(), bit for bit.
   const std::array<Vector3<float>, 4> d{{{1e-3f, 2e-3f, 0}, {0, 1e-3f, 3e-3f}, {2e-3f, 0, 1e-3f}, {1e-3f, 1e-3f, 1e-3f}}};
   const Quaternion<float> q = normalized(Quaternion<float>{0.5f, 0.1f, -0.2f, 0.8f});
-  const StepOutcome<float> r = ConingFourSample::step_with_estimate(q, d, 0.004f);
-  const Quaternion<float> s = ConingFourSample::step(q, d, 0.004f);
+  const StepOutcome<float> r = Coning4Sample::step_with_estimate(q, d, 0.004f);
+  const Quaternion<float> s = Coning4Sample::step(q, d, 0.004f);
   CHECK(r.attitude.w == s.w);
   CHECK(r.attitude.x == s.x);
   CHECK(r.attitude.y == s.y);

@@ -74,29 +74,29 @@ void check_candidate(const Recommendation<T, N>& r, std::size_t i, const char* n
 //     e_ax = d/2 − d = −d/2: N·d/2 = 7.75e-10. Bound ≈ √(0.775² + 1.645²)·1e-9 + 4.0e-10
 //     = 1.818e-9 + 0.40e-9 = 2.22e-9 rad.
 //   RK4 sampled: truncation below 1e-14 here; bound = roundoff floor 3.33e-10 rad.
-//   Budget 1e-5 rad: all meet; cheapest is hold-end (51 kflop/s) → expmap_hold_end.
-//   Budget 1e-6 rad: hold-end (3.14e-6) fails; next cheapest meeting: midpoint-mean (55 kflop/s).
+//   Budget 1e-5 rad: all meet; cheapest is hold-end (54 kflop/s) → exponential_map_hold_end.
+//   Budget 1e-6 rad: hold-end (3.14e-6) fails; next cheapest meeting: midpoint-mean (58 kflop/s).
 TEST_CASE("recommendation: quiet platform, the cheapest exponential-map step suffices",
           "[reference]") {
   MotionDescription<double> d{};
   d.coning = {1e-3, 0.5};
-  const StepperList<ExpMapHoldEnd, ExpMapMidpointMean, RungeKutta2Interpolated, RungeKutta4Sampled>
+  const StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean, RungeKutta2MidpointInterpolated, RungeKutta4Sampled>
       list{};
   const auto loose = recommend_stepper(list, d, 1e-5, 600.0, 1000.0);
   REQUIRE(loose.found);
-  CHECK(std::strcmp(loose.name, "expmap_hold_end") == 0);
+  CHECK(std::strcmp(loose.name, "exponential_map_hold_end") == 0);
   CHECK(loose.index == 0);
-  check_candidate(loose, 0, "expmap_hold_end", 3.143e-6, CandidateOutcome::meets_budget, 51e3);
-  check_candidate(loose, 1, "expmap_midpoint_mean", 4.71e-9, CandidateOutcome::meets_budget, 55e3);
-  check_candidate(loose, 2, "rk2_midpoint_interpolated", 2.22e-9, CandidateOutcome::meets_budget,
-                  68e3);
-  check_candidate(loose, 3, "rk4_sampled", 3.33e-10, CandidateOutcome::meets_budget, 72e3);
+  check_candidate(loose, 0, "exponential_map_hold_end", 3.143e-6, CandidateOutcome::meets_budget, 54e3);
+  check_candidate(loose, 1, "exponential_map_midpoint_mean", 4.71e-9, CandidateOutcome::meets_budget, 58e3);
+  check_candidate(loose, 2, "runge_kutta_2_midpoint_interpolated", 2.22e-9, CandidateOutcome::meets_budget,
+                  75e3);
+  check_candidate(loose, 3, "runge_kutta_4_sampled", 3.33e-10, CandidateOutcome::meets_budget, 74.5e3);
 
   const auto tight = recommend_stepper(list, d, 1e-6, 600.0, 1000.0);
   REQUIRE(tight.found);
-  CHECK(std::strcmp(tight.name, "expmap_midpoint_mean") == 0);
+  CHECK(std::strcmp(tight.name, "exponential_map_midpoint_mean") == 0);
   CHECK(tight.candidates[0].outcome == CandidateOutcome::over_budget);  // why the cheaper failed
-  CHECK(tight.cost_flops_per_s == Approx(55e3));
+  CHECK(tight.cost_flops_per_s == Approx(58e3));
 }
 
 // Scenario 2, strong coning (double): 2e-3 rad at 50 Hz, 1 kHz delta-angles (hold-end on 1 kHz
@@ -113,21 +113,21 @@ TEST_CASE("recommendation: quiet platform, the cheapest exponential-map step suf
 //     → ×1.5e4 = 5.68e-9; its larger but lateral third-Magnus error a³(4λ)⁵/240 = 1.04e-10 stays
 //     within 1.04e-10/sin(2λ) = 1.8e-10 (the linear sum would have made it 1.57e-6); roundoff
 //     3e-11: bound ≈ 5.7e-9 rad: meets.
-//   Only a coning algorithm meets; the cheapest candidate, two-sample (33 kflop/s), fails on its
-//   λ⁵ coning residual, so the answer is four-sample at 34.5 kflop/s.
+//   Only a coning algorithm meets; the cheapest candidate, two-sample (34.5 kflop/s), fails on its
+//   λ⁵ coning residual, so the answer is four-sample at 35.25 kflop/s.
 TEST_CASE("recommendation: strong coning, only a coning algorithm meets the budget at 1 kHz",
           "[reference]") {
   MotionDescription<double> d{};
   d.coning = {2e-3, 50.0};
-  const StepperList<ExpMapHoldEnd, ConingOneSample, ConingTwoSample, ConingFourSample> list{};
+  const StepperList<ExponentialMapHoldEnd, Coning1Sample, Coning2Sample, Coning4Sample> list{};
   const auto r = recommend_stepper(list, d, 5e-6, 60.0, 1000.0);
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
-  CHECK(r.cost_flops_per_s == Approx(34.5e3));
-  check_candidate(r, 0, "expmap_hold_end", 7.05e-4, CandidateOutcome::over_budget, 51e3);
-  check_candidate(r, 1, "coning_1_sample", 6.17e-4, CandidateOutcome::over_budget, 48e3);
-  check_candidate(r, 2, "coning_2_sample", 1.22e-5, CandidateOutcome::over_budget, 33e3);
-  check_candidate(r, 3, "coning_4_sample", 5.7e-9, CandidateOutcome::meets_budget, 34.5e3);
+  CHECK(r.cost_flops_per_s == Approx(35.25e3));
+  check_candidate(r, 0, "exponential_map_hold_end", 7.05e-4, CandidateOutcome::over_budget, 54e3);
+  check_candidate(r, 1, "coning_1_sample", 6.17e-4, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 2, "coning_2_sample", 1.22e-5, CandidateOutcome::over_budget, 34.5e3);
+  check_candidate(r, 3, "coning_4_sample", 5.7e-9, CandidateOutcome::meets_budget, 35.25e3);
 }
 
 // Scenario 3, a float budget set by roundoff: 1e-3 rad coning at 1 Hz, 1 kHz samples, float.
@@ -138,24 +138,24 @@ TEST_CASE("recommendation: strong coning, only a coning algorithm meets the budg
 // stays within Ωh·sin a = 6.3e-6 rad (scenario 1).
 //   600 s, budget 0.2 rad: hold-end 6e5·1.073e-6 = 0.644; one-sample 6e5·1.073e-6
 //   = 0.644; two-sample 3e5·1.073e-6 = 0.322; four-sample 1.5e5·1.073e-6 = 0.161; RK4 sampled
-//   3e5·5.96e-7 = 0.179. Meeting: four-sample (34.5 kflop/s) and RK4 (72): answer four-sample;
+//   3e5·5.96e-7 = 0.179. Meeting: four-sample (35.25 kflop/s) and RK4 (74.5): answer four-sample;
 //   the cheaper two-sample (33) fails on roundoff (twice the steps).
 //   3600 s, budget 0.5 rad: the best floor is four-sample's 9e5·1.073e-6 = 0.966 rad: none meets.
 TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets, or none",
           "[reference]") {
   MotionDescription<float> d{};
   d.coning = {1e-3f, 1.0f};
-  const StepperList<ExpMapHoldEnd, ConingOneSample, ConingTwoSample, ConingFourSample,
+  const StepperList<ExponentialMapHoldEnd, Coning1Sample, Coning2Sample, Coning4Sample,
                     RungeKutta4Sampled>
       list{};
   const auto r = recommend_stepper(list, d, 0.2f, 600.0f, 1000.0f);
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
-  check_candidate(r, 0, "expmap_hold_end", 0.644, CandidateOutcome::over_budget, 51e3);
-  check_candidate(r, 1, "coning_1_sample", 0.644, CandidateOutcome::over_budget, 48e3);
-  check_candidate(r, 2, "coning_2_sample", 0.322, CandidateOutcome::over_budget, 33e3);
-  check_candidate(r, 3, "coning_4_sample", 0.161, CandidateOutcome::meets_budget, 34.5e3);
-  check_candidate(r, 4, "rk4_sampled", 0.179, CandidateOutcome::meets_budget, 72e3);
+  check_candidate(r, 0, "exponential_map_hold_end", 0.644, CandidateOutcome::over_budget, 54e3);
+  check_candidate(r, 1, "coning_1_sample", 0.644, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 2, "coning_2_sample", 0.322, CandidateOutcome::over_budget, 34.5e3);
+  check_candidate(r, 3, "coning_4_sample", 0.161, CandidateOutcome::meets_budget, 35.25e3);
+  check_candidate(r, 4, "runge_kutta_4_sampled", 0.179, CandidateOutcome::meets_budget, 74.5e3);
 
   const auto none = recommend_stepper(list, d, 0.5f, 3600.0f, 1000.0f);
   CHECK_FALSE(none.found);
@@ -174,22 +174,22 @@ TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets,
 //   hold-end √6e5·1.073e-6 = 774.6·1.073e-6 = 8.31e-4 (+6.3e-6 = 8.37e-4); one-sample 8.31e-4;
 //   two-sample √3e5·1.073e-6 = 547.7·1.073e-6 = 5.88e-4; four-sample √1.5e5·1.073e-6
 //   = 387.3·1.073e-6 = 4.16e-4; RK4 sampled √3e5·5.96e-7 = 3.26e-4.
-//   Meeting 5e-4: four-sample (34.5 kflop/s) and RK4 (72): four-sample, a typical size, not a bound.
+//   Meeting 5e-4: four-sample (35.25 kflop/s) and RK4 (74.5): four-sample, a typical size, not a bound.
 TEST_CASE("recommendation: the expected roundoff model, float over ten minutes", "[reference]") {
   MotionDescription<float> d{};
   d.coning = {1e-3f, 1.0f};
-  const StepperList<ExpMapHoldEnd, ConingOneSample, ConingTwoSample, ConingFourSample,
+  const StepperList<ExponentialMapHoldEnd, Coning1Sample, Coning2Sample, Coning4Sample,
                     RungeKutta4Sampled>
       list{};
   CHECK_FALSE(recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f).found);
   const auto r = recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f, RoundoffModel::expected);
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
-  check_candidate(r, 0, "expmap_hold_end", 8.37e-4, CandidateOutcome::over_budget, 51e3);
-  check_candidate(r, 1, "coning_1_sample", 8.31e-4, CandidateOutcome::over_budget, 48e3);
-  check_candidate(r, 2, "coning_2_sample", 5.88e-4, CandidateOutcome::over_budget, 33e3);
-  check_candidate(r, 3, "coning_4_sample", 4.16e-4, CandidateOutcome::meets_budget, 34.5e3);
-  check_candidate(r, 4, "rk4_sampled", 3.26e-4, CandidateOutcome::meets_budget, 72e3);
+  check_candidate(r, 0, "exponential_map_hold_end", 8.37e-4, CandidateOutcome::over_budget, 54e3);
+  check_candidate(r, 1, "coning_1_sample", 8.31e-4, CandidateOutcome::over_budget, 51e3);
+  check_candidate(r, 2, "coning_2_sample", 5.88e-4, CandidateOutcome::over_budget, 34.5e3);
+  check_candidate(r, 3, "coning_4_sample", 4.16e-4, CandidateOutcome::meets_budget, 35.25e3);
+  check_candidate(r, 4, "runge_kutta_4_sampled", 3.26e-4, CandidateOutcome::meets_budget, 74.5e3);
 }
 
 // A candidate with no bound (a non-coning motion and no LocalErrorBound specialization in this

@@ -121,20 +121,20 @@ TEST_CASE("roundoff floor: the exponential map does not increase distances below
 // The per-step bound against measured rounding of one step (own derivation: the Higham model,
 // Higham 2002 §2.2, §3.1, in the header), for each stepper family and both types.
 TEST_CASE("roundoff floor: one step's rounding stays under the per-step bound", "[reference]") {
-  check_per_step_bound<ExpMapHoldEnd, float>(1);
-  check_per_step_bound<ExpMapHoldEnd, double>(2);
+  check_per_step_bound<ExponentialMapHoldEnd, float>(1);
+  check_per_step_bound<ExponentialMapHoldEnd, double>(2);
   check_per_step_bound<Magnus4, float>(3);
   check_per_step_bound<Magnus4, double>(4);
-  check_per_step_bound<ConingTwoSample, float>(5);
-  check_per_step_bound<ConingTwoSample, double>(6);
+  check_per_step_bound<Coning2Sample, float>(5);
+  check_per_step_bound<Coning2Sample, double>(6);
   check_per_step_bound<RungeKutta4Sampled, float>(7);
   check_per_step_bound<RungeKutta4Sampled, double>(8);
   check_per_step_bound<MuntheKaas4RateFunction, float>(9);
   check_per_step_bound<MuntheKaas4RateFunction, double>(10);
   // The stage growth from each tableau's own coefficients: Kutta's third order (a negative
   // coefficient) and Dormand–Prince (rows summing to 24.7 in absolute value).
-  check_per_step_bound<RungeKutta3Sampled, float>(11);
-  check_per_step_bound<RungeKutta3Sampled, double>(12);
+  check_per_step_bound<RungeKutta3KuttaSampled, float>(11);
+  check_per_step_bound<RungeKutta3KuttaSampled, double>(12);
   check_per_step_bound<DormandPrince54RateFunction, float>(13);
   check_per_step_bound<DormandPrince54RateFunction, double>(14);
 }
@@ -236,14 +236,14 @@ void long_run_slow_coning() {
 // Miller 1983), evaluated in long double.
 TEST_CASE("roundoff floor: 10^6 float and double steps stay under the worst-case floor",
           "[reference]") {
-  long_run_constant_rate<ExpMapHoldEnd, float>();
-  long_run_constant_rate<ExpMapHoldEnd, double>();
-  long_run_constant_rate<ConingOneSample, float>();
-  long_run_constant_rate<ConingOneSample, double>();
+  long_run_constant_rate<ExponentialMapHoldEnd, float>();
+  long_run_constant_rate<ExponentialMapHoldEnd, double>();
+  long_run_constant_rate<Coning1Sample, float>();
+  long_run_constant_rate<Coning1Sample, double>();
   long_run_constant_rate<RungeKutta4Sampled, float>();
   long_run_constant_rate<RungeKutta4Sampled, double>();
-  long_run_slow_coning<ConingTwoSample, float>();
-  long_run_slow_coning<ConingTwoSample, double>();
+  long_run_slow_coning<Coning2Sample, float>();
+  long_run_slow_coning<Coning2Sample, double>();
   long_run_slow_coning<Magnus4, float>();
   long_run_slow_coning<Magnus4, double>();
 }
@@ -251,8 +251,8 @@ TEST_CASE("roundoff floor: 10^6 float and double steps stay under the worst-case
 // Issue 4 item 5: the floor can be checked at compile time (firmware start-up configuration).
 // The value is the hand count of the header: exponential-map family at θ = 0, one float step,
 // 2x/(1 − x) with x = 2γ₄ plus 2u/(1 − u), about 18u.
-static_assert(roundoff_floor_worst<ExpMapHoldEnd, float>(0.0f, 1) > 17.9f * 0.5f * 1.1920929e-7f &&
-                  roundoff_floor_worst<ExpMapHoldEnd, float>(0.0f, 1) < 18.1f * 0.5f * 1.1920929e-7f,
+static_assert(roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) > 17.9f * 0.5f * 1.1920929e-7f &&
+                  roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) < 18.1f * 0.5f * 1.1920929e-7f,
               "per-step floor of the exponential-map family is 18u at theta = 0");
 static_assert(roundoff_floor_worst<RungeKutta4Sampled, double>(0.0, 1) > 9.9 * 0x1p-53 &&
                   roundoff_floor_worst<RungeKutta4Sampled, double>(0.0, 1) < 10.1 * 0x1p-53,

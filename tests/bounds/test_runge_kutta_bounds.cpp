@@ -293,12 +293,12 @@ void check_constant_rate() {
 TEST_CASE("Runge-Kutta local bounds are exact at constant rate", "[bounds][reference]") {
   // Reference: the stability polynomial R(z) = Σ γ_k z^k of an explicit Runge–Kutta method
   // applied to y' = A y with constant A (Butcher); the measured increment is the stepper's own.
-  check_constant_rate<halfspin::RungeKutta2Sampled>();
-  check_constant_rate<halfspin::RungeKutta2Interpolated>();
-  check_constant_rate<halfspin::RungeKutta2RateFunction>();
-  check_constant_rate<halfspin::RungeKutta3Sampled>();
-  check_constant_rate<halfspin::RungeKutta3Interpolated>();
-  check_constant_rate<halfspin::RungeKutta3RateFunction>();
+  check_constant_rate<halfspin::RungeKutta2MidpointSampled>();
+  check_constant_rate<halfspin::RungeKutta2MidpointInterpolated>();
+  check_constant_rate<halfspin::RungeKutta2MidpointRateFunction>();
+  check_constant_rate<halfspin::RungeKutta3KuttaSampled>();
+  check_constant_rate<halfspin::RungeKutta3KuttaInterpolated>();
+  check_constant_rate<halfspin::RungeKutta3KuttaRateFunction>();
   check_constant_rate<halfspin::RungeKutta4Sampled>();
   check_constant_rate<halfspin::RungeKutta4Interpolated>();
   check_constant_rate<halfspin::RungeKutta4RateFunction>();
@@ -323,17 +323,17 @@ TEST_CASE("Runge-Kutta local bounds need only the derivatives they use", "[bound
   // A needed unknown derivative (+∞) makes the bound +∞; an unneeded one does not.
   RateEnvelope<double> e = RateEnvelope<double>::from_rate_bounds(2.0, 3.0, 4.0);
   REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta4Sampled>::local(e, 0.01)));
-  REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta3Sampled>::local(e, 0.01)));
+  REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta3KuttaSampled>::local(e, 0.01)));
   // RK2 uses D0..D3; interpolated stages cap RK4 at state order 2, so it uses D0..D3 too.
   e.derivative[3] = 5.0;
-  const double rk2 = halfspin::LocalErrorBound<halfspin::RungeKutta2Sampled>::local(e, 0.01);
+  const double rk2 = halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.01);
   const double rk4i = halfspin::LocalErrorBound<halfspin::RungeKutta4Interpolated>::local(e, 0.01);
   REQUIRE(std::isfinite(rk2));
   REQUIRE(std::isfinite(rk4i));
   REQUIRE(rk2 > 0.0);
   REQUIRE(rk4i > 0.0);
   // Beyond the domain (D0·h > 1 rad) the bound is +∞ rather than a guess.
-  REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta2Sampled>::local(e, 0.6)));
+  REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.6)));
   // Order of the bound in h: halving h divides an RK4 (rate function) bound by ≈ 2⁵ once
   // the constant-rate and varying parts are both in their asymptotic range.
   const RateEnvelope<double> all{{2.0, 3.0, 4.0, 5.0, 6.0, 7.0}};
@@ -344,14 +344,14 @@ TEST_CASE("Runge-Kutta local bounds need only the derivatives they use", "[bound
 }
 
 TEST_CASE("RK2 bounds are never below the measured one-step error", "[bounds][reference]") {
-  check_all_motions<halfspin::RungeKutta2Sampled>();
-  check_all_motions<halfspin::RungeKutta2Interpolated>();
-  check_all_motions<halfspin::RungeKutta2RateFunction>();
+  check_all_motions<halfspin::RungeKutta2MidpointSampled>();
+  check_all_motions<halfspin::RungeKutta2MidpointInterpolated>();
+  check_all_motions<halfspin::RungeKutta2MidpointRateFunction>();
 }
 TEST_CASE("RK3 bounds are never below the measured one-step error", "[bounds][reference]") {
-  check_all_motions<halfspin::RungeKutta3Sampled>();
-  check_all_motions<halfspin::RungeKutta3Interpolated>();
-  check_all_motions<halfspin::RungeKutta3RateFunction>();
+  check_all_motions<halfspin::RungeKutta3KuttaSampled>();
+  check_all_motions<halfspin::RungeKutta3KuttaInterpolated>();
+  check_all_motions<halfspin::RungeKutta3KuttaRateFunction>();
 }
 TEST_CASE("RK4 bounds are never below the measured one-step error", "[bounds][reference]") {
   check_all_motions<halfspin::RungeKutta4Sampled>();

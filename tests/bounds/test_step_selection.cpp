@@ -89,13 +89,13 @@ TEST_CASE("step selection: the returned step meets the budget on the truth, twic
           "[reference]") {
   // Coning 0.05 rad at 5 Hz, 1e-4 rad over 20 s in double; 1e-2 rad in float, whose roundoff
   // floor (~1e-6 rad per step) puts 1e-3 rad over 20 s out of reach.
-  check_selection<ConingTwoSample, double>(0.05, 5.0, 1e-4, 20.0);
-  check_selection<ConingOneSample, double>(0.05, 5.0, 1e-4, 20.0);
+  check_selection<Coning2Sample, double>(0.05, 5.0, 1e-4, 20.0);
+  check_selection<Coning1Sample, double>(0.05, 5.0, 1e-4, 20.0);
   check_selection<Magnus4, double>(0.05, 5.0, 1e-4, 20.0);
-  check_selection<ExpMapMidpointMean, double>(0.05, 5.0, 1e-2, 2.0);
+  check_selection<ExponentialMapMidpointMean, double>(0.05, 5.0, 1e-2, 2.0);
   check_selection<RungeKutta4Sampled, double>(0.05, 5.0, 1e-4, 20.0);
-  check_selection<ConingTwoSample, float>(0.05f, 5.0f, 1e-2f, 20.0f);
-  check_selection<ConingThreeSample, float>(0.05f, 5.0f, 1e-2f, 20.0f);
+  check_selection<Coning2Sample, float>(0.05f, 5.0f, 1e-2f, 20.0f);
+  check_selection<Coning3Sample, float>(0.05f, 5.0f, 1e-2f, 20.0f);
 }
 
 TEST_CASE("step selection: the total is U-shaped and an unreachable budget is reported") {
@@ -104,17 +104,17 @@ TEST_CASE("step selection: the total is U-shaped and an unreachable budget is re
   // truncation side rises at large steps.
   MotionDescription<float> d{};
   d.coning = {0.05f, 5.0f};
-  const StepSelection<float> sel = select_step<ConingTwoSample>(d, 1e-5f, 600.0f);
+  const StepSelection<float> sel = select_step<Coning2Sample>(d, 1e-5f, 600.0f);
   INFO("minimizer " << sel.minimizing_step_s << " minimum " << sel.minimum_bound_rad);
   REQUIRE(sel.status == StepSelectionStatus::budget_unreachable);
   CHECK(sel.minimum_bound_rad > 1e-5f);
   CHECK(sel.step_s == sel.minimizing_step_s);
   const float dt = sel.minimizing_step_s;
-  CHECK(horizon_error_bound<ConingTwoSample>(d, dt / 8.0f, 600.0f) > sel.minimum_bound_rad);
-  CHECK(horizon_error_bound<ConingTwoSample>(d, dt * 8.0f, 600.0f) > sel.minimum_bound_rad);
+  CHECK(horizon_error_bound<Coning2Sample>(d, dt / 8.0f, 600.0f) > sel.minimum_bound_rad);
+  CHECK(horizon_error_bound<Coning2Sample>(d, dt * 8.0f, 600.0f) > sel.minimum_bound_rad);
   // Roundoff side: eight times more steps, about eight times the floor.
-  const float fine = horizon_error_bound<ConingTwoSample>(d, 1e-6f, 600.0f);
-  const float finer = horizon_error_bound<ConingTwoSample>(d, 1.25e-7f, 600.0f);
+  const float fine = horizon_error_bound<Coning2Sample>(d, 1e-6f, 600.0f);
+  const float finer = horizon_error_bound<Coning2Sample>(d, 1.25e-7f, 600.0f);
   CHECK(finer / fine > 7.0f);
   CHECK(finer / fine < 9.0f);
 }
@@ -127,31 +127,31 @@ TEST_CASE("step selection: the expected roundoff model for float over a long hor
   d.coning = {1e-3f, 1.0f};
   const float budget = 5e-4f;
   const float horizon = 600.0f;
-  REQUIRE(select_step<ConingFourSample>(d, budget, horizon).status ==
+  REQUIRE(select_step<Coning4Sample>(d, budget, horizon).status ==
           StepSelectionStatus::budget_unreachable);
   StepSearch<float> search{};
   search.roundoff = RoundoffModel::expected;
-  const StepSelection<float> sel = select_step<ConingFourSample>(d, budget, horizon, search);
+  const StepSelection<float> sel = select_step<Coning4Sample>(d, budget, horizon, search);
   INFO("step " << sel.step_s << " expected " << sel.bound_rad);
   REQUIRE(sel.status == StepSelectionStatus::ok);
-  CHECK(horizon_error_expected<ConingFourSample>(d, sel.step_s, horizon) <= budget);
-  CHECK(sel.bound_rad == horizon_error_expected<ConingFourSample>(d, sel.step_s, horizon));
-  CHECK(horizon_error_expected<ConingFourSample>(d, sel.step_s * 2.0f, horizon) > budget);
-  CHECK(horizon_error<ConingFourSample>(d, sel.step_s, horizon, RoundoffModel::worst_case) ==
-        horizon_error_bound<ConingFourSample>(d, sel.step_s, horizon));
+  CHECK(horizon_error_expected<Coning4Sample>(d, sel.step_s, horizon) <= budget);
+  CHECK(sel.bound_rad == horizon_error_expected<Coning4Sample>(d, sel.step_s, horizon));
+  CHECK(horizon_error_expected<Coning4Sample>(d, sel.step_s * 2.0f, horizon) > budget);
+  CHECK(horizon_error<Coning4Sample>(d, sel.step_s, horizon, RoundoffModel::worst_case) ==
+        horizon_error_bound<Coning4Sample>(d, sel.step_s, horizon));
 }
 
 TEST_CASE("step selection: invalid arguments are refused") {
   MotionDescription<double> d{};
   d.coning = {0.05, 5.0};
-  CHECK(select_step<ConingTwoSample>(d, -1.0, 10.0).status == StepSelectionStatus::invalid_arguments);
-  CHECK(select_step<ConingTwoSample>(d, 1e-3, 0.0).status == StepSelectionStatus::invalid_arguments);
-  CHECK(select_step<ConingTwoSample>(d, std::nan(""), 10.0).status ==
+  CHECK(select_step<Coning2Sample>(d, -1.0, 10.0).status == StepSelectionStatus::invalid_arguments);
+  CHECK(select_step<Coning2Sample>(d, 1e-3, 0.0).status == StepSelectionStatus::invalid_arguments);
+  CHECK(select_step<Coning2Sample>(d, std::nan(""), 10.0).status ==
         StepSelectionStatus::invalid_arguments);
   StepSearch<double> s{};
   s.dt_min = 1.0;
   s.dt_max = 0.5;
-  CHECK(select_step<ConingTwoSample>(d, 1e-3, 10.0, s).status ==
+  CHECK(select_step<Coning2Sample>(d, 1e-3, 10.0, s).status ==
         StepSelectionStatus::invalid_arguments);
 }
 

@@ -114,19 +114,19 @@ TEMPLATE_TEST_CASE("angle_between is sign-insensitive and accurate for tiny angl
   REQUIRE(angle_between(Quaternion<T>::identity(), Quaternion<T>::identity()) == T(0));
 }
 
-TEMPLATE_TEST_CASE("nearest_sign and canonical_sign pick the hemisphere", "[core]", float, double) {
+TEMPLATE_TEST_CASE("nearest_sign and with_nonnegative_scalar pick the hemisphere", "[core]", float, double) {
   using T = TestType;
   const Quaternion<T> prev{T(0.6), T(0.8), 0, 0};
   const Quaternion<T> q{T(-0.6), T(-0.79), T(0.1), 0};
   REQUIRE(nearest_sign(q, prev) == -q);
   REQUIRE(nearest_sign(-q, prev) == -q);
-  REQUIRE(canonical_sign(q) == -q);
-  REQUIRE(canonical_sign(prev) == prev);
+  REQUIRE(with_nonnegative_scalar(q) == -q);
+  REQUIRE(with_nonnegative_scalar(prev) == prev);
   // A sequence that crosses w = 0 keeps a continuous sign.
   Quaternion<T> last = Quaternion<T>::identity();
   for (int n = 0; n <= 40; ++n) {
     const T angle = T(0.25) * static_cast<T>(n);  // up to 10 rad: past 2π
-    const Quaternion<T> raw = canonical_sign(quaternion_exp(Vector3<T>{0, 0, angle}));
+    const Quaternion<T> raw = with_nonnegative_scalar(quaternion_exp(Vector3<T>{0, 0, angle}));
     const Quaternion<T> cont = nearest_sign(raw, last);
     REQUIRE(dot(cont, last) > T(0.9));
     last = cont;

@@ -19,13 +19,14 @@ struct SummedDeltaAngles {
   static constexpr int order = 1;
   static constexpr int flops = 0;
   static constexpr const char* name = "test_summed_delta_angles";
+  static constexpr bool has_estimate = false;
   template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, N>& d, T) noexcept {
+  static Increment<T> increment(const std::array<Vector3<T>, N>& d, T) noexcept {
     Vector3<T> sum = Vector3<T>::zero();
     for (const auto& v : d) {
       sum += v;
     }
-    return q * quaternion_exp(sum);
+    return {quaternion_exp_minus_one(sum), T(0)};
   }
 };
 
@@ -37,9 +38,10 @@ struct WithPreviousDeltaAngle {
   static constexpr int order = 1;
   static constexpr int flops = 0;
   static constexpr const char* name = "test_with_previous";
+  static constexpr bool has_estimate = false;
   template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, 2>& d, T) noexcept {
-    return q * quaternion_exp(d[1]);
+  static Increment<T> increment(const std::array<Vector3<T>, 2>& d, T) noexcept {
+    return {quaternion_exp_minus_one(d[1]), T(0)};
   }
 };
 
@@ -51,14 +53,10 @@ struct EstimatingHoldStart {
   static constexpr int order = 1;
   static constexpr int flops = 0;
   static constexpr const char* name = "test_estimating";
+  static constexpr bool has_estimate = true;
   template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, 2>& w, T dt) noexcept {
-    return q * quaternion_exp(w[0] * dt);
-  }
-  template <class T>
-  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q, const std::array<Vector3<T>, 2>& w,
-                                           T dt) noexcept {
-    return {step(q, w, dt), norm(w[1] - w[0]) * dt};
+  static Increment<T> increment(const std::array<Vector3<T>, 2>& w, T dt) noexcept {
+    return {quaternion_exp_minus_one(w[0] * dt), norm(w[1] - w[0]) * dt};
   }
 };
 
@@ -70,9 +68,10 @@ struct MidpointRateFunction {
   static constexpr int order = 2;
   static constexpr int flops = 0;
   static constexpr const char* name = "test_midpoint_function";
+  static constexpr bool has_estimate = false;
   template <class T, class F>
-  static Quaternion<T> step(const Quaternion<T>& q, const F& rate_at, T dt) noexcept {
-    return q * quaternion_exp(rate_at(T(0.5) * dt) * dt);
+  static Increment<T> increment(const F& rate_at, T dt) noexcept {
+    return {quaternion_exp_minus_one(rate_at(T(0.5) * dt) * dt), T(0)};
   }
 };
 

@@ -237,7 +237,7 @@ TEST_CASE("fourth- and fifth-order steppers agree with the Odeint reference with
   CHECK(dp54 < 1e-13L);
   // The comparison can fail: the second-order midpoint rule at the same step is far outside it
   // (and the third-order Bogacki–Shampine just outside: 1.1e-11, reported only).
-  const L rk2 = worst_angle_against_reference<RungeKutta2RateFunction>(&restarts);
+  const L rk2 = worst_angle_against_reference<RungeKutta2MidpointRateFunction>(&restarts);
   const L bs32 = worst_angle_against_reference<BogackiShampine32RateFunction>(&restarts);
   test::report_worst("RK2 rate function vs Odeint reference, rad", rk2);
   test::report_worst("BS32 rate function vs Odeint reference, rad", bs32);

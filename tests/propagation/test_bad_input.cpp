@@ -104,7 +104,7 @@ TEMPLATE_TEST_CASE("every bad-input class is rejected with its status and leaves
                    "[propagation]", float, double) {
   using T = TestType;
   check_all_classes<T, Magnus4>(T(1), false);                           // rates, window of 3
-  check_all_classes<T, ExpMapHoldEnd>(T(1), false);                     // rates, window of 1
+  check_all_classes<T, ExponentialMapHoldEnd>(T(1), false);                     // rates, window of 1
   check_all_classes<T, test::SummedDeltaAngles<3>>(T(1e-3), true);      // delta-angles
   check_all_classes<T, test::WithPreviousDeltaAngle>(T(1e-3), true);    // with history
 }

@@ -251,8 +251,8 @@ TEST_CASE("coning coefficients re-derived by series matching equal the header's 
 TEST_CASE("the older three-sample set 33/80, 57/80 cancels one coning term fewer than 9/20, 27/40",
           "[coning][reference]") {
   // Miller 1983 (from memory): 33/80 Δθ1×Δθ3 + 57/80 Δθ2×(Δθ3 − Δθ1). Header data must be that.
-  CHECK(per_pair(coning_coefficients::three_sample_older, 2) == L(33) / 80);
-  CHECK(per_pair(coning_coefficients::three_sample_older, 1) == L(57) / 80);
+  CHECK(per_pair(coning_coefficients::three_sample_miller, 2) == L(33) / 80);
+  CHECK(per_pair(coning_coefficients::three_sample_miller, 1) == L(57) / 80);
   const std::vector<L> miller{2 * L(57) / 80, L(33) / 80};
   CHECK(std::fabs(residual(miller, 3, 1)) < tight);              // λ³ cancelled
   CHECK(std::fabs(residual(miller, 3, 2) - L(3) / 80) < tight);  // λ⁵ left: 3/80 (ours)
@@ -285,12 +285,12 @@ TEST_CASE("per-update coning-term error falls as λ^(2N+1) with the derived coef
     CHECK(std::fabs(c / expected_coefficient - 1) < 0.03L);
   };
   // One sample: no correction, error −g_1 = −λ³/12.
-  check(ConingOneSample{}, 3, L(-1) / 12, "1 sample");
-  check(ConingOneSamplePlusPrevious{}, 5, L(-1) / 60, "1 sample + previous");
-  check(ConingTwoSample{}, 5, L(-1) / 30, "2 samples");
-  check(ConingThreeSample{}, 7, L(-3) / 280, "3 samples");
-  check(ConingThreeSampleOlder{}, 5, L(3) / 80, "3 samples, older set");
-  check(ConingFourSample{}, 9, L(-1) / 315, "4 samples");
+  check(Coning1Sample{}, 3, L(-1) / 12, "1 sample");
+  check(Coning1SamplePlusPrevious{}, 5, L(-1) / 60, "1 sample + previous");
+  check(Coning2Sample{}, 5, L(-1) / 30, "2 samples");
+  check(Coning3Sample{}, 7, L(-3) / 280, "3 samples");
+  check(Coning3SampleMiller{}, 5, L(3) / 80, "3 samples, older set");
+  check(Coning4Sample{}, 9, L(-1) / 315, "4 samples");
 }
 
 TEST_CASE("attitude error under pure coning falls as h^(2N) at a small cone angle",
@@ -303,26 +303,26 @@ TEST_CASE("attitude error under pure coning falls as h^(2N) at a small cone angl
   // (the attitude is within 1e-5 of identity, so vector-part rounding is ~1e-21 per step).
   const L a = 1e-5L, horizon = 200;
   const auto lam = step_ladder(0.8L, 5);
-  CHECK(std::fabs(coning_order<ConingOneSample, double>(a, lam, horizon, "1 sample") - 2) < 0.2L);
-  CHECK(std::fabs(coning_order<ConingOneSamplePlusPrevious, double>(a, lam, horizon,
+  CHECK(std::fabs(coning_order<Coning1Sample, double>(a, lam, horizon, "1 sample") - 2) < 0.2L);
+  CHECK(std::fabs(coning_order<Coning1SamplePlusPrevious, double>(a, lam, horizon,
                                                                     "1 sample + previous") -
                   4) < 0.2L);
-  CHECK(std::fabs(coning_order<ConingTwoSample, double>(a, lam, horizon, "2 samples") - 4) < 0.2L);
-  CHECK(std::fabs(coning_order<ConingThreeSample, double>(a, lam, horizon, "3 samples") - 6) <
+  CHECK(std::fabs(coning_order<Coning2Sample, double>(a, lam, horizon, "2 samples") - 4) < 0.2L);
+  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples") - 6) <
         0.2L);
   // The older set's next term (−13/560 λ⁷ against 3/80 λ⁵, ours) is a relative 0.6·λ²: its
   // truncation-dominated range starts lower, λ ∈ [0.1, 0.4].
-  CHECK(std::fabs(coning_order<ConingThreeSampleOlder, double>(a, step_ladder(0.4L, 5), horizon,
+  CHECK(std::fabs(coning_order<Coning3SampleMiller, double>(a, step_ladder(0.4L, 5), horizon,
                                                                "3 samples older") -
                   4) < 0.2L);
-  CHECK(std::fabs(coning_order<ConingFourSample, double>(a, lam, horizon, "4 samples") - 8) < 0.2L);
+  CHECK(std::fabs(coning_order<Coning4Sample, double>(a, lam, horizon, "4 samples") - 8) < 0.2L);
   // The declared constants say the same.
-  CHECK(ConingOneSample::coning_order == 2);
-  CHECK(ConingOneSamplePlusPrevious::coning_order == 4);
-  CHECK(ConingTwoSample::coning_order == 4);
-  CHECK(ConingThreeSample::coning_order == 6);
-  CHECK(ConingThreeSampleOlder::coning_order == 4);
-  CHECK(ConingFourSample::coning_order == 8);
+  CHECK(Coning1Sample::coning_order == 2);
+  CHECK(Coning1SamplePlusPrevious::coning_order == 4);
+  CHECK(Coning2Sample::coning_order == 4);
+  CHECK(Coning3Sample::coning_order == 6);
+  CHECK(Coning3SampleMiller::coning_order == 4);
+  CHECK(Coning4Sample::coning_order == 8);
 }
 
 TEST_CASE("at a cone angle of 0.02 rad the second-order form's remainder caps N = 3, 4 at order 4",
@@ -332,9 +332,9 @@ TEST_CASE("at a cone angle of 0.02 rad the second-order form's remainder caps N 
   // all) within 10 %: the remainder of the form, not the coefficients, is what is left.
   const L a = 0.02L, horizon = 20;
   const auto lam = step_ladder(0.2L, 5);
-  CHECK(std::fabs(coning_order<ConingThreeSample, double>(a, lam, horizon, "3 samples a=0.02") -
+  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples a=0.02") -
                   4) < 0.2L);
-  CHECK(std::fabs(coning_order<ConingFourSample, double>(a, lam, horizon, "4 samples a=0.02") - 4) <
+  CHECK(std::fabs(coning_order<Coning4Sample, double>(a, lam, horizon, "4 samples a=0.02") - 4) <
         0.2L);
   const ClassicalConingMotion<L> motion{a, L(1)};
   for (L l : lam) {
@@ -377,7 +377,7 @@ TEST_CASE("at a cone angle of 0.02 rad the second-order form's remainder caps N 
       CHECK(std::fabs(along - 1) < 0.15L * U * U);
       CHECK(std::fabs(across - 1) < 0.15L * U * U);
     }
-    const L e4 = coning_global_error<ConingFourSample, double>(a, l, horizon);
+    const L e4 = coning_global_error<Coning4Sample, double>(a, l, horizon);
     test::report_worst("ideal second-order form / 4-sample error at a=0.02", worst / e4);
     CHECK(std::fabs(worst / e4 - 1) < 0.1L);
   }
@@ -392,7 +392,7 @@ TEST_CASE("float: order 4 above the roundoff floor, then a flat floor", "[coning
   // quite random), and at least 20× the double error (so it is the floor, not truncation).
   const L a = 0.02L, horizon = 20;
   const auto big = step_ladder(0.8L, 4);
-  CHECK(std::fabs(coning_order<ConingTwoSample, float>(a, big, horizon, "float 2 samples") - 4) <
+  CHECK(std::fabs(coning_order<Coning2Sample, float>(a, big, horizon, "float 2 samples") - 4) <
         0.2L);
   const auto small = step_ladder(0.0177L, 4);
   auto floor_check = [&](auto tag, const std::string& what) {
@@ -407,10 +407,10 @@ TEST_CASE("float: order 4 above the roundoff floor, then a flat floor", "[coning
       CHECK(ef > 20 * ed);
     }
   };
-  floor_check(ConingOneSamplePlusPrevious{}, "1+prev");
-  floor_check(ConingTwoSample{}, "2");
-  floor_check(ConingThreeSample{}, "3");
-  floor_check(ConingFourSample{}, "4");
+  floor_check(Coning1SamplePlusPrevious{}, "1+prev");
+  floor_check(Coning2Sample{}, "2");
+  floor_check(Coning3Sample{}, "3");
+  floor_check(Coning4Sample{}, "4");
 }
 
 TEST_CASE("general motion (axisymmetric body): orders 2, 3 and 4 as declared",
@@ -448,12 +448,12 @@ TEST_CASE("general motion (axisymmetric body): orders 2, 3 and 4 as declared",
     test::report_worst(what + " general-motion order", p);
     CHECK(std::fabs(p - L(S::order)) < 0.2L);
   };
-  order_of(ConingOneSample{}, "1 sample");
-  order_of(ConingOneSamplePlusPrevious{}, "1 sample + previous");
-  order_of(ConingTwoSample{}, "2 samples");
-  order_of(ConingThreeSample{}, "3 samples");
-  order_of(ConingThreeSampleOlder{}, "3 samples older");
-  order_of(ConingFourSample{}, "4 samples");
+  order_of(Coning1Sample{}, "1 sample");
+  order_of(Coning1SamplePlusPrevious{}, "1 sample + previous");
+  order_of(Coning2Sample{}, "2 samples");
+  order_of(Coning3Sample{}, "3 samples");
+  order_of(Coning3SampleMiller{}, "3 samples older");
+  order_of(Coning4Sample{}, "4 samples");
 }
 
 TEST_CASE("constant rate: 10^6 coning steps in double stay within 1e-10 rad of the closed form",
@@ -475,39 +475,39 @@ TEST_CASE("constant rate: 10^6 coning steps in double stay within 1e-10 rad of t
     test::report_worst("constant rate 1e6 steps " + what, err);
     CHECK(err < 1e-10L);
   };
-  run(ConingOneSample{}, "1");
-  run(ConingOneSamplePlusPrevious{}, "1+prev");
-  run(ConingTwoSample{}, "2");
-  run(ConingThreeSample{}, "3");
-  run(ConingThreeSampleOlder{}, "3 older");
-  run(ConingFourSample{}, "4");
+  run(Coning1Sample{}, "1");
+  run(Coning1SamplePlusPrevious{}, "1+prev");
+  run(Coning2Sample{}, "2");
+  run(Coning3Sample{}, "3");
+  run(Coning3SampleMiller{}, "3 older");
+  run(Coning4Sample{}, "4");
 }
 
 TEST_CASE("coning steppers declare the stepper contract", "[coning]") {
-  STATIC_REQUIRE(ConingOneSample::layout == SampleLayout::delta_angles);
-  STATIC_REQUIRE(ConingOneSample::window == 1 && ConingOneSample::new_samples == 1);
-  STATIC_REQUIRE(ConingTwoSample::window == 2 && ConingTwoSample::new_samples == 2);
-  STATIC_REQUIRE(ConingThreeSample::window == 3 && ConingFourSample::window == 4);
-  STATIC_REQUIRE(ConingOneSamplePlusPrevious::layout == SampleLayout::delta_angles_with_previous);
-  STATIC_REQUIRE(ConingOneSamplePlusPrevious::window == 2);
-  STATIC_REQUIRE(ConingOneSamplePlusPrevious::new_samples == 1);
-  STATIC_REQUIRE(periods_per_step(ConingFourSample::layout, ConingFourSample::window) == 4);
-  STATIC_REQUIRE(periods_per_step(ConingOneSamplePlusPrevious::layout,
-                                  ConingOneSamplePlusPrevious::window) == 1);
+  STATIC_REQUIRE(Coning1Sample::layout == SampleLayout::delta_angles);
+  STATIC_REQUIRE(Coning1Sample::window == 1 && Coning1Sample::new_samples == 1);
+  STATIC_REQUIRE(Coning2Sample::window == 2 && Coning2Sample::new_samples == 2);
+  STATIC_REQUIRE(Coning3Sample::window == 3 && Coning4Sample::window == 4);
+  STATIC_REQUIRE(Coning1SamplePlusPrevious::layout == SampleLayout::delta_angles_with_previous);
+  STATIC_REQUIRE(Coning1SamplePlusPrevious::window == 2);
+  STATIC_REQUIRE(Coning1SamplePlusPrevious::new_samples == 1);
+  STATIC_REQUIRE(periods_per_step(Coning4Sample::layout, Coning4Sample::window) == 4);
+  STATIC_REQUIRE(periods_per_step(Coning1SamplePlusPrevious::layout,
+                                  Coning1SamplePlusPrevious::window) == 1);
   // General-motion orders (header comment): 2, 3, then 4 for N ≥ 2.
-  STATIC_REQUIRE(ConingOneSample::order == 2);
-  STATIC_REQUIRE(ConingOneSamplePlusPrevious::order == 3);
-  STATIC_REQUIRE(ConingTwoSample::order == 4 && ConingThreeSample::order == 4);
-  STATIC_REQUIRE(ConingFourSample::order == 4);
+  STATIC_REQUIRE(Coning1Sample::order == 2);
+  STATIC_REQUIRE(Coning1SamplePlusPrevious::order == 3);
+  STATIC_REQUIRE(Coning2Sample::order == 4 && Coning3Sample::order == 4);
+  STATIC_REQUIRE(Coning4Sample::order == 4);
   // The rotation vector is a constant expression: 1 + 2 + 2/3·(e_x × e_y) on unit vectors.
   constexpr std::array<Vector3<double>, 2> unit{Vector3<double>{1, 0, 0}, Vector3<double>{0, 1, 0}};
-  constexpr Vector3<double> phi2 = ConingTwoSample::rotation_vector(unit);
+  constexpr Vector3<double> phi2 = Coning2Sample::rotation_vector(unit);
   STATIC_REQUIRE(phi2.x == 1.0 && phi2.y == 1.0 && phi2.z == 2.0 / 3.0);
-  // The step is exactly q ⊗ exp(φ/2) of the rotation vector (float, bit for bit).
+  // The step is exactly q + q ⊗ (exp(φ/2) − 1) of the rotation vector (float, bit for bit).
   const std::array<Vector3<float>, 3> d{Vector3<float>{1e-3f, -2e-3f, 5e-4f},
                                         Vector3<float>{1.2e-3f, -1.5e-3f, 7e-4f},
                                         Vector3<float>{1.1e-3f, -1.1e-3f, 9e-4f}};
   const Quaternion<float> q0{0.8f, 0.36f, 0.48f, 0.0f};
-  CHECK(ConingThreeSample::step(q0, d, 1e-3f) ==
-        q0 * quaternion_exp(ConingThreeSample::rotation_vector(d)));
+  CHECK(Coning3Sample::step(q0, d, 1e-3f) ==
+        apply_increment(q0, quaternion_exp_minus_one(Coning3Sample::rotation_vector(d))));
 }

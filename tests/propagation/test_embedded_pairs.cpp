@@ -40,7 +40,8 @@ L distance(const Quaternion<L>& a, const Quaternion<L>& b) {
 template <class Pair>
 struct LowerMember {
   static constexpr ButcherTableau<Pair::value.stages> value{
-      Pair::value.a, Pair::value.b_embedded, Pair::value.c, {}, Pair::value.embedded_order, 0};
+      Pair::value.a, Pair::value.b_embedded, Pair::value.c, {}, Pair::value.embedded_order, 0,
+      Pair::value.embedded_order};
 };
 using BogackiShampine2 =
     ExplicitRungeKutta<LowerMember<BogackiShampine32Tableau>, SampleLayout::rate_function, 0>;

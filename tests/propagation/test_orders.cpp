@@ -156,22 +156,22 @@ void check_orders() {
 
 TEMPLATE_TEST_CASE("observed orders: exponential map and Magnus", "[order]", float, double) {
   using T = TestType;
-  check_orders<ExpMapHoldEnd, T>();
-  check_orders<ExpMapHoldStart, T>();
-  check_orders<ExpMapMidpointMean, T>();
-  check_orders<ExpMapMidpointSample, T>();
+  check_orders<ExponentialMapHoldEnd, T>();
+  check_orders<ExponentialMapHoldStart, T>();
+  check_orders<ExponentialMapMidpointMean, T>();
+  check_orders<ExponentialMapMidpointSample, T>();
   check_orders<Magnus4, T>();
 }
 
 TEMPLATE_TEST_CASE("observed orders: Runge–Kutta with sampled, interpolated and function input",
                    "[order]", float, double) {
   using T = TestType;
-  check_orders<RungeKutta2Sampled, T>();
-  check_orders<RungeKutta2Interpolated, T>();
-  check_orders<RungeKutta2RateFunction, T>();
-  check_orders<RungeKutta3Sampled, T>();
-  check_orders<RungeKutta3Interpolated, T>();
-  check_orders<RungeKutta3RateFunction, T>();
+  check_orders<RungeKutta2MidpointSampled, T>();
+  check_orders<RungeKutta2MidpointInterpolated, T>();
+  check_orders<RungeKutta2MidpointRateFunction, T>();
+  check_orders<RungeKutta3KuttaSampled, T>();
+  check_orders<RungeKutta3KuttaInterpolated, T>();
+  check_orders<RungeKutta3KuttaRateFunction, T>();
   check_orders<RungeKutta4Sampled, T>();
   check_orders<RungeKutta4Interpolated, T>();
   check_orders<RungeKutta4RateFunction, T>();
@@ -200,10 +200,10 @@ TEST_CASE("observed order: Dormand–Prince 5(4) on the two-gimbal motion, in lo
 TEMPLATE_TEST_CASE("observed orders: coning compensation on delta-angles", "[order]", float,
                    double) {
   using T = TestType;
-  check_orders<ConingOneSample, T>();
-  check_orders<ConingOneSamplePlusPrevious, T>();
-  check_orders<ConingTwoSample, T>();
-  check_orders<ConingThreeSample, T>();
-  check_orders<ConingThreeSampleOlder, T>();
-  check_orders<ConingFourSample, T>();
+  check_orders<Coning1Sample, T>();
+  check_orders<Coning1SamplePlusPrevious, T>();
+  check_orders<Coning2Sample, T>();
+  check_orders<Coning3Sample, T>();
+  check_orders<Coning3SampleMiller, T>();
+  check_orders<Coning4Sample, T>();
 }

@@ -25,14 +25,14 @@ TEMPLATE_TEST_CASE("steps happen when the stepper's window is full", "[propagati
   const Vector3<T> w{T(0.1), T(0.2), T(-0.3)};
   const T dt = T(1e-3);
   {
-    Propagator<T, ExpMapHoldEnd> p(Quaternion<T>::identity(), limits<T>);
+    Propagator<T, ExponentialMapHoldEnd> p(Quaternion<T>::identity(), limits<T>);
     for (int k = 1; k <= 5; ++k) {
       REQUIRE(p.push(w, dt) == Status::ok);
       REQUIRE(p.counters().steps == static_cast<std::uint64_t>(k));
     }
   }
   {
-    Propagator<T, ExpMapMidpointMean> p(Quaternion<T>::identity(), limits<T>);
+    Propagator<T, ExponentialMapMidpointMean> p(Quaternion<T>::identity(), limits<T>);
     REQUIRE(p.push(w, dt) == Status::waiting_for_samples);  // needs the step's start sample
     for (int k = 1; k <= 5; ++k) {
       REQUIRE(p.push(w, dt) == Status::ok);
@@ -92,8 +92,8 @@ TEMPLATE_TEST_CASE("integer ticks: same steps as seconds, elapsed ticks exact", 
                    float, double) {
   using T = TestType;
   const T tick = T(1.0 / 32768.0);  // a 32.768 kHz timer: exact in binary
-  Propagator<T, ExpMapMidpointMean> by_ticks(Quaternion<T>::identity(), limits<T>, tick);
-  Propagator<T, ExpMapMidpointMean> by_seconds(Quaternion<T>::identity(), limits<T>);
+  Propagator<T, ExponentialMapMidpointMean> by_ticks(Quaternion<T>::identity(), limits<T>, tick);
+  Propagator<T, ExponentialMapMidpointMean> by_seconds(Quaternion<T>::identity(), limits<T>);
   test::RandomRotations rng(502);
   for (int n = 0; n < 2000; ++n) {
     const Vector3<T> w = rng.unit_vector<T>();
@@ -114,7 +114,7 @@ TEST_CASE("elapsed seconds keep float resolution over long runs (compensated sum
   // 10^6 steps of 1 ms in float: a naive float running sum is off by tens of milliseconds
   // (common practice, no source: spacing of float at 1000 is 6.1e-5); the compensated sum stays
   // within one float ulp of the exact sum of the float intervals.
-  Propagator<float, ExpMapHoldEnd, NoRenormalization> p(Quaternion<float>::identity(),
+  Propagator<float, ExponentialMapHoldEnd, NoRenormalization> p(Quaternion<float>::identity(),
                                                         limits<float>);
   const float dt = 1e-3f;
   float naive = 0.0f;

@@ -198,27 +198,28 @@ TEST_CASE("stepper facts: layout, window, samples per step and the order stated 
   STATIC_REQUIRE(RungeKutta4Sampled::layout == SampleLayout::rates_spanning);
   STATIC_REQUIRE(RungeKutta4Sampled::window == 3);
   STATIC_REQUIRE(RungeKutta4Sampled::new_samples == 2);
-  STATIC_REQUIRE(RungeKutta2Sampled::order == 2);
-  STATIC_REQUIRE(RungeKutta3Sampled::state_order == 3);
-  STATIC_REQUIRE(RungeKutta3Sampled::order == 4);  // attitude: see explicit_runge_kutta.hpp
+  STATIC_REQUIRE(RungeKutta2MidpointSampled::order == 2);
+  STATIC_REQUIRE(RungeKutta3KuttaSampled::state_order == 3);
+  STATIC_REQUIRE(RungeKutta3KuttaSampled::order == 4);  // attitude: see explicit_runge_kutta.hpp
   STATIC_REQUIRE(RungeKutta4Sampled::order == 4);
   // Two samples, linear interpolation at mid-step: order 2 at most.
   STATIC_REQUIRE(RungeKutta4Interpolated::window == 2);
   STATIC_REQUIRE(RungeKutta4Interpolated::new_samples == 1);
-  STATIC_REQUIRE(RungeKutta2Interpolated::order == 2);
-  STATIC_REQUIRE(RungeKutta3Interpolated::order == 2);
+  STATIC_REQUIRE(RungeKutta2MidpointInterpolated::order == 2);
+  STATIC_REQUIRE(RungeKutta3KuttaInterpolated::order == 2);
   STATIC_REQUIRE(RungeKutta4Interpolated::order == 2);
   // Rate function: full order, no sample window.
   STATIC_REQUIRE(RungeKutta4RateFunction::layout == SampleLayout::rate_function);
   STATIC_REQUIRE(RungeKutta4RateFunction::window == 0);
   STATIC_REQUIRE(RungeKutta4RateFunction::new_samples == 0);
   STATIC_REQUIRE(RungeKutta4RateFunction::order == 4);
-  STATIC_REQUIRE(RungeKutta3RateFunction::state_order == 3);
-  STATIC_REQUIRE(RungeKutta3RateFunction::order == 4);
-  // Flop count of classic RK4 on samples, counted by hand from the code: dt/2 (1); four slopes
-  // q_i ⊗ (0, ω_i) at 20; three stage sums and four weights at 9 each (coefficient × dt/2, 4 ×, 4
-  // +).
-  STATIC_REQUIRE(RungeKutta4Sampled::flops == 1 + 4 * 20 + 7 * 9);
+  STATIC_REQUIRE(RungeKutta3KuttaRateFunction::state_order == 3);
+  STATIC_REQUIRE(RungeKutta3KuttaRateFunction::order == 4);
+  // Flop count of classic RK4 on samples, counted by hand from the code: dt/2 (1); slopes of
+  // stages 2–4 (0, ω_i) + D_i ⊗ (0, ω_i) at 23 (the first stage's slope is free); three stage
+  // increments with one term each at 5 (coefficient × dt/2, 4 ×); δ from four weights at 5 plus
+  // three additions at 4; the plain application q + q ⊗ δ 32.
+  STATIC_REQUIRE(RungeKutta4Sampled::flops == 1 + 3 * 23 + 3 * 5 + 4 * 5 + 3 * 4 + 32);
   // Interpolation adds one mid-step rate ω₀ + ½(ω₁ − ω₀), 9 flops, shared by stages 2 and 3.
   STATIC_REQUIRE(RungeKutta4Interpolated::flops == RungeKutta4Sampled::flops + 9);
 }
@@ -237,8 +238,8 @@ TEST_CASE("a step from a rate function reading the samples equals the step from 
       return tau == 0.0 ? w[0] : (tau == dt ? w[2] : w[1]);
     };
     CHECK(RungeKutta4Sampled::step(q, w, dt) == RungeKutta4RateFunction::step(q, by_sample, dt));
-    CHECK(RungeKutta3Sampled::step(q, w, dt) == RungeKutta3RateFunction::step(q, by_sample, dt));
-    CHECK(RungeKutta2Sampled::step(q, w, dt) == RungeKutta2RateFunction::step(q, by_sample, dt));
+    CHECK(RungeKutta3KuttaSampled::step(q, w, dt) == RungeKutta3KuttaRateFunction::step(q, by_sample, dt));
+    CHECK(RungeKutta2MidpointSampled::step(q, w, dt) == RungeKutta2MidpointRateFunction::step(q, by_sample, dt));
     // Interpolated RK4 forms the mid-step rate ω₀ + ½(ω₁ − ω₀) and then proceeds as with samples.
     const Vector3<double> mid = w[0] + 0.5 * (w[2] - w[0]);
     const std::array<Vector3<double>, 2> ends{w[0], w[2]};
@@ -394,9 +395,9 @@ void check_order_on_coning(L expected_angle_order, L expected_state_order) {
 
 TEMPLATE_TEST_CASE("RK2 midpoint reaches order 2 on coning with every input form",
                    "[runge_kutta][order]", float, double) {
-  check_order_on_coning<RungeKutta2Sampled, TestType>(2, 2);
-  check_order_on_coning<RungeKutta2Interpolated, TestType>(2, 2);
-  check_order_on_coning<RungeKutta2RateFunction, TestType>(2, 2);
+  check_order_on_coning<RungeKutta2MidpointSampled, TestType>(2, 2);
+  check_order_on_coning<RungeKutta2MidpointInterpolated, TestType>(2, 2);
+  check_order_on_coning<RungeKutta2MidpointRateFunction, TestType>(2, 2);
 }
 
 // Kutta's RK3 on q̇ = ½ q ⊗ (0, ω): the quaternion state converges at the classical order 3, but
@@ -410,9 +411,9 @@ TEMPLATE_TEST_CASE(
     "RK3 Kutta: state order 3, attitude order 4 on coning with stage samples or a rate function; "
     "order 2 interpolated",
     "[runge_kutta][order]", float, double) {
-  check_order_on_coning<RungeKutta3Sampled, TestType>(4, 3);
-  check_order_on_coning<RungeKutta3RateFunction, TestType>(4, 3);
-  check_order_on_coning<RungeKutta3Interpolated, TestType>(2, 2);
+  check_order_on_coning<RungeKutta3KuttaSampled, TestType>(4, 3);
+  check_order_on_coning<RungeKutta3KuttaRateFunction, TestType>(4, 3);
+  check_order_on_coning<RungeKutta3KuttaInterpolated, TestType>(2, 2);
 }
 
 TEMPLATE_TEST_CASE(

@@ -3,7 +3,7 @@
 //  - the high-rate β recursion ½ Σ (α_prev + Δθ_prev/6) × Δθ is the standard form (Savage 1998,
 //    from memory); its coning error is derived here by series (ours) and measured;
 //  - ratio 1 is the one-sample-plus-previous algorithm 1/12 Δθ_prev × Δθ (Savage 1998, from
-//    memory), checked against ConingOneSamplePlusPrevious;
+//    memory), checked against Coning1SamplePlusPrevious;
 //  - exactness for constant rate (common practice, no source).
 // Truth: closed forms of classical_coning.hpp, constant_rate.hpp, axisymmetric_body.hpp in long
 // double.
@@ -81,14 +81,14 @@ TEST_CASE("two-speed at ratio 1 is the one-sample-plus-previous algorithm",
     REQUIRE(acc.add(d));
     const Vector3<double> phi_two = acc.take();
     const std::array<Vector3<double>, 2> window{prev, d};
-    const Vector3<double> phi_one = ConingOneSamplePlusPrevious::rotation_vector(window);
+    const Vector3<double> phi_one = Coning1SamplePlusPrevious::rotation_vector(window);
     prev = d;
     // Largest component difference over |φ|, in ε: a rounding or two of the β term (|β| ≪ |φ|)
     // and one of the sum α + β.
     worst_eps =
         std::fmax(worst_eps, test::vector_error_eps(phi_two, phi_one) / test::length_ld(phi_one));
     q_two = two_speed_update(q_two, phi_two);
-    q_one = ConingOneSamplePlusPrevious::step(q_one, window, double(h));
+    q_one = Coning1SamplePlusPrevious::step(q_one, window, double(h));
   }
   test::report_worst("ratio 1 vs one-plus-previous rotation vector [eps relative]", worst_eps);
   CHECK(worst_eps < 0.05L);

@@ -84,7 +84,7 @@ namespace {
 
 using LD = long double;
 using Clock = std::chrono::steady_clock;
-using Stepper = ConingTwoSample;
+using Stepper = Coning2Sample;
 
 constexpr LD two_pi = 6.283185307179586476925286766559005768L;
 

@@ -174,7 +174,7 @@ double constant_rate_error(long steps) {
 // Tolerances in units of steps·ε (the worst case of Higham's rounding model, errors of every step
 // adding up): a step that repeats the same rotation repeats the same rounding, so the error grows
 // linearly with the number of steps, not as a random walk (measured on the host over 10^3..10^5
-// float steps: hold_end 0.018–0.065, magnus4 and coning2 0.072–0.17 steps·ε, linear from 10^4
+// float steps: hold_end 0.018–0.065, magnus_4 and coning2 0.072–0.17 steps·ε, linear from 10^4
 // on). At the step counts used here the host and both cores print the same values: float
 // 0.0182 / 0.0754 / 0.0758, double 0.0556 / 0.0257 / 0.0257. Limits: the largest times about 3
 // (the host tests' policy): float 0.25, double 0.2 steps·ε.
@@ -183,14 +183,14 @@ void constant_rate_is_exact() {
   const long nf = 10000, nd = 1000;
   const double sf = epsilon_of<float>() * static_cast<double>(nf);
   const double sd = epsilon_of<double>() * static_cast<double>(nd);
-  const double f_hold = constant_rate_error<float, ExpMapHoldEnd>(nf) / sf;
+  const double f_hold = constant_rate_error<float, ExponentialMapHoldEnd>(nf) / sf;
   const double f_magnus = constant_rate_error<float, Magnus4>(nf) / sf;
-  const double f_coning = constant_rate_error<float, ConingTwoSample>(nf) / sf;
-  const double d_hold = constant_rate_error<double, ExpMapHoldEnd>(nd) / sd;
+  const double f_coning = constant_rate_error<float, Coning2Sample>(nf) / sf;
+  const double d_hold = constant_rate_error<double, ExponentialMapHoldEnd>(nd) / sd;
   const double d_magnus = constant_rate_error<double, Magnus4>(nd) / sd;
-  const double d_coning = constant_rate_error<double, ConingTwoSample>(nd) / sd;
-  std::printf("constant rate [error/(steps*eps)]: float 1e4 steps hold_end %.4f magnus4 %.4f "
-              "coning2 %.4f (limit 0.25); double 1e3 steps hold_end %.4f magnus4 %.4f coning2 "
+  const double d_coning = constant_rate_error<double, Coning2Sample>(nd) / sd;
+  std::printf("constant rate [error/(steps*eps)]: float 1e4 steps hold_end %.4f magnus_4 %.4f "
+              "coning2 %.4f (limit 0.25); double 1e3 steps hold_end %.4f magnus_4 %.4f coning2 "
               "%.4f (limit 0.2)\n",
               f_hold, f_magnus, f_coning, d_hold, d_magnus, d_coning);
   HALFSPIN_CHECK(f_hold <= 0.25);
@@ -275,9 +275,9 @@ void orders_on_classical_coning() {
   // Orders: Iserles and Nørsett 1999 / Blanes et al. 2009 (Magnus 4), Ignagni 1990 and Savage
   // 1998 (two-sample coning, fourth order for general motion); the mean of the two end rates held
   // over the step is second order (the trapezoid rule; common practice, no source).
-  order_on_coning<ExpMapMidpointMean>("expmap_midpoint_mean", 2, 4, 8, 4, 10);
-  order_on_coning<Magnus4>("magnus4", 4, 4, 6, 4, 9);
-  order_on_coning<ConingTwoSample>("coning_2_sample", 4, 3, 5, 3, 8);
+  order_on_coning<ExponentialMapMidpointMean>("exponential_map_midpoint_mean", 2, 4, 8, 4, 10);
+  order_on_coning<Magnus4>("magnus_4", 4, 4, 6, 4, 9);
+  order_on_coning<Coning2Sample>("coning_2_sample", 4, 3, 5, 3, 8);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -417,14 +417,14 @@ void bad_input_is_rejected() {
   // The propagator's contract (DESIGN.md, "Bad input never corrupts state").
   RejectionTally f, d;
   check_all_classes<float, Magnus4>(f, 1.0f);               // rates, window of 3
-  check_all_classes<float, ConingTwoSample>(f, 1e-3f);      // delta-angles, window of 2
-  check_all_classes<float, ExpMapHoldEnd>(f, 1.0f);         // rates, window of 1
+  check_all_classes<float, Coning2Sample>(f, 1e-3f);      // delta-angles, window of 2
+  check_all_classes<float, ExponentialMapHoldEnd>(f, 1.0f);         // rates, window of 1
   check_all_classes<double, Magnus4>(d, 1.0);
-  check_all_classes<double, ConingTwoSample>(d, 1e-3);
+  check_all_classes<double, Coning2Sample>(d, 1e-3);
   const bool gaps = gap_restarts_history<float, Magnus4>(1.0f) &&
-                    gap_restarts_history<float, ConingTwoSample>(1e-3f) &&
+                    gap_restarts_history<float, Coning2Sample>(1e-3f) &&
                     gap_restarts_history<double, Magnus4>(1.0) &&
-                    gap_restarts_history<double, ConingTwoSample>(1e-3);
+                    gap_restarts_history<double, Coning2Sample>(1e-3);
   HALFSPIN_CHECK(gaps);
   std::printf("bad input: float %d/%d and double %d/%d offers rejected with the right status, "
               "attitude bit-identical, one counter moved; gap restarts the window: %s\n",

@@ -1,10 +1,12 @@
 #pragma once
-// The desktop tools' catalogue of halfspin steppers: every stepper of the library by its `name`,
-// with one line of description, and a way to run code for a stepper chosen at run time.
+// The desktop tools' view of the library's one stepper catalogue (stepper_catalogue.hpp): every
+// stepper by its `name`, with its one line of description, and a way to run code for a stepper
+// chosen at run time.
 //
 //   for_each_method(f)        calls f(MethodTag<Stepper>{}) for every stepper, in catalogue order
-//   visit_method(name, f)     calls f(MethodTag<Stepper>{}) for the stepper called `name`;
-//                             returns false (and calls nothing) if there is none
+//   visit_method(name, f)     calls f(MethodTag<Stepper>{}) for the stepper called `name` (or by
+//                             a documented alias, method_aliases); returns false (and calls
+//                             nothing) if there is none
 //   method_catalogue()        name, description and static facts of every stepper
 //
 // Tool code (not part of the installed library): it may use the standard library freely.
@@ -21,6 +23,7 @@
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/lie_group_runge_kutta.hpp"
 #include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin::tools {
@@ -30,48 +33,61 @@ struct MethodTag {
   using type = Stepper;
 };
 
-// Every stepper, in the order the tools list them: exponential-map family, Magnus, coning
-// algorithms, Runge–Kutta, embedded pairs, Lie-group Runge–Kutta.
-using AllMethods =
-    std::tuple<ExpMapHoldEnd, ExpMapHoldStart, ExpMapMidpointMean, ExpMapMidpointSample, Magnus4,
-               ConingOneSample, ConingTwoSample, ConingThreeSample, ConingThreeSampleOlder,
-               ConingFourSample, ConingOneSamplePlusPrevious, RungeKutta2Sampled,
-               RungeKutta2Interpolated, RungeKutta2RateFunction, RungeKutta3Sampled,
-               RungeKutta3Interpolated, RungeKutta3RateFunction, RungeKutta4Sampled,
-               RungeKutta4Interpolated, RungeKutta4RateFunction, BogackiShampine32RateFunction,
-               DormandPrince54RateFunction, MuntheKaas4Sampled, MuntheKaas4Interpolated,
-               MuntheKaas4RateFunction>;
+namespace detail {
+template <class List>
+struct AsTuple;
+template <class... S>
+struct AsTuple<TypeList<S...>> {
+  using type = std::tuple<S...>;
+};
+}  // namespace detail
 
-inline constexpr std::size_t method_count = std::tuple_size<AllMethods>::value;
+// Every stepper, in the library catalogue's order (include/halfspin/propagation/stepper_catalogue.hpp).
+using AllMethods = detail::AsTuple<StepperCatalogue::steppers>::type;
+
+inline constexpr std::size_t method_count = StepperCatalogue::size;
 
 // One line per stepper (what it does, what it takes); same order as AllMethods.
-inline constexpr std::array<const char*, method_count> method_descriptions{{
-    "exp map of the rate at the step's end held over the step; 1 rate/step, order 1",
-    "exp map of the rate at the step's start held over the step; 1 rate/step, order 1",
-    "exp map of the mean of the two end rates (trapezoid); 1 rate/step, order 2",
-    "exp map of the mid-step rate sample; 2 rates/step, order 2",
-    "4th-order Magnus: Simpson rotation vector plus commutator term; 2 rates/step, order 4",
-    "delta-angle exp map, no coning term; 1 delta-angle/step, order 2",
-    "two-sample coning compensation; 2 delta-angles/step, order 4",
-    "three-sample coning compensation; 3 delta-angles/step, order 4",
-    "three-sample coning, older coefficient set; 3 delta-angles/step, order 4",
-    "four-sample coning compensation; 4 delta-angles/step, order 4",
-    "one sample plus the previous one (cross-step coning term); 1 delta-angle/step, order 3",
-    "classic RK2 (midpoint) on the quaternion, stages at samples; 2 rates/step, order 2",
-    "RK2 (midpoint), mid-step rate interpolated linearly; 1 rate/step, order 2",
-    "RK2 (midpoint) on a rate function (truth motions only)",
-    "Kutta's RK3, stages at samples; 2 rates/step, attitude order 4",
-    "Kutta's RK3, stage rates interpolated linearly; 1 rate/step, order 2",
-    "Kutta's RK3 on a rate function (truth motions only); attitude order 4",
-    "classic RK4, stages at samples; 2 rates/step, order 4",
-    "classic RK4, stage rates interpolated linearly; 1 rate/step, order 2",
-    "classic RK4 on a rate function (truth motions only); order 4",
-    "Bogacki-Shampine 3(2) pair on a rate function (truth motions only); order 3, estimate",
-    "Dormand-Prince 5(4) pair on a rate function (truth motions only); order 5, estimate",
-    "Munthe-Kaas RK4 on the rotation vector, stages at samples; 2 rates/step, order 4",
-    "Munthe-Kaas RK4, stage rates interpolated linearly; 1 rate/step, order 2",
-    "Munthe-Kaas RK4 on a rate function (truth motions only); order 4",
+inline constexpr std::array<const char*, method_count> method_descriptions = StepperCatalogue::descriptions;
+
+// The run-time names of the previous release, accepted for one release as documented aliases of
+// the catalogue's names (README "Desktop tools"). Each maps to exactly one catalogued name.
+struct MethodAlias {
+  const char* old_name;
+  const char* name;
+};
+inline constexpr std::array<MethodAlias, 20> method_aliases{{
+    {"expmap_hold_end", "exponential_map_hold_end"},
+    {"expmap_hold_start", "exponential_map_hold_start"},
+    {"expmap_midpoint_mean", "exponential_map_midpoint_mean"},
+    {"expmap_midpoint_sample", "exponential_map_midpoint_sample"},
+    {"magnus4", "magnus_4"},
+    {"coning_3_sample_older", "coning_3_sample_miller"},
+    {"rk2_midpoint_sampled", "runge_kutta_2_midpoint_sampled"},
+    {"rk2_midpoint_interpolated", "runge_kutta_2_midpoint_interpolated"},
+    {"rk2_midpoint_rate_function", "runge_kutta_2_midpoint_rate_function"},
+    {"rk3_kutta_sampled", "runge_kutta_3_kutta_sampled"},
+    {"rk3_kutta_interpolated", "runge_kutta_3_kutta_interpolated"},
+    {"rk3_kutta_rate_function", "runge_kutta_3_kutta_rate_function"},
+    {"rk4_sampled", "runge_kutta_4_sampled"},
+    {"rk4_interpolated", "runge_kutta_4_interpolated"},
+    {"rk4_rate_function", "runge_kutta_4_rate_function"},
+    {"rkmk4_sampled", "munthe_kaas_4_sampled"},
+    {"rkmk4_interpolated", "munthe_kaas_4_interpolated"},
+    {"rkmk4_rate_function", "munthe_kaas_4_rate_function"},
+    {"rk2_sampled", "runge_kutta_2_midpoint_sampled"},
+    {"rk3_sampled", "runge_kutta_3_kutta_sampled"},
 }};
+
+// The catalogue name for `name`: itself if catalogued, the new name of an alias, else `name`.
+inline std::string_view canonical_method_name(std::string_view name) noexcept {
+  for (const MethodAlias& a : method_aliases) {
+    if (name == std::string_view(a.old_name)) {
+      return a.name;
+    }
+  }
+  return name;
+}
 
 // The static facts of a stepper the tools print and select on.
 struct MethodInfo {
@@ -91,17 +107,14 @@ using RateFunctionPointer = Vector3<double> (*)(double);
 
 template <class Stepper>
 constexpr bool method_has_estimate() noexcept {
-  if constexpr (Stepper::layout == SampleLayout::rate_function) {
-    return has_rate_function_error_estimate<Stepper, double, RateFunctionPointer>::value;
-  } else {
-    return has_error_estimate<Stepper, double>::value;
-  }
+  return Stepper::has_estimate;
 }
 
 template <class Stepper>
 constexpr MethodInfo method_info(std::size_t index) noexcept {
+  static_cast<void>(index);
   return {Stepper::name,
-          method_descriptions[index],
+          Stepper::description,
           Stepper::layout,
           Stepper::window,
           Stepper::layout == SampleLayout::rate_function
@@ -131,8 +144,10 @@ void for_each_method(F&& f) {
   std::apply([&f](auto... s) { (f(MethodTag<decltype(s)>{}), ...); }, AllMethods{});
 }
 
+// Calls f(MethodTag<Stepper>{}) for the stepper called `name` or by one of its documented aliases.
 template <class F>
-bool visit_method(std::string_view name, F&& f) {
+bool visit_method(std::string_view requested, F&& f) {
+  const std::string_view name = canonical_method_name(requested);
   bool found = false;
   for_each_method([&](auto tag) {
     using S = typename decltype(tag)::type;

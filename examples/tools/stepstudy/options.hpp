@@ -12,8 +12,8 @@
 namespace halfspin::tools::stepstudy {
 
 inline constexpr std::array<const char*, 8> default_methods{
-    "expmap_midpoint_mean", "magnus4",        "coning_1_sample",  "coning_2_sample",
-    "coning_3_sample",      "rk4_sampled",    "rkmk4_sampled",    "dormand_prince_54_rate_function"};
+    "exponential_map_midpoint_mean", "magnus_4",        "coning_1_sample",  "coning_2_sample",
+    "coning_3_sample",      "runge_kutta_4_sampled",    "munthe_kaas_4_sampled",    "dormand_prince_54_rate_function"};
 
 // Grouped by meaning, not packed: read once from the command line.
 struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
@@ -72,9 +72,9 @@ inline const char* help_text() {
       "                       no timing) and rate-function steppers are left out.\n"
       "\n"
       "Sweep:\n"
-      "  --methods LIST       comma-separated stepper names, or 'all' (default: expmap_midpoint_mean,\n"
-      "                       magnus4, coning_1_sample, coning_2_sample, coning_3_sample, rk4_sampled,\n"
-      "                       rkmk4_sampled, dormand_prince_54_rate_function); --methods list prints\n"
+      "  --methods LIST       comma-separated stepper names, or 'all' (default: exponential_map_midpoint_mean,\n"
+      "                       magnus_4, coning_1_sample, coning_2_sample, coning_3_sample, runge_kutta_4_sampled,\n"
+      "                       munthe_kaas_4_sampled, dormand_prince_54_rate_function); --methods list prints\n"
       "                       every stepper with its order and cost\n"
       "  --step-min S         smallest step (s): the attitude update interval; a step spans the\n"
       "                       method's gyro periods per step (default: per motion, e.g. 1e-4 demo)\n"

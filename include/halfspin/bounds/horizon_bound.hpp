@@ -34,23 +34,6 @@
 
 namespace halfspin {
 
-// Primary template undefined: a stepper without a bound does not compile where a bound is
-// required (see the shared interface in the bounds headers of each stepper family).
-template <class Stepper>
-struct LocalErrorBound;
-
-// Whether LocalErrorBound<Stepper> is specialized with a `local` for scalar T. This header
-// includes every bound header of the library, so the answer is the same in every translation unit
-// for the library's steppers; a user's own stepper must have its bound declared before this
-// header is included.
-template <class Stepper, class T, class = void>
-struct has_local_error_bound : std::false_type {};
-template <class Stepper, class T>
-struct has_local_error_bound<
-    Stepper, T,
-    std::void_t<decltype(LocalErrorBound<Stepper>::template local<T>(
-        std::declval<const RateEnvelope<T>&>(), std::declval<T>()))>> : std::true_type {};
-
 // Steps (≥ 1) of length dt (s) that cover horizon_s (s): ceil(horizon/dt).
 template <class T>
 std::int64_t steps_for_horizon(T dt, T horizon_s) noexcept {
@@ -101,7 +84,7 @@ T truncation_bound_linear(const MotionDescription<T>& description, T dt, std::in
 
 // Extra error (rad) of the propagator's first step (exact under pure coning). A stepper that uses
 // the previous step's last
-// delta-angle (ConingOneSamplePlusPrevious) starts from a zero previous sample (propagator.hpp),
+// delta-angle (Coning1SamplePlusPrevious) starts from a zero previous sample (propagator.hpp),
 // so its first step lacks the correction c·Δθ_prev × Δθ with c = 1/12. Since
 // Δθ_prev × Δθ = Δθ_prev × (Δθ − Δθ_prev) and |Δθ − Δθ_prev| ≤ D1·dt² (each is ∫ω over dt, the two
 // a step apart), |c·Δθ_prev × Δθ| ≤ c·D0·dt·min(D0·dt, D1·dt²). Every other stepper's first step is

@@ -4,7 +4,7 @@
 //
 // LocalErrorBound<S>::local(e, h) (rad) bounds the angle between the attitude the stepper returns
 // and the exact one after ONE step of length h (s) started from the exact attitude, for every rate
-// whose derivatives obey e on the step (for ConingOneSamplePlusPrevious also on the previous
+// whose derivatives obey e on the step (for Coning1SamplePlusPrevious also on the previous
 // sample period, which its estimate reads). It is +∞ when a needed D_k is +∞, when D0·h > 1 rad,
 // or when the bound itself reaches 2 rad (outside the range of the derivation below).
 //
@@ -81,16 +81,11 @@
 #include <cstdint>
 #include <limits>
 
+#include "halfspin/bounds/local_error_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
-#include "halfspin/propagation/coning_compensation.hpp"
-#include "halfspin/propagation/exponential_map_step.hpp"
-#include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/rotation_vector_family.hpp"
 
 namespace halfspin {
-
-// Primary template undefined: a stepper without a bound does not compile in bound code.
-template <class Stepper>
-struct LocalErrorBound;
 
 namespace detail {
 namespace magnus_bounds {
@@ -131,98 +126,13 @@ constexpr T exp_upper(T y) noexcept {
   return T(1) + y * (T(1) + y * (T(0.5) + y * T(1.0L / 6))) + y * y * y * y / (T(24) * (T(1) - y / T(5)));
 }
 
-// An exact rational (int64), so that the coefficient mismatches of section 4 are exactly 0 for
-// a consistent or symmetric method in every scalar type (in float, rounded weights such as 27/40
-// would leave an ε-sized κ_p mismatch whose ε·h³ term swamps the h⁵ bound at small steps).
-struct Rational {
-  std::int64_t num;
-  std::int64_t den;  // > 0
-};
-constexpr std::int64_t greatest_common_divisor(std::int64_t a, std::int64_t b) noexcept {
-  a = a < 0 ? -a : a;
-  b = b < 0 ? -b : b;
-  while (b != 0) {
-    const std::int64_t r = a % b;
-    a = b;
-    b = r;
-  }
-  return a == 0 ? 1 : a;
-}
-constexpr Rational reduced(std::int64_t num, std::int64_t den) noexcept {
-  const std::int64_t g = greatest_common_divisor(num, den);
-  return den < 0 ? Rational{-num / g, -den / g} : Rational{num / g, den / g};
-}
-constexpr Rational operator+(Rational a, Rational b) noexcept {
-  const std::int64_t g = greatest_common_divisor(a.den, b.den);
-  return reduced(a.num * (b.den / g) + b.num * (a.den / g), (a.den / g) * b.den);
-}
-constexpr Rational operator-(Rational a, Rational b) noexcept { return a + Rational{-b.num, b.den}; }
-constexpr Rational operator*(Rational a, Rational b) noexcept {
-  const Rational x = reduced(a.num, b.den);
-  const Rational y = reduced(b.num, a.den);
-  return reduced(x.num * y.num, x.den * y.den);
-}
-template <class T>
-constexpr T to_scalar(Rational r) noexcept {
-  return static_cast<T>(r.num) / static_cast<T>(r.den);
-}
-
-// Moments of one linear functional ℓ of ω, in units where the step is [−½, ½] (τ = t/h − ½):
-// mu[j] = ℓ(τʲ/j!), j = 0..3, exact, and absolute moments abs[j] = ℓ(|τ|ʲ/j!), j = 0..4.
-template <class T>
-struct SampleMoments {
-  std::array<Rational, 4> mu{};
-  std::array<T, 5> abs{};
-};
-
-// ℓ(ω) = ∫_a^b ω dτ (a delta-angle over [a, b], dimensionless).
-template <class T>
-constexpr SampleMoments<T> interval_moments(Rational a, Rational b) noexcept {
-  SampleMoments<T> s{};
-  Rational pa{1, 1}, pb{1, 1};
-  std::int64_t factorial = 1;
-  const T at = to_scalar<T>(a), bt = to_scalar<T>(b);
-  for (int j = 0; j < 5; ++j) {
-    factorial *= j + 1;  // (j+1)!
-    pa = pa * a;         // a^(j+1)
-    pb = pb * b;
-    if (j < 4) {
-      s.mu[static_cast<std::size_t>(j)] = (pb - pa) * Rational{1, factorial};
-    }
-    // ∫|τ|ʲ dτ = S(b) − S(a), S(x) = sign(x)|x|^(j+1)/(j+1).
-    const T ab = absolute(to_scalar<T>(pb)), aa = absolute(to_scalar<T>(pa));
-    const T sb = bt < T(0) ? -ab : ab;
-    const T sa = at < T(0) ? -aa : aa;
-    s.abs[static_cast<std::size_t>(j)] = (sb - sa) / static_cast<T>(factorial);
-  }
-  return s;
-}
-
-// ℓ(ω) = ω(τ) (a rate sample at dimensionless time τ).
-template <class T>
-constexpr SampleMoments<T> point_moments(Rational tau) noexcept {
-  SampleMoments<T> s{};
-  Rational p{1, 1};
-  std::int64_t factorial = 1;
-  for (int j = 0; j < 5; ++j) {
-    if (j > 0) {
-      factorial *= j;
-      p = p * tau;
-    }
-    const Rational m = p * Rational{1, factorial};
-    if (j < 4) {
-      s.mu[static_cast<std::size_t>(j)] = m;
-    }
-    s.abs[static_cast<std::size_t>(j)] = absolute(to_scalar<T>(m));
-  }
-  return s;
-}
-
-struct WeightedPair {
-  std::size_t first;
-  std::size_t second;
-  Rational weight;  // dimensionless: β̂ ∋ weight·ℓ_first × ℓ_second (rate samples: weight·h²)
-};
+using detail::interval_moments;
+using detail::point_moments;
+using detail::Rational;
+using detail::reduced;
+using detail::SampleMoments;
+using detail::to_scalar;
+using detail::WeightedPair;
 
 // |β̂ − β| bound (rad) of section 4 for the scheme's samples and pairs, step h (s); tier 3 is
 // the expansion through o (D0..D4), tier 2 the one stopped at p (D0..D2).
@@ -346,180 +256,121 @@ constexpr T finish(const RateEnvelope<T>& e, T h, T sum) noexcept {
   return sum;
 }
 
-// Samples of an N-delta-angle step (dimensionless intervals of 1/N tiling [−½, ½]), plus, with
-// `previous`, the previous interval in front at index 0 (the step is then one period).
-template <class T, std::size_t N, bool previous>
-constexpr std::array<SampleMoments<T>, N + (previous ? 1 : 0)> delta_angle_samples() noexcept {
-  std::array<SampleMoments<T>, N + (previous ? 1 : 0)> s{};
-  const std::size_t offset = previous ? 1 : 0;
-  if (previous) {
-    s[0] = interval_moments<T>(Rational{-3, 2}, Rational{-1, 2});
+// ∫₀¹|K₀(t)|dt for a rate rule's quadrature on [0, 1], K₀(t) = (1 − t) − Σ_{x_i ≥ t} w_i the
+// degree-0 Peano kernel: |α̂ − α| ≤ ∫|K₀|·h²·D1 for any rule (vector ω: the kernel integral form
+// holds componentwise in the direction of the error). Exact: K₀ is linear between the nodes.
+template <std::size_t W>
+constexpr Rational peano_zero(const RotationVectorRule<W>& r) noexcept {
+  std::array<Rational, W + 2> cut{};
+  std::array<Rational, W> node{};
+  for (std::size_t i = 0; i < W; ++i) {
+    node[i] = r.layout == SampleLayout::rate_at_end
+                  ? Rational{1, 1}
+                  : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
   }
-  const std::int64_t n = static_cast<std::int64_t>(N);
-  for (std::size_t i = 0; i < N; ++i) {
-    const std::int64_t k = static_cast<std::int64_t>(i);
-    // [i/N − ½, (i+1)/N − ½] = [(2i − N)/(2N), (2i + 2 − N)/(2N)]
-    s[i + offset] = interval_moments<T>(reduced(2 * k - n, 2 * n), reduced(2 * k + 2 - n, 2 * n));
+  cut[0] = Rational{0, 1};
+  for (std::size_t i = 0; i < W; ++i) {
+    cut[i + 1] = node[i];
   }
-  return s;
-}
-
-// Pairs of a coefficient set: every i < j with weight numerators[j − i − 1]/denominator.
-template <std::size_t W, std::size_t S>
-constexpr std::array<WeightedPair, (S == 0 ? 0 : S * W - S * (S + 1) / 2)> coning_pairs(
-    const ConingCoefficientSet<S>& set) noexcept {
-  std::array<WeightedPair, (S == 0 ? 0 : S * W - S * (S + 1) / 2)> p{};
-  std::size_t n = 0;
-  for (std::size_t m = 1; m <= S; ++m) {
-    for (std::size_t i = 0; i + m < W; ++i) {
-      p[n] = WeightedPair{i, i + m, reduced(set.numerators[m - 1], set.denominator)};
-      ++n;
+  cut[W + 1] = Rational{1, 1};
+  Rational total{0, 1};
+  for (std::size_t k = 0; k + 1 < W + 2; ++k) {
+    const Rational a = cut[k];
+    const Rational b = cut[k + 1];
+    if ((b - a).num <= 0) {
+      continue;
+    }
+    Rational held{0, 1};  // Σ w_i over nodes ≥ b
+    for (std::size_t i = 0; i < W; ++i) {
+      if ((node[i] - b).num >= 0) {
+        held = held + reduced(r.quadrature[i], r.quadrature_denominator);
+      }
+    }
+    const Rational c = Rational{1, 1} - held;  // K₀(t) = c − t on (a, b]
+    const Rational ca = c - a;
+    const Rational cb = c - b;
+    const Rational half{1, 2};
+    if (ca.num <= 0) {  // c ≤ a: K₀ < 0 on the piece
+      total = total + half * (cb * cb - ca * ca);
+    } else if (cb.num >= 0) {  // c ≥ b: K₀ ≥ 0
+      total = total + half * (ca * ca - cb * cb);
+    } else {
+      total = total + half * (ca * ca + cb * cb);
     }
   }
-  return p;
+  return total;
 }
 
-// Bound for an N-delta-angle coning step of length h (s) with coefficient set `set`.
-template <class T, std::size_t N, std::size_t S>
-constexpr T multi_sample_coning(const RateEnvelope<T>& given, T h, const ConingCoefficientSet<S>& set) noexcept {
+// |E(x^(d+1))|/(d+1)! for the rule's degree d: the integral of its degree-d Peano kernel, which
+// is ∫|K_d| when K_d keeps one sign (true of every rate rule of the family; the tests check the
+// sign on a dense grid): |α̂ − α| ≤ that·h^(d+2)·D_(d+1).
+template <std::size_t W>
+constexpr Rational peano_top(const RotationVectorRule<W>& r, int d) noexcept {
+  Rational sum{0, 1};
+  for (std::size_t i = 0; i < W; ++i) {
+    const Rational x = r.layout == SampleLayout::rate_at_end
+                           ? Rational{1, 1}
+                           : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
+    Rational xk{1, 1};
+    for (int j = 0; j <= d; ++j) {
+      xk = xk * x;
+    }
+    sum = sum + reduced(r.quadrature[i], r.quadrature_denominator) * xk;
+  }
+  Rational e = Rational{1, d + 2} - sum;
+  std::int64_t factorial = 1;
+  for (int j = 2; j <= d + 1; ++j) {
+    factorial *= j;
+  }
+  e = e * Rational{1, factorial};
+  return e.num < 0 ? Rational{-e.num, e.den} : e;
+}
+
+// |α̂ − α| bound (rad) of a rate rule (section 2 with its constants derived from the weights):
+// the smaller of the degree-0 and degree-d Peano forms; 0 for delta-angles (α exact).
+template <class T, std::size_t W>
+constexpr T quadrature_error(const RotationVectorRule<W>& r, const RateEnvelope<T>& e, T h) noexcept {
+  if (!detail::carries_rates(r.layout)) {
+    return T(0);
+  }
+  const int d = detail::quadrature_degree(r);
+  const T zero_form = product(to_scalar<T>(peano_zero(r)) * h * h, e[1]);
+  if (d < 1 || d > 4) {
+    return zero_form;
+  }
+  T hp = h * h;
+  for (int j = 0; j < d; ++j) {
+    hp *= h;
+  }
+  const T top_form = product(to_scalar<T>(peano_top(r, d)) * hp, e[static_cast<std::size_t>(d + 1)]);
+  return smaller(zero_form, top_form);
+}
+
+// The bound of one step of a member of the family: quadrature, commutator and remainder.
+template <class T, std::size_t W>
+constexpr T rotation_vector_step(const RotationVectorRule<W>& r, const RateEnvelope<T>& given,
+                                 T h) noexcept {
   const RateEnvelope<T> e = implied(given);
-  const T beta = coning_term_error(delta_angle_samples<T, N, false>(), coning_pairs<N>(set), e, h);
-  return finish(e, h, beta + bortz_remainder(e, h));
+  const T beta = detail::has_commutator(r)
+                     ? coning_term_error(detail::rule_sample_moments<T>(r), detail::rule_pairs(r), e, h)
+                     : dropped_coning_term(e, h);
+  return finish(e, h, quadrature_error(r, e, h) + beta + bortz_remainder(e, h));
 }
 
 }  // namespace magnus_bounds
 }  // namespace detail
 
-// q ⊗ exp(ω_end·h/2): rectangle rule h²/2·D1 + dropped |β| + |R|; h = one sample period (s).
-template <>
-struct LocalErrorBound<ExpMapHoldEnd> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    return mb::finish(e, h, mb::product(h * h / T(2), e[1]) + mb::dropped_coning_term(e, h) +
-                                mb::bortz_remainder(e, h));
-  }
-};
-
-// q ⊗ exp(ω_start·h/2): the same rectangle-rule bound as the end sample; h = one period (s).
-template <>
-struct LocalErrorBound<ExpMapHoldStart> {
+// The one bound of the family: every exponential-map, Magnus and coning stepper, with the
+// constants of sections 2 and 4 computed from its RotationVectorRule; h is the stepper's step
+// (s): one sample period for the one-sample rules, two for the mid-sample and Magnus rules, N for
+// N delta-angles. For Coning1SamplePlusPrevious the envelope must also hold over the previous
+// sample period, which its estimate reads.
+template <class Rule>
+struct FamilyLocalErrorBound<RotationVectorStepper<Rule>> {
   // Local angle error bound (rad) for envelope e and step h (s).
   template <class T>
   static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
-    return LocalErrorBound<ExpMapHoldEnd>::local(e, h);
-  }
-};
-
-// Trapezoid: min(h³/12·D2, h²/3·D1) + dropped |β| + |R|; h = one sample period (s).
-template <>
-struct LocalErrorBound<ExpMapMidpointMean> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    const T quadrature = mb::smaller(mb::product(h * h * h / T(12), e[2]), mb::product(h * h / T(3), e[1]));
-    return mb::finish(e, h, quadrature + mb::dropped_coning_term(e, h) + mb::bortz_remainder(e, h));
-  }
-};
-
-// Midpoint rule: min(h³/24·D2, h²/4·D1) + dropped |β| + |R|; h = two sample periods (s).
-template <>
-struct LocalErrorBound<ExpMapMidpointSample> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    const T quadrature = mb::smaller(mb::product(h * h * h / T(24), e[2]), mb::product(h * h / T(4), e[1]));
-    return mb::finish(e, h, quadrature + mb::dropped_coning_term(e, h) + mb::bortz_remainder(e, h));
-  }
-};
-
-// Simpson h⁵/2880·D4 + commutator error of h²/12·ω0×ω2 (section 4) + |R|; h = two periods (s).
-template <>
-struct LocalErrorBound<Magnus4> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    const std::array<mb::SampleMoments<T>, 2> samples{mb::point_moments<T>(mb::Rational{-1, 2}),
-                                                     mb::point_moments<T>(mb::Rational{1, 2})};
-    const std::array<mb::WeightedPair, 1> pairs{mb::WeightedPair{0, 1, mb::Rational{1, 12}}};
-    const T h5 = h * h * h * h * h;
-    return mb::finish(e, h, mb::product(h5 / T(2880), e[4]) + mb::coning_term_error(samples, pairs, e, h) +
-                                mb::bortz_remainder(e, h));
-  }
-};
-
-// φ = Δθ: dropped |β| + |R| (α is exact); h = one sample period (s).
-template <>
-struct LocalErrorBound<ConingOneSample> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    return mb::finish(e, h, mb::dropped_coning_term(e, h) + mb::bortz_remainder(e, h));
-  }
-};
-
-// φ = Δθ + 1/12·Δθ_prev×Δθ; h = one sample period (s); e must hold over [−h, h] (previous period).
-template <>
-struct LocalErrorBound<ConingOneSamplePlusPrevious> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& given, T h) noexcept {
-    namespace mb = detail::magnus_bounds;
-    const RateEnvelope<T> e = mb::implied(given);
-    const T beta = mb::coning_term_error(mb::delta_angle_samples<T, 1, true>(),
-                                         mb::coning_pairs<2>(coning_coefficients::one_sample_plus_previous),
-                                         e, h);
-    return mb::finish(e, h, beta + mb::bortz_remainder(e, h));
-  }
-};
-
-// Two delta-angles, 2/3·Δθ1×Δθ2; h = two sample periods (s).
-template <>
-struct LocalErrorBound<ConingTwoSample> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
-    return detail::magnus_bounds::multi_sample_coning<T, 2>(e, h, coning_coefficients::two_sample);
-  }
-};
-
-// Three delta-angles, weights 27/40, 9/20; h = three sample periods (s).
-template <>
-struct LocalErrorBound<ConingThreeSample> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
-    return detail::magnus_bounds::multi_sample_coning<T, 3>(e, h, coning_coefficients::three_sample);
-  }
-};
-
-// Three delta-angles, older weights 57/80, 33/80; h = three sample periods (s).
-template <>
-struct LocalErrorBound<ConingThreeSampleOlder> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
-    return detail::magnus_bounds::multi_sample_coning<T, 3>(e, h, coning_coefficients::three_sample_older);
-  }
-};
-
-// Four delta-angles, weights 214/315, 46/105, 18/35; h = four sample periods (s).
-template <>
-struct LocalErrorBound<ConingFourSample> {
-  // Local angle error bound (rad) for envelope e and step h (s).
-  template <class T>
-  static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
-    return detail::magnus_bounds::multi_sample_coning<T, 4>(e, h, coning_coefficients::four_sample);
+    return detail::magnus_bounds::rotation_vector_step(Rule::value, e, h);
   }
 };
 

@@ -71,6 +71,7 @@
 #include <cstddef>
 #include <limits>
 
+#include "halfspin/bounds/local_error_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
@@ -79,10 +80,6 @@
 #include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
-
-// Primary template undefined: a stepper without a bound does not compile in bound code.
-template <class Stepper>
-struct LocalErrorBound;
 
 namespace detail {
 
@@ -297,58 +294,21 @@ T runge_kutta_local_bound(const RateEnvelope<T>& e, T h) noexcept {
   return constant_rate + T(2) * std::asin(delta / radius);
 }
 
-// The shared body of the specializations: the tableau and the stepper's input layout decide the
-// stage-input majorants and the state order.
-template <class Stepper, class Tableau>
-struct RungeKuttaLocalErrorBound {
-  static constexpr std::size_t window =
-      Stepper::layout == SampleLayout::rate_function ? 0 : Stepper::window;
-  static constexpr int state_order =
-      ExplicitRungeKutta<Tableau, Stepper::layout, Stepper::window>::state_order;
+}  // namespace detail
+
+// The one bound of the explicit Runge–Kutta family (embedded pairs name it too: the bound is of
+// their returned solution): the tableau and the input form decide the stage-input majorants and
+// the state order. The step the bound refers to is the stepper's own: two sample periods for
+// three samples (window 3), one for interpolated input (window 2), dt for a rate function.
+template <class Tableau, SampleLayout Layout, std::size_t Window>
+struct FamilyLocalErrorBound<ExplicitRungeKutta<Tableau, Layout, Window>> {
   // Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
-    return runge_kutta_local_bound<Tableau, window, state_order>(e, dt);
+    return detail::runge_kutta_local_bound<Tableau, Window,
+                                           ExplicitRungeKutta<Tableau, Layout, Window>::state_order>(e, dt);
   }
 };
-
-}  // namespace detail
-
-// The step the bound refers to is the stepper's own: two sample periods for *Sampled (window 3),
-// one for *Interpolated (window 2), dt for *RateFunction.
-template <>
-struct LocalErrorBound<RungeKutta2Sampled>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta2Sampled, MidpointTableau> {};
-template <>
-struct LocalErrorBound<RungeKutta2Interpolated>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta2Interpolated, MidpointTableau> {};
-template <>
-struct LocalErrorBound<RungeKutta2RateFunction>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta2RateFunction, MidpointTableau> {};
-template <>
-struct LocalErrorBound<RungeKutta3Sampled>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta3Sampled, Kutta3Tableau> {};
-template <>
-struct LocalErrorBound<RungeKutta3Interpolated>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta3Interpolated, Kutta3Tableau> {};
-template <>
-struct LocalErrorBound<RungeKutta3RateFunction>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta3RateFunction, Kutta3Tableau> {};
-template <>
-struct LocalErrorBound<RungeKutta4Sampled>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta4Sampled, ClassicRungeKutta4Tableau> {};
-template <>
-struct LocalErrorBound<RungeKutta4Interpolated>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta4Interpolated, ClassicRungeKutta4Tableau> {};
-template <>
-struct LocalErrorBound<RungeKutta4RateFunction>
-    : detail::RungeKuttaLocalErrorBound<RungeKutta4RateFunction, ClassicRungeKutta4Tableau> {};
-template <>
-struct LocalErrorBound<BogackiShampine32RateFunction>
-    : detail::RungeKuttaLocalErrorBound<BogackiShampine32RateFunction, BogackiShampine32Tableau> {};
-template <>
-struct LocalErrorBound<DormandPrince54RateFunction>
-    : detail::RungeKuttaLocalErrorBound<DormandPrince54RateFunction, DormandPrince54Tableau> {};
 
 // Munthe-Kaas RK4 (lie_group_runge_kutta.hpp). Within the step q(t0 + s) = q(t0) ⊗ exp(θ*(s)/2),
 // θ*' = dexp⁻¹_θ*(ω) = G(θ*, ω) + (β(|θ*|) − 1/12) θ*×(θ*×ω),
@@ -539,28 +499,17 @@ T munthe_kaas_local_bound(const RateEnvelope<T>& env, T h) noexcept {
   return total;
 }
 
-// The shared body of the Munthe-Kaas specializations.
-template <class Stepper>
-struct MuntheKaasLocalErrorBound {
-  static constexpr std::size_t window =
-      Stepper::layout == SampleLayout::rate_function ? 0 : Stepper::window;
+}  // namespace detail
+
+// The one bound of the Munthe-Kaas family, from its tableau and input form.
+template <class Tableau, SampleLayout Layout, std::size_t Window>
+struct FamilyLocalErrorBound<MuntheKaasRungeKutta<Tableau, Layout, Window>> {
   // Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
-    return munthe_kaas_local_bound<ClassicRungeKutta4Tableau, window, Stepper::order>(e, dt);
+    return detail::munthe_kaas_local_bound<Tableau, Window,
+                                           MuntheKaasRungeKutta<Tableau, Layout, Window>::order>(e, dt);
   }
 };
-
-}  // namespace detail
-
-template <>
-struct LocalErrorBound<MuntheKaas4Sampled>
-    : detail::MuntheKaasLocalErrorBound<MuntheKaas4Sampled> {};
-template <>
-struct LocalErrorBound<MuntheKaas4Interpolated>
-    : detail::MuntheKaasLocalErrorBound<MuntheKaas4Interpolated> {};
-template <>
-struct LocalErrorBound<MuntheKaas4RateFunction>
-    : detail::MuntheKaasLocalErrorBound<MuntheKaas4RateFunction> {};
 
 }  // namespace halfspin

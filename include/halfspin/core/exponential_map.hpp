@@ -38,6 +38,33 @@ Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
   return {c, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
 }
 
+// Floating-point operations of quaternion_exp_minus_one on its series branch: |φ|² 5, the two
+// polynomials in θ² 11 (the scalar one has no constant term), scaling φ 3.
+inline constexpr int quaternion_exp_minus_one_series_flops = 19;
+
+// Rotation vector φ (rad) → exp(φ/2) − 1 = (cos(θ/2) − 1, sin(θ/2)·φ/θ), θ = |φ|: the increment of
+// a step, formed without cancellation so that it is accurate relative to its own size however
+// small the step (cos(θ/2) − 1 is never formed as a difference: the series −θ²/8 + θ⁴/384 − θ⁶/46080
+// below the threshold of quaternion_exp, −2·sin²(θ/4) above it). Adding 1 to the scalar part
+// gives quaternion_exp(φ) up to one rounding.
+template <class T>
+Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
+  const T t = squared_norm(phi);
+  T c_minus_one;
+  T s_over_angle;  // sin(θ/2)/θ
+  if (t < ScalarTraits<T>::exp_series_angle_squared) {
+    // The θ⁶ terms kept for the reason given in quaternion_exp.
+    c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * T(-1.0L / 46080)));
+    s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * T(-1.0L / 645120)));
+  } else {
+    const T angle = std::sqrt(t);
+    const T quarter_sine = std::sin(T(0.25) * angle);
+    c_minus_one = T(-2) * quarter_sine * quarter_sine;
+    s_over_angle = std::sin(T(0.5) * angle) / angle;
+  }
+  return {c_minus_one, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
+}
+
 // Quaternion → rotation vector φ (rad) of the shortest rotation, |φ| ≤ π (q and −q give the same
 // φ). Scale-invariant, so a slightly non-unit q gives the φ of q/|q|; q must be nonzero. Uses
 // θ = 2·atan2(|v|, |w|), accurate near 0 and near π; below the threshold, the series of

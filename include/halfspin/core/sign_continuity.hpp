@@ -14,7 +14,7 @@ constexpr Quaternion<T> nearest_sign(const Quaternion<T>& q, const Quaternion<T>
 
 // Returns q or −q, whichever has a non-negative scalar part (angle in [0, π]); the canonical sign.
 template <class T>
-constexpr Quaternion<T> canonical_sign(const Quaternion<T>& q) noexcept {
+constexpr Quaternion<T> with_nonnegative_scalar(const Quaternion<T>& q) noexcept {
   return q.w < T(0) ? -q : q;
 }
 

@@ -1,8 +1,10 @@
 #pragma once
 // Batch propagation for desktop Monte Carlo: N independent attitudes (body → reference,
 // scalar-first (w, x, y, z), Hamilton product) in structure-of-arrays form, stepped together by the
-// one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of ConingOneSample) and a
-// renormalization. Input per call, also structure-of-arrays (BatchSamples, written in place through
+// one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of Coning1Sample) and a
+// renormalization. The stepper contract is the scalar path's (stepper_traits.hpp): each lane forms
+// the increment δ = exp(Δθ/2) − 1 without cancellation (the series of cos(θ/2) − 1 has no
+// constant term) and applies it with apply_increment, q + q ⊗ δ. Input per call, also structure-of-arrays (BatchSamples, written in place through
 // samples() or copied in by step(dx, dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame,
 // integral of ω over the lane's sample interval) and a per-lane interval dt (s). dt is per lane so
 // that lanes may run with jittered or different sample timing; it is used for validation and
@@ -44,7 +46,7 @@
 // sin/cos.
 //
 // Agreement with the scalar path: below the core's series threshold (θ² < 0.1 float, 1e-4
-// double) Propagator<T, ConingOneSample, R> evaluates the same product and renormalization with a
+// double) Propagator<T, Coning1Sample, R> evaluates the same product and renormalization with a
 // series one term shorter; the extra θ⁸ term changes a result by at most an ulp, rarely (the
 // tests measure the worst case). Above it the scalar path uses sin/cos, equally accurate.
 //
@@ -56,9 +58,9 @@
 // update has no history, so a gap only loses the rotation in it; re-anchor the lane with
 // set_lane.)
 //
-// Cost per lane-step (flops, + − ×): validation 7 (rate bound 1, θ² 5, dt − dt 1), series 16,
-// scaling Δθ 3, product 28, first-order renormalization 13, elapsed-time (Kahan) sum 4, finiteness
-// of the result 6: 77, plus 8 comparisons and 7 selects. Memory, all inside the object (no heap):
+// Cost per lane-step (flops, + − ×): validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15,
+// scaling Δθ 3, plain application 32, first-order renormalization 13, elapsed-time (Kahan) sum 4, finiteness
+// of the result 6: 80, plus 8 comparisons and 7 selects. Memory, all inside the object (no heap):
 // 12·N scalars of state (w, x, y, z, elapsed-time sum and carry, double-buffered), 4·N of input,
 // N accept flags and N 64-bit rejection counters: 17·N·sizeof(T) + 8·N bytes, about 144 kB for
 // 1024 double lanes (allocate a large batch statically or on the heap, not on a small stack).
@@ -73,6 +75,7 @@
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
 
@@ -91,11 +94,12 @@ struct BatchExponentialSeries<double> {
   static constexpr double max_step_angle = 0.1;  // rad; truncation ≤ 1.2e-4 ε
 };
 
-// exp(φ/2) for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through θ⁸:
-// returns cos(θ/2) in c and sin(θ/2)/θ in s_over_angle (θ² given as t). Straight-line code.
+// exp(φ/2) − 1 for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through
+// θ⁸: returns cos(θ/2) − 1 in c_minus_one and sin(θ/2)/θ in s_over_angle (θ² given as t).
+// Straight-line code.
 template <class T>
-constexpr void batch_exponential_series(T t, T& c, T& s_over_angle) noexcept {
-  c = T(1) +
+constexpr void batch_exponential_series(T t, T& c_minus_one, T& s_over_angle) noexcept {
+  c_minus_one =
       t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * (T(-1.0L / 46080) + t * T(1.0L / 10321920))));
   s_over_angle =
       T(0.5) + t * (T(-1.0L / 48) +
@@ -275,12 +279,12 @@ class BatchPropagator {
       valid &= h <= max_step;
       valid &= h - h == T(0);
       valid &= t <= max_angle_squared;
-      T c;
+      T c_minus_one;
       T s;
-      batch_exponential_series(t, c, s);
+      batch_exponential_series(t, c_minus_one, s);
       const Quaternion<T> q{from.w[i], from.x[i], from.y[i], from.z[i]};
-      const Quaternion<T> next =
-          Renormalization{}.apply(q * Quaternion<T>{c, s * ax, s * ay, s * az});
+      const Quaternion<T> next = Renormalization{}.apply(
+          apply_increment(q, Quaternion<T>{c_minus_one, s * ax, s * ay, s * az}));
       // Kahan sum of elapsed time, as Propagator keeps it.
       const T sum = from.elapsed_sum[i];
       const T carry = from.elapsed_carry[i];

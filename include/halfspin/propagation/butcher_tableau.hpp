@@ -17,7 +17,10 @@ namespace halfspin {
 
 // An explicit tableau with S stages: a is strictly lower triangular; b are the weights of the
 // returned solution; b_embedded those of an embedded solution of order embedded_order (all zero
-// and embedded_order = 0 when the method has none).
+// and embedded_order = 0 when the method has none). attitude_order is the order of the attitude
+// alone on q̇ = ½ q ⊗ (0, ω) with exact stage rates, where it exceeds the classical order because
+// the leading local error term is a norm change (Kutta's RK3, explicit_runge_kutta.hpp), else
+// equal to `order`.
 template <std::size_t S>
 struct ButcherTableau {
   static constexpr std::size_t stages = S;
@@ -27,12 +30,13 @@ struct ButcherTableau {
   std::array<long double, S> b_embedded;
   int order;
   int embedded_order;
+  int attitude_order;
 };
 
 // Explicit midpoint rule: second order, one rate at mid-step.
 struct MidpointTableau {
   static constexpr ButcherTableau<2> value{
-      {{{{0.0L, 0.0L}}, {{0.5L, 0.0L}}}}, {{0.0L, 1.0L}}, {{0.0L, 0.5L}}, {{0.0L, 0.0L}}, 2, 0};
+      {{{{0.0L, 0.0L}}, {{0.5L, 0.0L}}}}, {{0.0L, 1.0L}}, {{0.0L, 0.5L}}, {{0.0L, 0.0L}}, 2, 0, 2};
 };
 
 // Kutta's third-order method (nodes 0, 1/2, 1).
@@ -43,7 +47,8 @@ struct Kutta3Tableau {
       {{0.0L, 0.5L, 1.0L}},
       {{0.0L, 0.0L, 0.0L}},
       3,
-      0};
+      0,
+      4};
 };
 
 // The classic fourth-order method (nodes 0, 1/2, 1/2, 1).
@@ -56,7 +61,8 @@ struct ClassicRungeKutta4Tableau {
                                            {{0.0L, 0.5L, 0.5L, 1.0L}},
                                            {{0.0L, 0.0L, 0.0L, 0.0L}},
                                            4,
-                                           0};
+                                           0,
+                                           4};
 };
 
 // Bogacki–Shampine 3(2): third-order solution, second-order embedded one (nodes 0, 1/2, 3/4, 1).
@@ -71,7 +77,8 @@ struct BogackiShampine32Tableau {
                                            {{0.0L, 0.5L, 0.75L, 1.0L}},
                                            {{7.0L / 24, 1.0L / 4, 1.0L / 3, 1.0L / 8}},
                                            3,
-                                           2};
+                                           2,
+                                           3};
 };
 
 // Dormand–Prince 5(4): fifth-order solution, fourth-order embedded one, seven stages (first-same-
@@ -91,7 +98,8 @@ struct DormandPrince54Tableau {
       {{5179.0L / 57600, 0.0L, 7571.0L / 16695, 393.0L / 640, -92097.0L / 339200, 187.0L / 2100,
         1.0L / 40}},
       5,
-      4};
+      4,
+      5};
 };
 
 namespace detail {

@@ -43,31 +43,23 @@
 // that the O(T⁵) remainder grows with (measured on an axisymmetric body: N = 4 about 19× worse than
 // N = 2).
 //
-// Cost as implemented (flops: + − ×; the exponential map as in exponential_map_step.hpp, its
-// series branch 20 flops, and the quaternion product 28): sum of the N samples 3(N − 1); each
-// cross product 9; summing the products of one separation 3 each; scaling and adding each
-// separation's sum 6. Totals: one sample 48, one-plus-previous 63, two 66, three 96, four 138.
+// Each algorithm is a RotationVectorRule (rotation_vector_family.hpp): delta-angle samples,
+// unit quadrature weights and the coefficient set below; order, coning order, flops and the
+// a-priori bound are all derived from that data.
+// Cost as implemented (flops: + − ×; exp(φ/2) − 1 on its series branch 19 and the plain
+// application 32): sum of the N samples 3(N − 1); each cross product 9; summing the products of
+// one separation 3 each; scaling and adding each separation's sum 6. Totals: one sample 51,
+// one-plus-previous 66, two 69, three 99, four 141.
 // Memory: none beyond the input window (3 scalars per sample).
 
 #include <array>
 #include <cstddef>
 #include <cstdint>
-#include <type_traits>
 
-#include "halfspin/core/exponential_map.hpp"
-#include "halfspin/core/quaternion.hpp"
-#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/rotation_vector_family.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
-
-// A coefficient set as exact rationals: per-pair weight of a cross product of two delta-angles
-// `separation` = index + 1 sample periods apart is numerators[index]/denominator.
-template <std::size_t Separations>
-struct ConingCoefficientSet {
-  std::array<std::int32_t, Separations> numerators;
-  std::int32_t denominator;
-};
 
 // The coefficient sets (derivation in the header comment; published values, from memory, are
 // compared in the tests). Per-pair weights c_m; the total per separation is (N − m)·c_m.
@@ -78,170 +70,99 @@ inline constexpr ConingCoefficientSet<1> two_sample{{2}, 3};
 inline constexpr ConingCoefficientSet<2> three_sample{{27, 18}, 40};  // 27/40, 9/20
 // 214/315, 46/105, 18/35 per pair; totals 214/105, 92/105, 54/105 by separation 1, 2, 3.
 inline constexpr ConingCoefficientSet<3> four_sample{{214, 138, 162}, 315};
-// The older three-sample set (Miller 1983, from memory): 33/80 Δθ1×Δθ3 + 57/80 Δθ2×(Δθ3 − Δθ1).
+// Miller's three-sample set (Miller 1983, from memory): 33/80 Δθ1×Δθ3 + 57/80 Δθ2×(Δθ3 − Δθ1).
 // It matches only the λ³ term under classical coning (its λ⁵ term is off by 3λ⁵/80 · sin²a), so
 // its coning drift falls as h⁴, not h⁶: one error term fewer cancelled than `three_sample`.
-inline constexpr ConingCoefficientSet<2> three_sample_older{{57, 33}, 80};  // 57/80, 33/80
+inline constexpr ConingCoefficientSet<2> three_sample_miller{{57, 33}, 80};  // 57/80, 33/80
 }  // namespace coning_coefficients
 
-namespace detail {
-
-// β̂ = Σ_m c_m Σ_{j−i=m} s[i] × s[j] alone (rad): the coning correction, also the online error
-// signal of the coning steppers. With the previous sample in front (first = 1) the pairs start at
-// index 0. Zero for a set without separations (one sample).
-template <class T, std::size_t W, std::size_t S>
-constexpr Vector3<T> coning_correction(const std::array<Vector3<T>, W>& s, std::size_t first,
-                                       const ConingCoefficientSet<S>& set) noexcept {
-  if constexpr (S == 0) {
-    static_cast<void>(s);
-    static_cast<void>(first);
-    static_cast<void>(set);
-    return Vector3<T>::zero();
-  } else {
-    const std::size_t begin = first == 0 ? 0 : first - 1;
-    Vector3<T> beta{};
-    for (std::size_t m = 1; m <= S; ++m) {
-      Vector3<T> sum = cross(s[begin], s[begin + m]);
-      for (std::size_t i = begin + 1; i + m < W; ++i) {
-        sum += cross(s[i], s[i + m]);
-      }
-      const Vector3<T> term = (T(set.numerators[m - 1]) / T(set.denominator)) * sum;
-      beta = m == 1 ? term : beta + term;  // no 0 + x: the first term starts the sum
-    }
-    return beta;
+namespace rotation_vector_rules {
+// N delta-angles tiling the step, coefficient set `set` (unit quadrature weights).
+template <std::size_t N>
+constexpr RotationVectorRule<N> coning(const ConingCoefficientSet<(N > 0 ? N - 1 : 0)>& set) noexcept {
+  RotationVectorRule<N> r{SampleLayout::delta_angles, {}, 1, set};
+  for (std::size_t i = 0; i < N; ++i) {
+    r.quadrature[i] = 1;
   }
+  return r;
 }
-
-// α = Σ s[first..] (rad): the summed delta-angles of the step.
-template <class T, std::size_t W>
-constexpr Vector3<T> delta_angle_sum(const std::array<Vector3<T>, W>& s, std::size_t first) noexcept {
-  Vector3<T> alpha = s[first];
-  for (std::size_t i = first + 1; i < W; ++i) {
-    alpha += s[i];
-  }
-  return alpha;
-}
-
-// φ = α + β̂ (rad), the rotation vector of a coning step; step() and step_with_estimate() both
-// form it this way, so their attitudes are bit-identical and the estimate reuses β̂.
-template <class T, std::size_t W, std::size_t S>
-constexpr Vector3<T> coning_rotation_vector(const std::array<Vector3<T>, W>& s, std::size_t first,
-                                            const ConingCoefficientSet<S>& set) noexcept {
-  if constexpr (S == 0) {
-    return delta_angle_sum(s, first);
-  } else {
-    return delta_angle_sum(s, first) + coning_correction(s, first, set);
-  }
-}
-
-// The exact exponential-map update that ends every coning step: quaternion_exp and the product.
-inline constexpr int exp_and_product_flops = quaternion_exp_series_flops + quaternion_product_flops;
-
-}  // namespace detail
-
-// N delta-angles tiling the step, oldest first, with coefficient set Set (N − 1 separations).
-template <std::size_t N, const ConingCoefficientSet<(N > 0 ? N - 1 : 0)>& Set, int GeneralOrder,
-          int ConingOrder, int Flops>
-struct MultiSampleConing {
-  static constexpr SampleLayout layout = SampleLayout::delta_angles;
-  static constexpr std::size_t window = N;
-  static constexpr std::size_t new_samples = N;
-  static constexpr int order = GeneralOrder;        // any smooth motion, delta-angle input
-  static constexpr int coning_order = ConingOrder;  // coning drift under pure classical coning
-  static constexpr int flops = Flops;
-
-  // Rotation vector (rad) of the step from the N delta-angles (rad), oldest first.
-  template <class T>
-  static constexpr Vector3<T> rotation_vector(
-      const std::array<Vector3<T>, window>& delta) noexcept {
-    return detail::coning_rotation_vector(delta, 0, Set);
-  }
-  // q ⊗ exp(φ/2) with φ = rotation_vector(delta); delta in rad, dt (s, unused: delta-angles
-  // already carry time).
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& delta,
-                            T /*dt*/) noexcept {
-    return q * quaternion_exp(rotation_vector(delta));
-  }
-  // step() plus the online error signal |β̂| (rad), the coning correction: the rotation that
-  // summing the delta-angles alone (ConingOneSample on the same step) would miss, i.e. the
-  // non-commutativity the step saw. It estimates the error of that lower-order method on the
-  // same step (measured ratio 0.98–1.02 on coarse steps, 1.00 on fine ones, on classical coning
-  // and an axisymmetric body), not this method's own error, which it exceeds by 35× to 10⁵×
-  // (tests/bounds/test_magnus_family_bounds.cpp). Only for N ≥ 2: one sample has no correction.
-  // Cost: step() plus the norm of β̂ (step() forms φ as α + β̂ too, so the attitude is
-  // bit-identical to step()'s and β̂ is computed once).
-  template <class T, std::size_t M = N, std::enable_if_t<(M > 1), int> = 0>
-  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q,
-                                           const std::array<Vector3<T>, window>& delta, T dt) noexcept {
-    static_cast<void>(dt);
-    const Vector3<T> beta = detail::coning_correction(delta, 0, Set);
-    return {q * quaternion_exp(detail::delta_angle_sum(delta, 0) + beta), norm(beta)};
-  }
+struct Coning1Sample {
+  static constexpr RotationVectorRule<1> value = coning<1>(coning_coefficients::one_sample);
 };
+struct Coning2Sample {
+  static constexpr RotationVectorRule<2> value = coning<2>(coning_coefficients::two_sample);
+};
+struct Coning3Sample {
+  static constexpr RotationVectorRule<3> value = coning<3>(coning_coefficients::three_sample);
+};
+struct Coning3SampleMiller {
+  static constexpr RotationVectorRule<3> value = coning<3>(coning_coefficients::three_sample_miller);
+};
+struct Coning4Sample {
+  static constexpr RotationVectorRule<4> value = coning<4>(coning_coefficients::four_sample);
+};
+// The previous step's last delta-angle (weight 0 in the sum), then the new one.
+struct Coning1SamplePlusPrevious {
+  static constexpr RotationVectorRule<2> value{SampleLayout::delta_angles_with_previous,
+                                               {{0, 1}},
+                                               1,
+                                               coning_coefficients::one_sample_plus_previous};
+};
+}  // namespace rotation_vector_rules
+
+// Each step: q ⊗ exp(φ/2) with φ = α + β̂ from the delta-angles (rad), oldest first; dt (s) is
+// not read (delta-angles already carry time). step_with_estimate's signal is |β̂| (rad), the
+// coning correction: the rotation that summing the delta-angles alone (Coning1Sample on the same
+// step) would miss. It estimates the error of that lower-order method on the same step (measured
+// ratio 0.98–1.02 on coarse steps, 1.00 on fine ones, on classical coning and an axisymmetric
+// body), not this method's own error, which it exceeds by 35× to 10⁵×
+// (tests/bounds/test_magnus_family_bounds.cpp).
 
 // One delta-angle per step, no coning correction: φ = Δθ. Global order 2.
-struct ConingOneSample : MultiSampleConing<1, coning_coefficients::one_sample, 2, 2, 0 + detail::exp_and_product_flops> {
+struct Coning1Sample : RotationVectorStepper<rotation_vector_rules::Coning1Sample> {
   static constexpr const char* name = "coning_1_sample";
+  static constexpr const char* description =
+      "delta-angle exponential map, no coning term; 1 delta-angle/step, order 2";
 };
 
 // Two delta-angles per step: φ = Δθ1 + Δθ2 + 2/3 Δθ1×Δθ2. Global order 4 (coning: h⁴).
-struct ConingTwoSample : MultiSampleConing<2, coning_coefficients::two_sample, 4, 4, 18 + detail::exp_and_product_flops> {
+struct Coning2Sample : RotationVectorStepper<rotation_vector_rules::Coning2Sample> {
   static constexpr const char* name = "coning_2_sample";
+  static constexpr const char* description =
+      "two-sample coning compensation; 2 delta-angles/step, order 4";
 };
 
 // Three delta-angles: φ = α + 9/20 Δθ1×Δθ3 + 27/40 Δθ2×(Δθ3 − Δθ1). Global order 4 for general
 // motion (third Magnus term); coning drift h⁶ while a⁴ is small (header comment).
-struct ConingThreeSample : MultiSampleConing<3, coning_coefficients::three_sample, 4, 6, 48 + detail::exp_and_product_flops> {
+struct Coning3Sample : RotationVectorStepper<rotation_vector_rules::Coning3Sample> {
   static constexpr const char* name = "coning_3_sample";
+  static constexpr const char* description =
+      "three-sample coning compensation; 3 delta-angles/step, order 4";
 };
 
-// Three delta-angles with the older set 33/80, 57/80 (Miller 1983, from memory): cancels the λ³
-// coning term only, so coning drift h⁴ (one term fewer than ConingThreeSample). Global order 4.
-struct ConingThreeSampleOlder
-    : MultiSampleConing<3, coning_coefficients::three_sample_older, 4, 4, 48 + detail::exp_and_product_flops> {
-  static constexpr const char* name = "coning_3_sample_older";
+// Three delta-angles with Miller's set 33/80, 57/80 (Miller 1983, from memory): cancels the λ³
+// coning term only, so coning drift h⁴ (one term fewer than Coning3Sample). Global order 4.
+struct Coning3SampleMiller : RotationVectorStepper<rotation_vector_rules::Coning3SampleMiller> {
+  static constexpr const char* name = "coning_3_sample_miller";
+  static constexpr const char* description =
+      "three-sample coning, Miller's 1983 coefficient set; 3 delta-angles/step, order 4";
 };
 
 // Four delta-angles, per-pair weights 214/315, 46/105, 18/35 by separation 1, 2, 3. Global order 4
 // for general motion; coning drift h⁸ only at small cone angles (header comment).
-struct ConingFourSample : MultiSampleConing<4, coning_coefficients::four_sample, 4, 8, 90 + detail::exp_and_product_flops> {
+struct Coning4Sample : RotationVectorStepper<rotation_vector_rules::Coning4Sample> {
   static constexpr const char* name = "coning_4_sample";
+  static constexpr const char* description =
+      "four-sample coning compensation; 4 delta-angles/step, order 4";
 };
 
 // One new delta-angle with the previous step's last one: φ = Δθ + 1/12 Δθ_prev × Δθ. Global
 // order 3 for general motion (header comment), coning drift h⁴. Input: [0] previous, [1] new.
-struct ConingOneSamplePlusPrevious {
-  static constexpr SampleLayout layout = SampleLayout::delta_angles_with_previous;
-  static constexpr std::size_t window = 2;
-  static constexpr std::size_t new_samples = 1;
-  static constexpr int order = 3;
-  static constexpr int coning_order = 4;
-  static constexpr int flops = 15 + detail::exp_and_product_flops;
+struct Coning1SamplePlusPrevious
+    : RotationVectorStepper<rotation_vector_rules::Coning1SamplePlusPrevious> {
   static constexpr const char* name = "coning_1_sample_plus_previous";
-
-  // Rotation vector (rad) of the step from [previous, new] delta-angles (rad).
-  template <class T>
-  static constexpr Vector3<T> rotation_vector(
-      const std::array<Vector3<T>, window>& delta) noexcept {
-    return detail::coning_rotation_vector(delta, 1, coning_coefficients::one_sample_plus_previous);
-  }
-  // q ⊗ exp(φ/2) with φ = rotation_vector(delta); delta in rad, dt (s) unused.
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& delta,
-                            T /*dt*/) noexcept {
-    return q * quaternion_exp(rotation_vector(delta));
-  }
-  // step() plus the online error signal |1/12·Δθ_prev × Δθ| (rad), the coning correction (see
-  // MultiSampleConing::step_with_estimate for what it estimates).
-  template <class T>
-  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q,
-                                           const std::array<Vector3<T>, window>& delta, T dt) noexcept {
-    static_cast<void>(dt);
-    const Vector3<T> beta =
-        detail::coning_correction(delta, 1, coning_coefficients::one_sample_plus_previous);
-    return {q * quaternion_exp(detail::delta_angle_sum(delta, 1) + beta), norm(beta)};
-  }
+  static constexpr const char* description =
+      "one sample plus the previous one (cross-step coning term); 1 delta-angle/step, order 3";
 };
 
 }  // namespace halfspin

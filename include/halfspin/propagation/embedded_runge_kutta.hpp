@@ -20,8 +20,8 @@
 // part is the norm error of the unrenormalized step; 2‖δ‖ covers both, in radians.
 //
 // Cost (counted as in explicit_runge_kutta.hpp, sqrt one flop): the explicit stepper's cost plus
-// 9 per nonzero b_i − b̂_i plus 9 for the estimate (|δ|² 7, √ 1, × 2 1). With a rate function: BS32
-// 200, DP54 433 flops (`flops` computes them from the tableau). The last stage of each pair is the
+// the weighted sum of the b_i − b̂_i (5 per nonzero weight, 4 per addition) plus 9 for the
+// estimate (|δ|² 7, √ 1, × 2 1); `flops` computes the totals from the tableau. The last stage of each pair is the
 // first of the next step (first-same-as-last); these steppers are stateless and recompute it.
 // Memory: S slopes and S rates on the stack.
 
@@ -44,61 +44,58 @@ struct EmbeddedRungeKutta {
   static_assert(Tableau::value.embedded_order > 0, "the tableau has no embedded solution");
   using Base = ExplicitRungeKutta<Tableau, Layout, Window>;
   using tableau = Tableau;  // the coefficients, for the bounds layer (stage growth, weights)
+  using family = Base;      // the bound of the returned solution is the explicit method's
 
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;
   static constexpr std::size_t new_samples = Base::new_samples;
   static constexpr std::size_t stages = Base::stages;
+  static constexpr int state_order = Base::state_order;
   static constexpr int order = Base::order;  // of the returned (higher-order) solution
   // Order of the embedded solution with this input (for step-size control).
   static constexpr int embedded_order =
       Base::order < Tableau::value.embedded_order ? Base::order : Tableau::value.embedded_order;
+  static constexpr bool has_estimate = true;
   static constexpr int flops =
-      Base::flops +
-      9 * static_cast<int>(detail::count_nonzero(detail::weight_difference(Tableau::value))) + 9;
-  static constexpr const char* name = "embedded_runge_kutta";
+      Base::flops + detail::weighted_sum_flops(detail::weight_difference(Tableau::value)) + 9;
 
-  // The higher-order solution alone (q body → reference, ω rad/s, dt s).
+  // The higher-order solution's increment and 2‖δ_high − δ_low‖ (rad), from rate samples.
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
-  static constexpr Quaternion<T> step(const Quaternion<T>& q,
-                                      const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
-    return Base::advance(q, detail::stage_rates_from_samples<Tableau, Window>(rate), dt);
+  static Increment<T> increment(const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
+    return from_stage_rates(detail::stage_rates_from_samples<Tableau, Window>(rate), dt);
   }
+  // The same from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] s from step start.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
-  static Quaternion<T> step(const Quaternion<T>& q, const RateFunction& rate_at, T dt) noexcept {
-    return Base::advance(q, detail::stage_rates_from_function<Tableau>(rate_at, dt), dt);
+  static Increment<T> increment(const RateFunction& rate_at, T dt) noexcept {
+    return from_stage_rates(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt);
   }
 
+  // The higher-order solution alone, applied plainly (q body → reference, ω rad/s, dt s).
+  template <class T, class Input>
+  static Quaternion<T> step(const Quaternion<T>& q, const Input& input, T dt) noexcept {
+    return apply_increment(q, increment(input, dt).delta);
+  }
   // The higher-order solution and 2‖q_high − q_low‖ (rad) as the local error estimate.
-  template <class T, SampleLayout L = Layout,
-            std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
-  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q,
-                                           const std::array<Vector3<T>, Window>& rate,
+  template <class T, class Input>
+  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q, const Input& input,
                                            T dt) noexcept {
-    return advance_with_estimate(q, detail::stage_rates_from_samples<Tableau, Window>(rate), dt);
-  }
-  template <class T, class RateFunction, SampleLayout L = Layout,
-            std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
-  static StepOutcome<T> step_with_estimate(const Quaternion<T>& q, const RateFunction& rate_at,
-                                           T dt) noexcept {
-    return advance_with_estimate(q, detail::stage_rates_from_function<Tableau>(rate_at, dt), dt);
+    const Increment<T> inc = increment(input, dt);
+    return {apply_increment(q, inc.delta), inc.error_estimate};
   }
 
   // Both from the rates at the stage times (rad/s).
   template <class T>
-  static StepOutcome<T> advance_with_estimate(const Quaternion<T>& q,
-                                              const std::array<Vector3<T>, stages>& stage_rate,
-                                              T dt) noexcept {
+  static Increment<T> from_stage_rates(const std::array<Vector3<T>, stages>& stage_rate,
+                                       T dt) noexcept {
     using C = TableauCoefficients<Tableau, T>;
     const T half_dt = T(0.5) * dt;
     const std::array<Quaternion<T>, stages> k =
-        detail::quaternion_stage_slopes<Tableau>(q, stage_rate, half_dt);
-    const Quaternion<T> high = detail::combine_slopes(q, C::b, k, half_dt);
-    const Quaternion<T> delta =
-        detail::combine_slopes(Quaternion<T>{T(0), T(0), T(0), T(0)}, C::b_difference, k, half_dt);
-    return {high, T(2) * std::sqrt(squared_norm(delta))};
+        detail::increment_stage_slopes<Tableau>(stage_rate, half_dt);
+    const Quaternion<T> high = detail::weighted_slopes(C::b, k, stages, half_dt);
+    const Quaternion<T> difference = detail::weighted_slopes(C::b_difference, k, stages, half_dt);
+    return {high, T(2) * std::sqrt(squared_norm(difference))};
   }
 };
 
@@ -106,12 +103,16 @@ struct EmbeddedRungeKutta {
 struct BogackiShampine32RateFunction
     : EmbeddedRungeKutta<BogackiShampine32Tableau, SampleLayout::rate_function, 0> {
   static constexpr const char* name = "bogacki_shampine_32_rate_function";
+  static constexpr const char* description =
+      "Bogacki-Shampine 3(2) pair on a rate function (truth motions only); order 3, estimate";
 };
 
 // Dormand–Prince 5(4), rate function: order 5 returned, order-4 estimate.
 struct DormandPrince54RateFunction
     : EmbeddedRungeKutta<DormandPrince54Tableau, SampleLayout::rate_function, 0> {
   static constexpr const char* name = "dormand_prince_54_rate_function";
+  static constexpr const char* description =
+      "Dormand-Prince 5(4) pair on a rate function (truth motions only); order 5, estimate";
 };
 
 }  // namespace halfspin

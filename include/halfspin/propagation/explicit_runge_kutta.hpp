@@ -4,8 +4,12 @@
 // classic, each with three input forms).
 //
 // The state is the four quaternion components; the update is q₊ = q + dt Σ b_i k_i with
-// k_i = ½ q_i ⊗ (0, ω(t + c_i dt)), q_i = q + dt Σ_{j<i} a_ij k_j. Nothing renormalizes inside the
-// step: the norm drifts (for RK4 at constant rate by a factor √(1 − θ⁶/4608 + θ⁸/147456) per step,
+// k_i = ½ q_i ⊗ (0, ω(t + c_i dt)), q_i = q + dt Σ_{j<i} a_ij k_j. The stages are linear in q, so
+// k_i = q ⊗ m_i with m_i computed from q = 1, and the step is q₊ = q ⊗ P, P = 1 + dt Σ b_i m_i:
+// the stepper returns the increment δ = P − 1 = dt Σ b_i m_i (stepper_traits.hpp), formed from
+// the stage increments D_i = dt Σ_j a_ij m_j as m_i = ½(0, ω_i) + ½ D_i ⊗ (0, ω_i), so nothing
+// is ever added to 1 inside the step and δ is accurate relative to its own size. Nothing
+// renormalizes inside the step: the norm drifts (for RK4 at constant rate by a factor √(1 − θ⁶/4608 + θ⁸/147456) per step,
 // θ = |ω| dt; see test_runge_kutta.cpp), and renormalization is the propagator's policy.
 //
 // Where the stage rates come from decides the order reached (Butcher's order conditions assume
@@ -29,13 +33,14 @@
 // motion (tests); not a property of third-order methods in general (Bogacki–Shampine shows 3).
 //
 // Cost, counted from the code below (+ − × ÷ one flop each; sign flips free; the rate function's
-// own cost not counted): dt/2 1; per stage the slope q_i ⊗ (0, ω_i) 20 (12 ×, 8 ±); per nonzero
-// a_ij and per nonzero b_i 9 (coefficient × dt/2, 4 ×, 4 +); interpolated stage rates 9 per
-// distinct off-grid node; rate_function 1 × per distinct node strictly inside (0, 1).
-// With samples on the grid: RK2 59, RK3 115, RK4 144 flops; interpolated: 68, 124, 153; rate
-// function: 60, 116, 145 (the `flops` member computes these from the tableau). Memory: S stage
-// slopes (quaternions) and S stage rates (vectors) on the stack, for RK4 224 bytes in double and
-// 112 in float; nothing between steps.
+// own cost not counted): dt/2 1; per stage with a nonzero stage increment the slope
+// (0, ω_i) + D_i ⊗ (0, ω_i) 23 (the first stage's slope is (0, ω_1): free); per nonzero a_ij and
+// per nonzero b_i 5 (coefficient × dt/2, 4 ×) plus 4 to add it to the sum it joins (the first
+// term of a sum starts it); interpolated stage rates 9 per distinct off-grid node;
+// rate_function 1 × per distinct node strictly inside (0, 1); the plain application of δ 32.
+// The `flops` member computes the totals from the tableau. Memory: S stage slopes (quaternions)
+// and S stage rates (vectors) on the stack, for RK4 224 bytes in double and 112 in float;
+// nothing between steps.
 
 #include <array>
 #include <cstddef>
@@ -168,44 +173,61 @@ constexpr Quaternion<T> times_pure(const Quaternion<T>& q, const Vector3<T>& w) 
           q.w * w.y - q.x * w.z + q.z * w.x, q.w * w.z + q.x * w.y - q.y * w.x};
 }
 
-// The stage slopes k̃_i = q_i ⊗ (0, ω_i), with q_i = q + (dt/2) Σ_{j<i} a_ij k̃_j.
-template <class Tableau, class T>
-constexpr std::array<Quaternion<T>, Tableau::value.stages> quaternion_stage_slopes(
-    const Quaternion<T>& q, const std::array<Vector3<T>, Tableau::value.stages>& rate,
-    T half_dt) noexcept {
-  constexpr std::size_t S = Tableau::value.stages;
-  using C = TableauCoefficients<Tableau, T>;
-  std::array<Quaternion<T>, S> k{};
-  for (std::size_t i = 0; i < S; ++i) {
-    Quaternion<T> qi = q;
-    for (std::size_t j = 0; j < i; ++j) {
-      if (C::a[i][j] != T(0)) {
-        qi = qi + (C::a[i][j] * half_dt) * k[j];
-      }
-    }
-    k[i] = times_pure(qi, rate[i]);
-  }
-  return k;
-}
-
-// base + (dt/2) Σ weight_i k̃_i, skipping zero weights.
+// Σ (weight_i · dt/2) k̃_i over the nonzero weights; the first term starts the sum (no 0 + x).
 template <class T, std::size_t S>
-constexpr Quaternion<T> combine_slopes(const Quaternion<T>& base, const std::array<T, S>& weight,
-                                       const std::array<Quaternion<T>, S>& k, T half_dt) noexcept {
-  Quaternion<T> r = base;
-  for (std::size_t i = 0; i < S; ++i) {
+constexpr Quaternion<T> weighted_slopes(const std::array<T, S>& weight,
+                                        const std::array<Quaternion<T>, S>& k, std::size_t count,
+                                        T half_dt) noexcept {
+  Quaternion<T> r{T(0), T(0), T(0), T(0)};
+  bool started = false;
+  for (std::size_t i = 0; i < count; ++i) {
     if (weight[i] != T(0)) {
-      r = r + (weight[i] * half_dt) * k[i];
+      const Quaternion<T> term = (weight[i] * half_dt) * k[i];
+      r = started ? r + term : term;
+      started = true;
     }
   }
   return r;
 }
 
-// Flops of quaternion_stage_slopes plus one combine_slopes with the b weights, plus dt/2.
+// The stage slopes from q = 1 (without their factor ½): k̃_i = (1 + D_i) ⊗ (0, ω_i) with the stage
+// increment D_i = (dt/2) Σ_{j<i} a_ij k̃_j, formed as (0, ω_i) + D_i ⊗ (0, ω_i).
+template <class Tableau, class T>
+constexpr std::array<Quaternion<T>, Tableau::value.stages> increment_stage_slopes(
+    const std::array<Vector3<T>, Tableau::value.stages>& rate, T half_dt) noexcept {
+  constexpr std::size_t S = Tableau::value.stages;
+  using C = TableauCoefficients<Tableau, T>;
+  std::array<Quaternion<T>, S> k{};
+  for (std::size_t i = 0; i < S; ++i) {
+    const Quaternion<T> pure{T(0), rate[i].x, rate[i].y, rate[i].z};
+    bool any = false;
+    for (std::size_t j = 0; j < i; ++j) {
+      any = any || C::a[i][j] != T(0);
+    }
+    if (any) {
+      const Quaternion<T> d = weighted_slopes(C::a[i], k, i, half_dt);
+      k[i] = pure + times_pure(d, rate[i]);
+    } else {
+      k[i] = pure;
+    }
+  }
+  return k;
+}
+
+// Flops of the increment (stage slopes, δ, dt/2) plus the plain application (header comment).
+template <std::size_t S>
+constexpr int weighted_sum_flops(const std::array<long double, S>& w) noexcept {
+  const int n = static_cast<int>(count_nonzero(w));
+  return n == 0 ? 0 : 5 * n + 4 * (n - 1);
+}
 template <std::size_t S>
 constexpr int quaternion_runge_kutta_flops(const ButcherTableau<S>& t) noexcept {
-  return 1 + 20 * static_cast<int>(S) +
-         9 * static_cast<int>(count_nonzero(t.a) + count_nonzero(t.b));
+  int n = 1 + weighted_sum_flops(t.b) + apply_increment_flops;
+  for (std::size_t i = 0; i < S; ++i) {
+    const int row = weighted_sum_flops(t.a[i]);
+    n += row == 0 ? 0 : row + 23;
+  }
+  return n;
 }
 
 }  // namespace detail
@@ -223,47 +245,60 @@ struct ExplicitRungeKutta {
                 "a rate function replaces the sample window");
 
   using tableau = Tableau;  // the coefficients, for the bounds layer (stage growth, weights)
+  using family = ExplicitRungeKutta<Tableau, Layout, Window>;  // the bounds layer dispatches on it
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;
   static constexpr std::size_t new_samples = Window == 0 ? 0 : Window - 1;
   static constexpr std::size_t stages = Tableau::value.stages;
+  static constexpr bool exact_stage_rates =
+      Layout == SampleLayout::rate_function || detail::all_nodes_on_grid(Tableau::value, Window);
   // Order of the quaternion state (attitude and norm). Interpolated stage rates cap it at 2 (see
   // the header comment).
   static constexpr int state_order =
-      (Layout == SampleLayout::rate_function || detail::all_nodes_on_grid(Tableau::value, Window))
-          ? Tableau::value.order
-          : (Tableau::value.order < 2 ? Tableau::value.order : 2);
-  // Order of the attitude (the angle error once the norm is restored); the same as state_order
-  // except where a configuration below says otherwise.
-  static constexpr int order = state_order;
+      exact_stage_rates ? Tableau::value.order
+                        : (Tableau::value.order < 2 ? Tableau::value.order : 2);
+  // Order of the attitude (the angle error once the norm is restored): the tableau's attitude
+  // order with exact stage rates, else the state order.
+  static constexpr int order = exact_stage_rates ? Tableau::value.attitude_order : state_order;
+  static constexpr bool has_estimate = false;
   static constexpr int flops = detail::quaternion_runge_kutta_flops(Tableau::value) +
                                detail::stage_rate_flops(Tableau::value, Layout, Window);
-  static constexpr const char* name = "explicit_runge_kutta";
 
-  // One step from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
+  // δ = P − 1 from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
+  template <class T, SampleLayout L = Layout,
+            std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
+  static constexpr Increment<T> increment(const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
+    return {increment_from_stage_rates(detail::stage_rates_from_samples<Tableau, Window>(rate), dt), T(0)};
+  }
+  // δ = P − 1 from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
+  template <class T, class RateFunction, SampleLayout L = Layout,
+            std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
+  static Increment<T> increment(const RateFunction& rate_at, T dt) noexcept {
+    return {increment_from_stage_rates(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt), T(0)};
+  }
+
+  // q + q ⊗ δ from rate samples (the plain application; q body → reference).
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
   static constexpr Quaternion<T> step(const Quaternion<T>& q,
                                       const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
-    return advance(q, detail::stage_rates_from_samples<Tableau, Window>(rate), dt);
+    return apply_increment(q, increment(rate, dt).delta);
   }
-
-  // One step from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
+  // The same from a rate function.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
   static Quaternion<T> step(const Quaternion<T>& q, const RateFunction& rate_at, T dt) noexcept {
-    return advance(q, detail::stage_rates_from_function<Tableau>(rate_at, dt), dt);
+    return apply_increment(q, increment(rate_at, dt).delta);
   }
 
-  // One step from the rates at the stage times (rad/s, one per stage); the common core.
+  // δ = (dt/2) Σ b_i k̃_i from the rates at the stage times (rad/s, one per stage).
   template <class T>
-  static constexpr Quaternion<T> advance(const Quaternion<T>& q,
-                                         const std::array<Vector3<T>, stages>& stage_rate,
-                                         T dt) noexcept {
+  static constexpr Quaternion<T> increment_from_stage_rates(
+      const std::array<Vector3<T>, stages>& stage_rate, T dt) noexcept {
     const T half_dt = T(0.5) * dt;
     const std::array<Quaternion<T>, stages> k =
-        detail::quaternion_stage_slopes<Tableau>(q, stage_rate, half_dt);
-    return detail::combine_slopes(q, TableauCoefficients<Tableau, T>::b, k, half_dt);
+        detail::increment_stage_slopes<Tableau>(stage_rate, half_dt);
+    return detail::weighted_slopes(TableauCoefficients<Tableau, T>::b, k, stages, half_dt);
   }
 };
 
@@ -272,18 +307,24 @@ struct ExplicitRungeKutta {
 // step, mid-step rates by linear interpolation. "RateFunction": a callable gives ω at any τ.
 
 // RK2 midpoint, samples at start/middle/end (only the middle one read): order 2.
-struct RungeKutta2Sampled : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 3> {
-  static constexpr const char* name = "rk2_midpoint_sampled";
+struct RungeKutta2MidpointSampled : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 3> {
+  static constexpr const char* name = "runge_kutta_2_midpoint_sampled";
+  static constexpr const char* description =
+      "classic RK2 (midpoint) on the quaternion, stages at samples; 2 rates/step, order 2";
 };
 // RK2 midpoint, mid-step rate = mean of the end samples: order 2.
-struct RungeKutta2Interpolated
+struct RungeKutta2MidpointInterpolated
     : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 2> {
-  static constexpr const char* name = "rk2_midpoint_interpolated";
+  static constexpr const char* name = "runge_kutta_2_midpoint_interpolated";
+  static constexpr const char* description =
+      "RK2 (midpoint), mid-step rate interpolated linearly; 1 rate/step, order 2";
 };
 // RK2 midpoint, rate function: order 2.
-struct RungeKutta2RateFunction
+struct RungeKutta2MidpointRateFunction
     : ExplicitRungeKutta<MidpointTableau, SampleLayout::rate_function, 0> {
-  static constexpr const char* name = "rk2_midpoint_rate_function";
+  static constexpr const char* name = "runge_kutta_2_midpoint_rate_function";
+  static constexpr const char* description =
+      "RK2 (midpoint) on a rate function (truth motions only); order 2";
 };
 
 // RK3 Kutta, samples at start/middle/end: the quaternion state is third order, the attitude
@@ -293,35 +334,45 @@ struct RungeKutta2RateFunction
 // has rotation angle θ + O(θ⁵). Measured: attitude order 4.0 on classical coning, the
 // axisymmetric body and the two-gimbal motion, state order 3.0 (test_lie_group, test_orders).
 // With a renormalization policy the attitude error is what remains.
-struct RungeKutta3Sampled : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 3> {
-  static constexpr int order = 4;
-  static constexpr const char* name = "rk3_kutta_sampled";
+struct RungeKutta3KuttaSampled : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 3> {
+  static constexpr const char* name = "runge_kutta_3_kutta_sampled";
+  static constexpr const char* description =
+      "Kutta's RK3, stages at samples; 2 rates/step, attitude order 4";
 };
 // RK3 Kutta, linear interpolation between two samples: ONLY order 2.
-struct RungeKutta3Interpolated
+struct RungeKutta3KuttaInterpolated
     : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 2> {
-  static constexpr const char* name = "rk3_kutta_interpolated";
+  static constexpr const char* name = "runge_kutta_3_kutta_interpolated";
+  static constexpr const char* description =
+      "Kutta's RK3, stage rates interpolated linearly; 1 rate/step, order 2";
 };
-// RK3 Kutta, rate function: state order 3, attitude order 4 (see RungeKutta3Sampled).
-struct RungeKutta3RateFunction : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rate_function, 0> {
-  static constexpr int order = 4;
-  static constexpr const char* name = "rk3_kutta_rate_function";
+// RK3 Kutta, rate function: state order 3, attitude order 4 (see RungeKutta3KuttaSampled).
+struct RungeKutta3KuttaRateFunction : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rate_function, 0> {
+  static constexpr const char* name = "runge_kutta_3_kutta_rate_function";
+  static constexpr const char* description =
+      "Kutta's RK3 on a rate function (truth motions only); attitude order 4";
 };
 
 // Classic RK4, samples at start/middle/end (the step spans two sample periods): order 4.
 struct RungeKutta4Sampled
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 3> {
-  static constexpr const char* name = "rk4_sampled";
+  static constexpr const char* name = "runge_kutta_4_sampled";
+  static constexpr const char* description =
+      "classic RK4, stages at samples; 2 rates/step, order 4";
 };
 // Classic RK4, linear interpolation between two samples: ONLY order 2.
 struct RungeKutta4Interpolated
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 2> {
-  static constexpr const char* name = "rk4_interpolated";
+  static constexpr const char* name = "runge_kutta_4_interpolated";
+  static constexpr const char* description =
+      "classic RK4, stage rates interpolated linearly; 1 rate/step, order 2";
 };
 // Classic RK4, rate function: order 4.
 struct RungeKutta4RateFunction
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rate_function, 0> {
-  static constexpr const char* name = "rk4_rate_function";
+  static constexpr const char* name = "runge_kutta_4_rate_function";
+  static constexpr const char* description =
+      "classic RK4 on a rate function (truth motions only); order 4";
 };
 
 }  // namespace halfspin

@@ -6,89 +6,68 @@
 // non-commutativity, or coning, term): O(dt²) per step with ω̄ at one end (global order 1), O(dt³)
 // per step with ω̄ at mid-step (global order 2).
 //
-// Cost (series branch of quaternion_exp, |ω̄ dt|² below ScalarTraits::exp_series_angle_squared,
-// the usual case for a gyro step): scaling ω·dt 3, quaternion_exp 20, product 28 → 51 flops; the
-// mean of two samples costs 4 more. Above the threshold add a square root, a division and
-// sin/cos. Memory: none beyond the input window.
+// Each is a RotationVectorRule (rotation_vector_family.hpp), from which its order, flops and
+// bound are derived: quadrature weights, no commutator term. Cost (series branch of
+// quaternion_exp_minus_one, |ω̄ dt|² below ScalarTraits::exp_series_angle_squared, the usual case
+// for a gyro step): scaling ω·dt 3, exp(φ/2) − 1 19, plain application 32 → 54 flops; the mean of
+// two samples costs 4 more. Above the threshold add a square root, a division and two sines.
+// Memory: none beyond the input window.
 
-#include <array>
 #include <cstddef>
 
-#include "halfspin/core/exponential_map.hpp"
-#include "halfspin/core/quaternion.hpp"
-#include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/rotation_vector_family.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
 
-// Rate sampled at the end of the step, held back over it ("the newest sample"). Global order 1.
-struct ExpMapHoldEnd {
-  static constexpr SampleLayout layout = SampleLayout::rate_at_end;
-  static constexpr std::size_t window = 1;
-  static constexpr std::size_t new_samples = 1;
-  static constexpr int order = 1;
-  static constexpr int flops = 3 + quaternion_exp_series_flops + quaternion_product_flops;
-  static constexpr const char* name = "expmap_hold_end";
+// The rules: which sample is held, or how the two end samples are averaged.
+namespace rotation_vector_rules {
+// The rate at the end of the step held over it: rectangle rule, degree 0.
+struct HoldEnd {
+  static constexpr RotationVectorRule<1> value{SampleLayout::rate_at_end, {{1}}, 1, {{}, 1}};
+};
+// The rate at the start held over it (the end sample read only to close the step).
+struct HoldStart {
+  static constexpr RotationVectorRule<2> value{SampleLayout::rates_spanning, {{1, 0}}, 1, {{0}, 1}};
+};
+// The mean of the two end rates: trapezoid rule, degree 1.
+struct MidpointMean {
+  static constexpr RotationVectorRule<2> value{SampleLayout::rates_spanning, {{1, 1}}, 2, {{0}, 1}};
+};
+// A real sample at mid-step: midpoint rule, degree 1; the step spans two sample periods.
+struct MidpointSample {
+  static constexpr RotationVectorRule<3> value{SampleLayout::rates_spanning, {{0, 1, 0}}, 1, {{0, 0}, 1}};
+};
+}  // namespace rotation_vector_rules
 
-  // q ⊗ exp(ω_end·dt/2); ω in rad/s, dt in s.
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& rate,
-                            T dt) noexcept {
-    return q * quaternion_exp(rate[0] * dt);
-  }
+// q ⊗ exp(ω_end·dt/2): the newest sample held back over the step. Global order 1.
+struct ExponentialMapHoldEnd : RotationVectorStepper<rotation_vector_rules::HoldEnd> {
+  static constexpr const char* name = "exponential_map_hold_end";
+  static constexpr const char* description =
+      "exponential map of the rate at the step's end held over the step; 1 rate/step, order 1";
 };
 
-// Rate sampled at the start of the step, held over it. Global order 1.
-struct ExpMapHoldStart {
-  static constexpr SampleLayout layout = SampleLayout::rates_spanning;
-  static constexpr std::size_t window = 2;
-  static constexpr std::size_t new_samples = 1;
-  static constexpr int order = 1;
-  static constexpr int flops = 3 + quaternion_exp_series_flops + quaternion_product_flops;
-  static constexpr const char* name = "expmap_hold_start";
-
-  // q ⊗ exp(ω_start·dt/2); rate[0] at step start, rate[1] (unused) at its end.
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& rate,
-                            T dt) noexcept {
-    return q * quaternion_exp(rate[0] * dt);
-  }
+// q ⊗ exp(ω_start·dt/2); rate[0] at step start, rate[1] (unused) at its end. Global order 1.
+struct ExponentialMapHoldStart : RotationVectorStepper<rotation_vector_rules::HoldStart> {
+  static constexpr const char* name = "exponential_map_hold_start";
+  static constexpr const char* description =
+      "exponential map of the rate at the step's start held over the step; 1 rate/step, order 1";
 };
 
-// Mean of the two end samples held over the step: the trapezoid rule for the rotation vector.
-// Global order 2. The usual choice when only one rate sample per step arrives.
-struct ExpMapMidpointMean {
-  static constexpr SampleLayout layout = SampleLayout::rates_spanning;
-  static constexpr std::size_t window = 2;
-  static constexpr std::size_t new_samples = 1;
-  static constexpr int order = 2;
-  static constexpr int flops = 7 + quaternion_exp_series_flops + quaternion_product_flops;
-  static constexpr const char* name = "expmap_midpoint_mean";
-
-  // q ⊗ exp((ω_start + ω_end)·dt/4).
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& rate,
-                            T dt) noexcept {
-    return q * quaternion_exp((rate[0] + rate[1]) * (T(0.5) * dt));
-  }
+// q ⊗ exp((ω_start + ω_end)·dt/4): the trapezoid rule for the rotation vector. Global order 2.
+// The usual choice when only one rate sample per step arrives.
+struct ExponentialMapMidpointMean : RotationVectorStepper<rotation_vector_rules::MidpointMean> {
+  static constexpr const char* name = "exponential_map_midpoint_mean";
+  static constexpr const char* description =
+      "exponential map of the mean of the two end rates (trapezoid); 1 rate/step, order 2";
 };
 
-// A real sample at mid-step held over the step: the midpoint rule. Global order 2. The step
-// spans two sample periods (samples at start, middle, end; only the middle one is read).
-struct ExpMapMidpointSample {
-  static constexpr SampleLayout layout = SampleLayout::rates_spanning;
-  static constexpr std::size_t window = 3;
-  static constexpr std::size_t new_samples = 2;
-  static constexpr int order = 2;
-  static constexpr int flops = 3 + quaternion_exp_series_flops + quaternion_product_flops;
-  static constexpr const char* name = "expmap_midpoint_sample";
-
-  // q ⊗ exp(ω_mid·dt/2).
-  template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& rate,
-                            T dt) noexcept {
-    return q * quaternion_exp(rate[1] * dt);
-  }
+// q ⊗ exp(ω_mid·dt/2): the midpoint rule, samples at start, middle and end (only the middle one
+// is read). Global order 2.
+struct ExponentialMapMidpointSample : RotationVectorStepper<rotation_vector_rules::MidpointSample> {
+  static constexpr const char* name = "exponential_map_midpoint_sample";
+  static constexpr const char* description =
+      "exponential map of the mid-step rate sample; 2 rates/step, order 2";
 };
 
 }  // namespace halfspin

@@ -31,9 +31,9 @@
 //
 // Cost (counted from the code; + − × ÷ one flop, sign flips free): stage 1 reads ω₁ (0); stages
 // 2–4: θ_i 7 per nonzero a_ij (a·dt 1, 3 ×, 3 +), dexp⁻¹ 30 (two cross products 18, 6 ×, 6 +);
-// θ(dt) 7 per nonzero b_i; quaternion_exp 20 on its series branch (|θ|² below
-// ScalarTraits::exp_series_angle_squared; above, add √, ÷, sin and cos, each counted 1);
-// product 28. Memory: four rate vectors and four algebra slopes on the stack; nothing between
+// θ(dt) 7 per nonzero b_i; exp(θ/2) − 1 19 on its series branch (|θ|² below
+// ScalarTraits::exp_series_angle_squared; above, add √, ÷ and two sines, each counted 1); the
+// plain application 32. The increment (stepper_traits.hpp) is exp(θ(dt)/2) − 1. Memory: four rate vectors and four algebra slopes on the stack; nothing between
 // steps.
 
 #include <array>
@@ -66,33 +66,43 @@ constexpr Vector3<T> rotation_vector_rate(const Vector3<T>& theta, const Vector3
 template <class Tableau, SampleLayout Layout, std::size_t Window>
 struct MuntheKaasRungeKutta {
   static_assert(Tableau::value.order <= 4, "the dexp⁻¹ truncation supports order ≤ 4");
-  using Explicit = ExplicitRungeKutta<Tableau, Layout, Window>;  // same inputs, same order
+  using Explicit = ExplicitRungeKutta<Tableau, Layout, Window>;  // same inputs
+  using tableau = Tableau;
+  using family = MuntheKaasRungeKutta<Tableau, Layout, Window>;  // the bounds layer dispatches on it
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;
   static constexpr std::size_t new_samples = Explicit::new_samples;
   static constexpr std::size_t stages = Explicit::stages;
-  static constexpr int order = Explicit::order;
+  // Classical order of the tableau on the rotation-vector equation, capped at 2 by interpolated
+  // stage rates (no norm/attitude distinction: the update is a rotation).
+  static constexpr int order = Explicit::state_order;
+  static constexpr bool has_estimate = false;
   static constexpr int flops = 30 * (static_cast<int>(stages) - 1) +
                                7 * static_cast<int>(detail::count_nonzero(Tableau::value.a) +
                                                     detail::count_nonzero(Tableau::value.b)) +
-                               quaternion_exp_series_flops + quaternion_product_flops + detail::stage_rate_flops(Tableau::value, Layout, Window);
-  static constexpr const char* name = "munthe_kaas_runge_kutta";
+                               quaternion_exp_minus_one_series_flops + apply_increment_flops +
+                               detail::stage_rate_flops(Tableau::value, Layout, Window);
 
-  // One step from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
+  // exp(θ(dt)/2) − 1 from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, Window>& rate,
-                            T dt) noexcept {
-    return q * quaternion_exp(
-                   rotation_vector(detail::stage_rates_from_samples<Tableau, Window>(rate), dt));
+  static Increment<T> increment(const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
+    return {quaternion_exp_minus_one(
+                rotation_vector(detail::stage_rates_from_samples<Tableau, Window>(rate), dt)),
+            T(0)};
   }
-
-  // One step from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
+  // The same from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
-  static Quaternion<T> step(const Quaternion<T>& q, const RateFunction& rate_at, T dt) noexcept {
-    return q * quaternion_exp(
-                   rotation_vector(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt));
+  static Increment<T> increment(const RateFunction& rate_at, T dt) noexcept {
+    return {quaternion_exp_minus_one(
+                rotation_vector(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt)),
+            T(0)};
+  }
+  // q ⊗ exp(θ(dt)/2), applied plainly (q body → reference).
+  template <class T, class Input>
+  static Quaternion<T> step(const Quaternion<T>& q, const Input& input, T dt) noexcept {
+    return apply_increment(q, increment(input, dt).delta);
   }
 
   // The step's rotation vector θ(dt) (rad, body frame) from the rates at the stage times (rad/s).
@@ -124,17 +134,23 @@ struct MuntheKaasRungeKutta {
 // RKMK4, samples at start/middle/end (two sample periods per step): order 4.
 struct MuntheKaas4Sampled
     : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 3> {
-  static constexpr const char* name = "rkmk4_sampled";
+  static constexpr const char* name = "munthe_kaas_4_sampled";
+  static constexpr const char* description =
+      "Munthe-Kaas RK4 on the rotation vector, stages at samples; 2 rates/step, order 4";
 };
 // RKMK4, linear interpolation between two samples: ONLY order 2.
 struct MuntheKaas4Interpolated
     : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 2> {
-  static constexpr const char* name = "rkmk4_interpolated";
+  static constexpr const char* name = "munthe_kaas_4_interpolated";
+  static constexpr const char* description =
+      "Munthe-Kaas RK4, stage rates interpolated linearly; 1 rate/step, order 2";
 };
 // RKMK4, rate function: order 4.
 struct MuntheKaas4RateFunction
     : MuntheKaasRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rate_function, 0> {
-  static constexpr const char* name = "rkmk4_rate_function";
+  static constexpr const char* name = "munthe_kaas_4_rate_function";
+  static constexpr const char* description =
+      "Munthe-Kaas RK4 on a rate function (truth motions only); order 4";
 };
 
 }  // namespace halfspin

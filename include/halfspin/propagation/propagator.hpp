@@ -1,8 +1,9 @@
 #pragma once
 // The propagator: owns the attitude and the fixed-size sample history its stepper needs,
-// validates every input, runs the stepper and the renormalization policy, and keeps counters and
-// the last per-step error estimate. The stepper does one step; the propagator decides when and
-// with what input.
+// validates every input, runs the stepper, applies the increment it returns through the
+// accumulation policy (stepper_traits.hpp: PlainAccumulation, q + q ⊗ δ rounded in T), runs the
+// renormalization policy, and keeps counters and the last per-step error estimate. The stepper
+// computes one increment; the propagator decides when and with what input.
 //
 // Bad input never touches the state: a sample with NaN/Inf, a non-positive or oversized interval,
 // or a rate beyond the gyro range is rejected with its status code, the attitude and the history
@@ -58,17 +59,20 @@ struct PropagationCounters {
   }
 };
 
-template <class T, class Stepper, class Renormalization = FirstOrderRenormalization>
+template <class T, class Stepper, class Renormalization = FirstOrderRenormalization,
+          class Accumulation = PlainAccumulation>
 class Propagator {
  public:
   using scalar = T;
   using stepper = Stepper;
+  using accumulation = Accumulation;
   static constexpr std::size_t window = Stepper::window;
 
   // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks).
   constexpr Propagator(const Quaternion<T>& initial, const GyroLimits<T>& limits,
                        T tick_period = T(0), Renormalization policy = {}) noexcept
-      : attitude_(initial), limits_(limits), tick_period_(tick_period), policy_(policy) {
+      : state_(Accumulation::start(initial)), limits_(limits), tick_period_(tick_period),
+        policy_(policy) {
     restart_history();
   }
 
@@ -107,22 +111,14 @@ class Propagator {
       count_rejection(s);
       return s;
     }
-    T estimate = T(0);
-    Quaternion<T> next;
-    if constexpr (has_rate_function_error_estimate<Stepper, T, RateFunction>::value) {
-      const StepOutcome<T> out = Stepper::step_with_estimate(attitude_, rate_at, dt);
-      next = out.attitude;
-      estimate = out.error_estimate;
-    } else {
-      next = Stepper::step(attitude_, rate_at, dt);
-    }
-    return commit_if_usable(next, estimate, dt) ? Status::ok : Status::non_finite;
+    const Increment<T> increment = Stepper::increment(rate_at, dt);
+    return commit_if_usable(increment, dt) ? Status::ok : Status::non_finite;
   }
 
   // The attitude (body → reference) after the last step.
-  constexpr const Quaternion<T>& attitude() const noexcept { return attitude_; }
+  constexpr Quaternion<T> attitude() const noexcept { return Accumulation::attitude(state_); }
   // ‖q‖ − 1 of the attitude: what the renormalization policy keeps small.
-  T norm_error() const noexcept { return norm(attitude_) - T(1); }
+  T norm_error() const noexcept { return norm(attitude()) - T(1); }
   constexpr const PropagationCounters& counters() const noexcept { return counters_; }
   // The stepper's local error estimate for the last step (rad), 0 if it has none.
   constexpr T last_error_estimate() const noexcept { return last_error_estimate_; }
@@ -137,7 +133,7 @@ class Propagator {
 
   // Re-anchors the attitude (after a gap, or from an external fix) and restarts the history.
   void reset(const Quaternion<T>& attitude) noexcept {
-    attitude_ = attitude;
+    state_ = Accumulation::start(attitude);
     counters_.discarded_samples += pending_samples();
     restart_history();
     gap_pending_ = false;
@@ -169,27 +165,14 @@ class Propagator {
     const Vector3<T> displaced = history_[window - 1];
     history_[window - 1] = sample;
     const T step_dt = window_dt_ + dt;
-    T estimate = T(0);
-    const Quaternion<T> next = run_stepper(history_, step_dt, estimate);
-    if (!commit_if_usable(next, estimate, step_dt)) {
+    const Increment<T> increment = Stepper::template increment<T>(history_, step_dt);
+    if (!commit_if_usable(increment, step_dt)) {
       history_[window - 1] = displaced;
       return Status::non_finite;
     }
     ++counters_.samples_accepted;
     shift_history();
     return Status::ok;
-  }
-
-  Quaternion<T> run_stepper(const std::array<Vector3<T>, window>& input, T dt,
-                            T& estimate) const noexcept {
-    if constexpr (has_error_estimate<Stepper, T>::value) {
-      const StepOutcome<T> out = Stepper::template step_with_estimate<T>(attitude_, input, dt);
-      estimate = out.error_estimate;
-      return out.attitude;
-    } else {
-      static_cast<void>(estimate);
-      return Stepper::template step<T>(attitude_, input, dt);
-    }
   }
 
   // An attitude the state may hold: ‖q‖² positive and finite in T (so no NaN or infinity, and
@@ -200,18 +183,22 @@ class Propagator {
   }
 
   // Takes a step if its result is usable, else counts a non_finite rejection and changes nothing.
-  // The policy runs on a copy (it may count steps) and its result is checked as well: a finite
-  // step result can still renormalize to a non-finite or zero attitude (a first-order Newton step
-  // on a Runge–Kutta result far from unit norm after a huge step angle overflows).
-  bool commit_if_usable(const Quaternion<T>& next, T estimate, T dt) noexcept {
+  // The accumulation and the policy run on copies (the policy may count steps) and the result is
+  // checked: a finite step result can still renormalize to a non-finite or zero attitude (a
+  // first-order Newton step on a Runge–Kutta result far from unit norm after a huge step angle).
+  bool commit_if_usable(const Increment<T>& increment, T dt) noexcept {
+    const typename Accumulation::template State<T> advanced =
+        Accumulation::advanced(state_, increment.delta);
+    const Quaternion<T> next = Accumulation::attitude(advanced);
     Renormalization policy = policy_;
     const Quaternion<T> kept = policy.apply(next);
+    const T estimate = increment.error_estimate;
     if (!is_finite(next) || !is_usable(kept) || !(estimate - estimate == T(0))) {
       count_rejection(Status::non_finite);
       return false;
     }
     last_error_estimate_ = estimate;
-    attitude_ = kept;
+    state_ = Accumulation::with_attitude(advanced, kept);
     policy_ = policy;
     ++counters_.steps;
     accumulated_error_estimate_ += last_error_estimate_;
@@ -263,7 +250,7 @@ class Propagator {
     }
   }
 
-  Quaternion<T> attitude_;
+  typename Accumulation::template State<T> state_;
   GyroLimits<T> limits_;
   T tick_period_;
   Renormalization policy_;

@@ -1,10 +1,15 @@
 #pragma once
-// What every stepper declares, and how the propagator reads it.
+// What every stepper declares, and how the propagator reads it: the stepper contract.
 //
-// A stepper is a struct of static constexpr facts and a static, pure `step` function: it takes the
-// attitude at step start, the gyro input covering the step, and the step length dt (s), and
-// returns the attitude at step end. It keeps no state; the propagator owns the attitude and the
-// sample history. Facts every stepper declares:
+// For every stepper in the library the step is q_next = q ⊗ P, with P depending only on the gyro
+// input and the step length: P = exp(φ/2) for the exponential-map, Magnus, coning and Lie-group
+// families, and P = 1 + Σ b_i m_i for explicit Runge–Kutta on q̇ = ½ q ⊗ (0, ω), whose stages are
+// linear in q (k_i = q ⊗ m_i). A stepper therefore returns the increment δ = P − 1, computed
+// without cancellation (accurate relative to its own size, however small the step), and its local
+// error estimate where it has one. Applying it, q + q ⊗ δ rounded in T, happens in one place: the
+// propagator's accumulation policy (PlainAccumulation below), so that another accumulation can be
+// added without touching any stepper. A stepper keeps no state; the propagator owns the attitude
+// and the sample history. Facts every stepper declares:
 //
 //   static constexpr SampleLayout layout;        // what the input array holds (below)
 //   static constexpr std::size_t window;         // samples the step reads
@@ -12,21 +17,28 @@
 //   static constexpr int order;                  // global order reached WITH THIS INPUT on any
 //                                                //   smooth motion (the attitude, i.e. the angle
 //                                                //   error, renormalized)
-//   static constexpr int flops;                  // floating-point operations per step (+ − × ÷ √,
-//                                                //   a libm call counted as documented in the header)
-//   static constexpr const char* name;           // short identifier (tools, benchmarks)
+//   static constexpr int flops;                  // floating-point operations per step, the
+//                                                //   increment and its plain application (+ − × ÷
+//                                                //   √, a libm call counted as documented)
+//   static constexpr bool has_estimate;          // the increment carries an error estimate
+//   static constexpr const char* name;           // the one name, everywhere (tools, benchmarks,
+//                                                //   CMake lists, docs): snake_case of the type
+//   static constexpr const char* description;    // one line: what it does, what it takes
 //
 // and one of
-//   template <class T> static Quaternion<T> step(const Quaternion<T>& q,
+//   template <class T> static Increment<T> increment(
 //       const std::array<Vector3<T>, window>& input, T dt) noexcept;          // sample layouts
-//   template <class T, class RateFunction> static Quaternion<T> step(const Quaternion<T>& q,
+//   template <class T, class RateFunction> static Increment<T> increment(
 //       const RateFunction& rate_at, T dt) noexcept;                          // rate_function
+// plus the conveniences step(q, input, dt) → Quaternion<T> and step_with_estimate(q, input, dt)
+// → StepOutcome<T>, both the plain application of the increment (apply_increment below).
 // Runge–Kutta steppers also declare `state_order`: the order of the quaternion state including its
 // norm, which can be lower than the attitude order (Kutta's RK3: state 3, attitude 4).
 // Coning-compensation steppers also declare `coning_order`: the order of the attitude error under
 // pure classical coning at small cone angles (2N for the N-sample algorithms), higher than `order`.
-// Steppers with a cheap a-posteriori error signal also provide `step_with_estimate`, same
-// arguments, returning StepOutcome<T>.
+// Every stepper names its family's data as `family` (a rotation-vector rule, a Butcher tableau
+// with its input form, ...); the bounds layer dispatches on it, so a stepper and its bound are
+// derived from the same data and cannot disagree.
 //
 // The order is the order the method reaches with the input it takes: classic Runge–Kutta 4 fed
 // rates interpolated linearly between samples is second order, and its header says so.
@@ -84,25 +96,70 @@ struct StepOutcome {
   T error_estimate;
 };
 
-// Detects whether Stepper offers step_with_estimate for sample inputs of scalar T.
-template <class Stepper, class T, class = void>
-struct has_error_estimate : std::false_type {};
-template <class Stepper, class T>
-struct has_error_estimate<
-    Stepper, T,
-    std::void_t<decltype(Stepper::template step_with_estimate<T>(
-        std::declval<const Quaternion<T>&>(),
-        std::declval<const std::array<Vector3<T>, Stepper::window>&>(), std::declval<T>()))>>
-    : std::true_type {};
+// What a stepper returns: the increment δ = P − 1 of q_next = q ⊗ P (dimensionless), and the
+// local error estimate of the step (rad; 0 where the stepper has none).
+template <class T>
+struct Increment {
+  Quaternion<T> delta;
+  T error_estimate;
+};
 
-// Detects whether a rate-function Stepper offers step_with_estimate for callable F.
-template <class Stepper, class T, class F, class = void>
-struct has_rate_function_error_estimate : std::false_type {};
-template <class Stepper, class T, class F>
-struct has_rate_function_error_estimate<
-    Stepper, T, F,
-    std::void_t<decltype(Stepper::step_with_estimate(std::declval<const Quaternion<T>&>(),
-                                                     std::declval<const F&>(), std::declval<T>()))>>
-    : std::true_type {};
+// Floating-point operations of apply_increment: the product 28 and the sum 4.
+inline constexpr int apply_increment_flops = 32;
+
+// q + q ⊗ δ (q body → reference): the plain application of an increment, rounded in T. The one
+// place where an increment meets the attitude; the propagator reaches it through its accumulation
+// policy.
+template <class T>
+constexpr Quaternion<T> apply_increment(const Quaternion<T>& q, const Quaternion<T>& delta) noexcept {
+  return q + q * delta;
+}
+
+// The plain accumulation policy: the attitude is one quaternion in T and each step adds q ⊗ δ to
+// it (one rounding per component on top of the product's). Policies own the attitude's storage,
+// so that a compensated one (the attitude as an unevaluated sum of two T quaternions) can replace
+// this without any change to a stepper or to the propagator's logic.
+struct PlainAccumulation {
+  static constexpr const char* name = "plain";
+  static constexpr int flops = apply_increment_flops;
+
+  template <class T>
+  struct State {
+    Quaternion<T> attitude;
+  };
+  // The state holding attitude q (body → reference).
+  template <class T>
+  static constexpr State<T> start(const Quaternion<T>& q) noexcept {
+    return {q};
+  }
+  // The state after one step with increment delta.
+  template <class T>
+  static constexpr State<T> advanced(const State<T>& s, const Quaternion<T>& delta) noexcept {
+    return {apply_increment(s.attitude, delta)};
+  }
+  // The attitude the state stands for (body → reference).
+  template <class T>
+  static constexpr const Quaternion<T>& attitude(const State<T>& s) noexcept {
+    return s.attitude;
+  }
+  // The state with its attitude replaced by q (after renormalization).
+  template <class T>
+  static constexpr State<T> with_attitude(const State<T>& /*s*/, const Quaternion<T>& q) noexcept {
+    return {q};
+  }
+};
+
+// The input a stepper's increment takes for scalar T: its sample window (rate_function steppers
+// take a callable instead and have no window type).
+template <class Stepper, class T>
+using StepperWindow = std::array<Vector3<T>, Stepper::window>;
+
+// Whether Stepper's increment carries an error estimate (its `has_estimate`), as a trait. T (and
+// the rate function type F) are accepted for the callers that name them; the answer is the
+// stepper's alone.
+template <class Stepper, class T = void>
+struct has_error_estimate : std::integral_constant<bool, Stepper::has_estimate> {};
+template <class Stepper, class T = void, class F = void>
+struct has_rate_function_error_estimate : std::integral_constant<bool, Stepper::has_estimate> {};
 
 }  // namespace halfspin

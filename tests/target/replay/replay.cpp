@@ -169,9 +169,9 @@ void run_two_speed() {
 // threshold and quaternion_exp calls sqrt, cos and sin (libm: newlib on the target, glibc on the
 // host).
 void run_libm_exponential() {
-  halfspin::Propagator<float, halfspin::ExpMapHoldEnd, halfspin::ExactRenormalization> p(
+  halfspin::Propagator<float, halfspin::ExponentialMapHoldEnd, halfspin::ExactRenormalization> p(
       Quaternion<float>::identity(), halfspin::GyroLimits<float>{35.0f, 2.0f});
-  Trace trace('L', "expmap_hold_end_1s_steps", "exact");
+  Trace trace('L', "exponential_map_hold_end_1s_steps", "exact");
   GyroLog log;
   int libm_steps = 0;
   for (int k = 0; k < sample_count; ++k) {
@@ -188,7 +188,7 @@ void run_libm_exponential() {
     }
   }
   trace.finish(p.elapsed_seconds());
-  std::printf("# expmap_hold_end_1s_steps: %d of %d steps on the sin/cos branch\n", libm_steps,
+  std::printf("# exponential_map_hold_end_1s_steps: %d of %d steps on the sin/cos branch\n", libm_steps,
               sample_count);
 }
 
@@ -209,9 +209,9 @@ void run_libm_exponential_calls() {
 // Counter-example 3: the logarithm map (atan2 above its series threshold) of each attitude of a
 // replaying propagation.
 void run_libm_logarithm() {
-  halfspin::Propagator<float, halfspin::ExpMapMidpointMean, halfspin::ExactRenormalization> p(
+  halfspin::Propagator<float, halfspin::ExponentialMapMidpointMean, halfspin::ExactRenormalization> p(
       Quaternion<float>::identity(), limits);
-  Trace trace('L', "log_of_expmap_midpoint_mean", "exact");
+  Trace trace('L', "log_of_exponential_map_midpoint_mean", "exact");
   GyroLog log;
   for (int k = 0; k < sample_count; ++k) {
     const Status status = p.push(log.next().rate, sample_period);
@@ -269,16 +269,16 @@ int main() {
     ++failures;
   }
 
-  run_samples<ExpMapHoldEnd, FirstOrderRenormalization>();
-  run_samples<ExpMapHoldEnd, ExactRenormalization>();
-  run_samples<ExpMapHoldStart, FirstOrderRenormalization>();
-  run_samples<ExpMapMidpointMean, FirstOrderRenormalization>();
-  run_samples<ExpMapMidpointMean, ExactRenormalization>();
-  run_samples<ExpMapMidpointSample, FirstOrderRenormalization>();
-  run_samples<RungeKutta2Sampled, FirstOrderRenormalization>();
-  run_samples<RungeKutta2Interpolated, FirstOrderRenormalization>();
-  run_samples<RungeKutta3Sampled, FirstOrderRenormalization>();
-  run_samples<RungeKutta3Interpolated, FirstOrderRenormalization>();
+  run_samples<ExponentialMapHoldEnd, FirstOrderRenormalization>();
+  run_samples<ExponentialMapHoldEnd, ExactRenormalization>();
+  run_samples<ExponentialMapHoldStart, FirstOrderRenormalization>();
+  run_samples<ExponentialMapMidpointMean, FirstOrderRenormalization>();
+  run_samples<ExponentialMapMidpointMean, ExactRenormalization>();
+  run_samples<ExponentialMapMidpointSample, FirstOrderRenormalization>();
+  run_samples<RungeKutta2MidpointSampled, FirstOrderRenormalization>();
+  run_samples<RungeKutta2MidpointInterpolated, FirstOrderRenormalization>();
+  run_samples<RungeKutta3KuttaSampled, FirstOrderRenormalization>();
+  run_samples<RungeKutta3KuttaInterpolated, FirstOrderRenormalization>();
   run_samples<RungeKutta4Sampled, FirstOrderRenormalization>();
   run_samples<RungeKutta4Sampled, ExactRenormalization>();
   run_samples<RungeKutta4Sampled, NoRenormalization>();
@@ -288,16 +288,16 @@ int main() {
   run_samples<MuntheKaas4Interpolated, FirstOrderRenormalization>();
   run_samples<Magnus4, FirstOrderRenormalization>();
   run_samples<Magnus4, ExactRenormalization>();
-  run_samples<ConingOneSample, FirstOrderRenormalization>();
-  run_samples<ConingOneSamplePlusPrevious, FirstOrderRenormalization>();
-  run_samples<ConingTwoSample, FirstOrderRenormalization>();
-  run_samples<ConingTwoSample, ExactRenormalization>();
-  run_samples<ConingThreeSample, FirstOrderRenormalization>();
-  run_samples<ConingThreeSampleOlder, FirstOrderRenormalization>();
-  run_samples<ConingFourSample, FirstOrderRenormalization>();
+  run_samples<Coning1Sample, FirstOrderRenormalization>();
+  run_samples<Coning1SamplePlusPrevious, FirstOrderRenormalization>();
+  run_samples<Coning2Sample, FirstOrderRenormalization>();
+  run_samples<Coning2Sample, ExactRenormalization>();
+  run_samples<Coning3Sample, FirstOrderRenormalization>();
+  run_samples<Coning3SampleMiller, FirstOrderRenormalization>();
+  run_samples<Coning4Sample, FirstOrderRenormalization>();
   run_two_speed();
-  run_rate_function<RungeKutta2RateFunction, FirstOrderRenormalization>();
-  run_rate_function<RungeKutta3RateFunction, FirstOrderRenormalization>();
+  run_rate_function<RungeKutta2MidpointRateFunction, FirstOrderRenormalization>();
+  run_rate_function<RungeKutta3KuttaRateFunction, FirstOrderRenormalization>();
   run_rate_function<RungeKutta4RateFunction, FirstOrderRenormalization>();
   run_rate_function<MuntheKaas4RateFunction, NoRenormalization>();
   run_rate_function<BogackiShampine32RateFunction, FirstOrderRenormalization>();

@@ -155,7 +155,7 @@ TEST_CASE("halfspin-propagate streams a 10^7-line log in constant memory", "[too
   const double error = halfspin::angle_between(large.final_attitude, truth);
   halfspin::MotionDescription<double> d{};
   d.coning = {0.05, 10.0};
-  const double bound = halfspin::horizon_error_bound<halfspin::ConingTwoSample>(d, 0.002, 10000.0);
+  const double bound = halfspin::horizon_error_bound<halfspin::Coning2Sample>(d, 0.002, 10000.0);
   std::printf("10^7-line log: final attitude error vs truth %.4e rad, a-priori bound %.4e rad\n",
               error, bound);
   REQUIRE(error <= bound);

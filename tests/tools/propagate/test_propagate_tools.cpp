@@ -156,8 +156,8 @@ TEST_CASE("constant-rate logs propagate to the closed form in double and float",
     const char* log;
     int periods_per_row;
   };
-  const Case cases[] = {{"expmap_hold_end", "rate.csv", 1},     {"expmap_midpoint_mean", "rate.csv", 1},
-                        {"magnus4", "rate.csv", 2},             {"coning_1_sample", "delta.csv", 1},
+  const Case cases[] = {{"exponential_map_hold_end", "rate.csv", 1},     {"exponential_map_midpoint_mean", "rate.csv", 1},
+                        {"magnus_4", "rate.csv", 2},             {"coning_1_sample", "delta.csv", 1},
                         {"coning_2_sample", "delta.csv", 2},    {"coning_1_sample_plus_previous", "delta.csv", 1}};
   for (const Case& c : cases) {
     for (const char* scalar : {"double", "float"}) {
@@ -207,7 +207,7 @@ TEST_CASE("gyro-log and propagate round trip on coning: error small, 4th order",
     const char* method;
     const char* form;
   };
-  for (const Case c : {Case{"coning_2_sample", "delta"}, Case{"magnus4", "rate"}}) {
+  for (const Case c : {Case{"coning_2_sample", "delta"}, Case{"magnus_4", "rate"}}) {
     INFO(c.method);
     double max_error[2] = {0.0, 0.0};
     for (int i = 0; i < 2; ++i) {
@@ -319,7 +319,7 @@ TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no tempo
   SECTION("a log with no complete step, and a failure leaves an existing output untouched") {
     write_lines(dir / "short.csv", {"t,wx,wy,wz", "0,0.1,0,0", "0.01,0.1,0,0"});
     write_lines(dir / "out.csv", {"previous contents"});
-    const Run r = propagate({(dir / "short.csv").string(), "--method", "magnus4", "--output",
+    const Run r = propagate({(dir / "short.csv").string(), "--method", "magnus_4", "--output",
                              (dir / "out.csv").string()},
                             dir);
     CHECK(r.code == 2);
@@ -453,7 +453,7 @@ TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tool
   for (const Case& c : cases) {
     INFO(c.name);
     write_bytes(dir / "log.csv", rate_log_text("\n", 9, c.row));
-    const Run r = propagate({(dir / "log.csv").string(), "--method", "expmap_hold_end", "--scalar", c.scalar,
+    const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end", "--scalar", c.scalar,
                              "--output", (dir / "out.csv").string()},
                             dir);
     INFO(r.err);
@@ -481,7 +481,7 @@ TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tool
       // A subnormal rate turns the attitude by less than half an ulp of 1 (IEEE 754 round to
       // nearest, common practice, no source): the output is byte-identical to the log with 0.
       write_bytes(dir / "zero.csv", rate_log_text("\n", 9, "0.09,0,0,0"));
-      REQUIRE(propagate({(dir / "zero.csv").string(), "--method", "expmap_hold_end", "--scalar", c.scalar,
+      REQUIRE(propagate({(dir / "zero.csv").string(), "--method", "exponential_map_hold_end", "--scalar", c.scalar,
                          "--output", (dir / "zero_out.csv").string()},
                         dir)
                   .code == 0);
@@ -502,7 +502,7 @@ TEST_CASE("skip-bad mode skips bad samples and counts them per class", "[tools]"
   lines.insert(lines.begin() + 19, "0.17,0.2,0,0");       // after row 17: repeated timestamp
   lines.erase(lines.begin() + 22, lines.begin() + 25);    // rows 20, 21, 22 missing: gap before 23
   write_lines(dir / "log.csv", lines);
-  const Run r = propagate({(dir / "log.csv").string(), "--method", "expmap_hold_end", "--skip-bad",
+  const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end", "--skip-bad",
                            "--max-rate", "1", "--output", (dir / "out.csv").string()},
                           dir);
   INFO(r.err);
@@ -537,9 +537,9 @@ TEST_CASE("bad usage exits 1 and writes nothing", "[tools]") {
   };
   const std::vector<Case> cases{
       {{rate, "--method", "no_such_method", "--output", out}, "unknown method"},
-      {{delta, "--method", "expmap_midpoint_mean", "--output", out}, "takes rates but"},
+      {{delta, "--method", "exponential_map_midpoint_mean", "--output", out}, "takes rates but"},
       {{rate, "--method", "coning_2_sample", "--output", out}, "takes delta-angles but"},
-      {{rate, "--method", "rk4_rate_function", "--output", out}, "needs a rate function"},
+      {{rate, "--method", "runge_kutta_4_rate_function", "--output", out}, "needs a rate function"},
       {{rate, "--frobnicate", "--output", out}, "unknown option"},
       {{rate}, "--output FILE is required"},
       {{rate, "--scalar", "half", "--output", out}, "--scalar"},
@@ -605,7 +605,7 @@ TEST_CASE("output columns: exact header, Euler consistent with q, estimate only 
     for (const char* scalar : {"double", "float"}) {
       for (const char* seq : {"zyx", "zxz", "xyz"}) {
         INFO(scalar << " " << seq);
-        const Run r = propagate({(dir / "rate.csv").string(), "--method", "magnus4", "--scalar", scalar,
+        const Run r = propagate({(dir / "rate.csv").string(), "--method", "magnus_4", "--scalar", scalar,
                                  "--euler", seq, "--renormalize", "none", "--output",
                                  (dir / "out.csv").string()},
                                 dir);
