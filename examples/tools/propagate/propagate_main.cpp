@@ -82,7 +82,7 @@ std::optional<GyroLogForm> read_log_form(NumericCsvReader<4>& reader, const std:
 // usage error, or "".
 std::string match_method_to_form(Options& opt, GyroLogForm form) {
   if (opt.method.empty()) {
-    opt.method = form == GyroLogForm::rate ? "expmap_midpoint_mean" : "coning_2_sample";
+    opt.method = form == GyroLogForm::rate ? "exponential_map_midpoint_mean" : "coning_2_sample";
   }
   const bool takes_deltas = carries_delta_angles(find_method(opt.method)->layout);
   if (takes_deltas == (form == GyroLogForm::delta_angle)) return "";

@@ -261,7 +261,7 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   const std::string png = path("coning.png");
   std::remove(svg.c_str());
   std::remove(png.c_str());
-  const Result r = run_tool("--motion coning --methods magnus4,coning_2_sample,rk4_rate_function "
+  const Result r = run_tool("--motion coning --methods magnus_4,coning_2_sample,runge_kutta_4_rate_function "
                             "--duration 1 --svg '" + svg + "' --budget 1e-3 --horizon 60",
                             "svg");
   REQUIRE(r.exit_code == 0);
@@ -285,7 +285,7 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   CHECK(text.find("ns per step") != std::string::npos);
   const std::size_t legend = text.find("class=\"legend\"");
   REQUIRE(legend != std::string::npos);
-  for (const char* method : {"magnus4", "coning_2_sample", "rk4_rate_function"}) {
+  for (const char* method : {"magnus_4", "coning_2_sample", "runge_kutta_4_rate_function"}) {
     INFO(method);
     CHECK(text.find(std::string(">") + method + "<", legend) != std::string::npos);
   }
@@ -378,11 +378,11 @@ TEST_CASE("bounds only: --coning gives the coning motion's bounds, no measured c
   // 0.04 rad = 2.2918311805232928 deg (0.04·180/π).
   const std::string a = path("coning_bounds.csv");
   const std::string b = path("coning_measured.csv");
-  REQUIRE(run_tool("--coning 2.2918311805232928,5 --methods magnus4,coning_2_sample,rk4_rate_function "
+  REQUIRE(run_tool("--coning 2.2918311805232928,5 --methods magnus_4,coning_2_sample,runge_kutta_4_rate_function "
                    "--step-min 1e-3 --step-max 2e-2 --duration 1 --csv '" + a + "'",
                    "bounds_only")
               .exit_code == 0);
-  REQUIRE(run_tool("--motion coning --methods magnus4,coning_2_sample --step-min 1e-3 --step-max 2e-2 "
+  REQUIRE(run_tool("--motion coning --methods magnus_4,coning_2_sample --step-min 1e-3 --step-max 2e-2 "
                    "--duration 1 --csv '" + b + "'",
                    "bounds_measured")
               .exit_code == 0);
@@ -400,7 +400,7 @@ TEST_CASE("bounds only: --coning gives the coning motion's bounds, no measured c
   }
   // Envelope mode runs too, and only bounds are shown.
   const std::string c = path("envelope.csv");
-  REQUIRE(run_tool("--envelope 0.6,1,5,40,400,4000 --methods magnus4,coning_2_sample --scalar double "
+  REQUIRE(run_tool("--envelope 0.6,1,5,40,400,4000 --methods magnus_4,coning_2_sample --scalar double "
                    "--csv '" + c + "'",
                    "envelope")
               .exit_code == 0);
@@ -411,8 +411,8 @@ TEST_CASE("constant rate: exact methods at rounding level, RK4 at its closed-for
           "[tools][reference]") {
   const std::string csv = path("constant.csv");
   const double duration = 2.0;
-  const Result r = run_tool("--motion constant --methods expmap_hold_end,expmap_midpoint_mean,magnus4,"
-                            "coning_1_sample,coning_2_sample,coning_4_sample,rk4_sampled --step-min 2e-3 "
+  const Result r = run_tool("--motion constant --methods exponential_map_hold_end,exponential_map_midpoint_mean,magnus_4,"
+                            "coning_1_sample,coning_2_sample,coning_4_sample,runge_kutta_4_sampled --step-min 2e-3 "
                             "--step-max 1e-1 --steps 8 --duration 2 --csv '" + csv + "'",
                             "constant");
   REQUIRE(r.exit_code == 0);
@@ -423,7 +423,7 @@ TEST_CASE("constant rate: exact methods at rounding level, RK4 at its closed-for
     const double steps = std::round(duration / row.step_s);
     const double eps = row.scalar == "float" ? eps_float : eps_double;
     INFO(row.method << " " << row.scalar << " step " << row.step_s << ": error " << row.max_error_rad);
-    if (row.method != "rk4_sampled") {
+    if (row.method != "runge_kutta_4_sampled") {
       // Exponential-map, Magnus and coning steps integrate a constant rate exactly (the rotation
       // vector is ω·dt and every correction term is a cross product of parallel vectors: common
       // practice, no source); what remains is rounding, a few ε per step at worst (Higham's
@@ -456,8 +456,8 @@ TEST_CASE("coning: observed orders match the declared orders in the truncation-d
   // (Iserles and Nørsett 1999), the two-sample coning algorithm fourth also under pure coning
   // (Ignagni 1990; Miller 1983), classic RK4 fourth (Butcher) with its stages at samples.
   const std::vector<std::pair<std::string, double>> declared{
-      {"expmap_midpoint_mean", 2}, {"coning_1_sample", 2}, {"magnus4", 4}, {"coning_2_sample", 4},
-      {"rk4_sampled", 4}};
+      {"exponential_map_midpoint_mean", 2}, {"coning_1_sample", 2}, {"magnus_4", 4}, {"coning_2_sample", 4},
+      {"runge_kutta_4_sampled", 4}};
   std::string methods;
   for (const auto& d : declared) {
     methods += (methods.empty() ? "" : ",") + d.first;
