@@ -10,8 +10,8 @@
 
 using namespace halfspin;
 
-TEMPLATE_TEST_CASE("cross product follows the right-hand rule and is orthogonal", "[core][reference]",
-                   float, double) {
+TEMPLATE_TEST_CASE("cross product follows the right-hand rule and is orthogonal",
+                   "[core][reference]", float, double) {
   using T = TestType;
   // e_x × e_y = e_z (right-handed axes: common practice, no source).
   const Vector3<T> ex{1, 0, 0}, ey{0, 1, 0}, ez{0, 0, 1};
@@ -40,6 +40,30 @@ TEMPLATE_TEST_CASE("norm survives components near the overflow and underflow lim
   REQUIRE(norm(u) == tiny);
   REQUIRE(norm(Vector3<T>::zero()) == T(0));
   REQUIRE(norm(Vector3<T>{T(3), T(4), T(12)}) == T(13));
+}
+
+TEMPLATE_TEST_CASE("normalized is unit for subnormal and near-overflow vectors",
+                   "[core][reference]", float, double) {
+  // Reference: a/|a| evaluated in long double (x87 extended precision, whose exponent range holds
+  // the squares of every float and double), the definition of the direction.
+  using T = TestType;
+  const T d = std::numeric_limits<T>::denorm_min();
+  const T hi = std::numeric_limits<T>::max();
+  const T lo = std::numeric_limits<T>::min();
+  for (const Vector3<T>& a :
+       {Vector3<T>{d, d, T(0)}, Vector3<T>{T(3) * d, -d, T(5) * d}, Vector3<T>{T(0), T(0), -d},
+        Vector3<T>{lo, T(2) * lo, -lo}, Vector3<T>{hi, hi, hi}, Vector3<T>{hi, -hi / 3, d},
+        Vector3<T>{T(3), T(4), T(12)}}) {
+    const Vector3<T> n = normalized(a);
+    const long double length = test::length_ld(a);
+    const Vector3<T> expect{static_cast<T>(test::ld(a.x) / length),
+                            static_cast<T>(test::ld(a.y) / length),
+                            static_cast<T>(test::ld(a.z) / length)};
+    INFO("a = (" << static_cast<double>(a.x) << ", " << static_cast<double>(a.y) << ", "
+                 << static_cast<double>(a.z) << ")");
+    REQUIRE(std::fabs(test::length_ld(n) - 1.0L) <= 2 * test::eps<T>());
+    REQUIRE(test::vector_error_eps(n, expect) <= 1);
+  }
 }
 
 TEMPLATE_TEST_CASE("matrix product, transpose, determinant and cross matrix", "[core]", float,

@@ -92,16 +92,31 @@ T norm(const Vector3<T>& a) noexcept {
   return m * std::sqrt(squared_norm(s));
 }
 
-// a/|a|, a unit vector along a; the caller guarantees a ≠ 0 and finite.
-template <class T>
-Vector3<T> normalized(const Vector3<T>& a) noexcept {
-  return a / norm(a);
-}
-
 // True when every component is finite (no NaN, no infinity).
 template <class T>
 bool is_finite(const Vector3<T>& a) noexcept {
   return std::isfinite(a.x) && std::isfinite(a.y) && std::isfinite(a.z);
+}
+
+// a/|a|, a unit vector along a (to a few ulps for every finite a ≠ 0); the caller guarantees a ≠ 0
+// and finite. When |a|² leaves T's normal range (|a| below about √min or above √max, e.g. a
+// subnormal or near-overflow a), a is first scaled by 2^−e, e the exponent of its largest
+// component: exact, it leaves the direction alone and brings the largest component into [1, 2), so
+// |a·2^−e| lies in [1, 2√3) and keeps full precision. Dividing by a subnormal or infinite |a|
+// instead would lose the precision the quotient needs (a non-unit or zero result).
+template <class T>
+Vector3<T> normalized(const Vector3<T>& a) noexcept {
+  const T n2 = squared_norm(a);
+  if (n2 >= std::numeric_limits<T>::min() && n2 <= std::numeric_limits<T>::max()) {
+    return a / std::sqrt(n2);  // the common case: as norm() computes |a| here
+  }
+  const T m = std::fmax(std::fabs(a.x), std::fmax(std::fabs(a.y), std::fabs(a.z)));
+  if (!(m > T(0)) || !is_finite(a)) {
+    return a / norm(a);  // zero or non-finite: outside the contract, non-finite as before
+  }
+  const int e = std::ilogb(m);
+  const Vector3<T> s{std::scalbn(a.x, -e), std::scalbn(a.y, -e), std::scalbn(a.z, -e)};
+  return s / std::sqrt(squared_norm(s));
 }
 
 }  // namespace halfspin
