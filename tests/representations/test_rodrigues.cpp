@@ -61,8 +61,8 @@ long double rotation_error_eps(const Quaternion<T>& a, const Quaternion<T>& b) {
 std::array<LV, 7> half_turn_axes() {
   const long double r2 = std::sqrt(0.5L), r3 = std::sqrt(1.0L / 3);
   const LV odd = LV{1, -2, 3} / std::sqrt(14.0L);
-  return {LV{1, 0, 0}, LV{0, 1, 0}, LV{0, 0, 1}, LV{r2, r2, 0}, LV{0, -r2, r2}, LV{r3, r3, -r3},
-          odd};
+  return {LV{1, 0, 0},    LV{0, 1, 0},     LV{0, 0, 1}, LV{r2, r2, 0},
+          LV{0, -r2, r2}, LV{r3, r3, -r3}, odd};
 }
 
 }  // namespace
@@ -129,8 +129,8 @@ TEMPLATE_TEST_CASE("Gibbs vector: composition rule for the Hamilton product", "[
     const Quaternion<T> q = q1 * q2;
     const Quaternion<long double> ref = as_quaternion(1);
     const Quaternion<long double> wrong = as_quaternion(-1);
-    const Quaternion<long double> ql{static_cast<long double>(q.w), static_cast<long double>(q.x), static_cast<long double>(q.y),
-                                     static_cast<long double>(q.z)};
+    const Quaternion<long double> ql{static_cast<long double>(q.w), static_cast<long double>(q.x),
+                                     static_cast<long double>(q.y), static_cast<long double>(q.z)};
     worst = std::fmax(worst, quaternion_error_eps(ql, ref) * eps<long double>() / eps<T>());
     if (quaternion_error_eps(ql, wrong) * eps<long double>() / eps<T>() <= 4.0L) {
       ++other_sign_passes;
@@ -179,8 +179,8 @@ TEMPLATE_TEST_CASE("Gibbs vector: half turns are flagged singular and carry the 
   CHECK(quaternion_from_gibbs_vector(gi) == Quaternion<T>::identity());
 }
 
-TEMPLATE_TEST_CASE("Gibbs vector: near 0, near π, huge and denormal-sized", "[gibbs][edge][reference]",
-                   float, double) {
+TEMPLATE_TEST_CASE("Gibbs vector: near 0, near π, huge and denormal-sized",
+                   "[gibbs][edge][reference]", float, double) {
   // g = tan(θ/2)·n (Shuster 1993, from memory), relative accuracy across the range.
   using T = TestType;
   RandomRotations rng(404);
@@ -193,7 +193,8 @@ TEMPLATE_TEST_CASE("Gibbs vector: near 0, near π, huge and denormal-sized", "[g
     const GibbsVector<T> gs = to_gibbs_vector(qs);
     REQUIRE_FALSE(gs.singular);
     worst_small = std::fmax(worst_small, relative_error_eps(gs.g, std::tan(0.5L * small) * axis));
-    worst_small_back = std::fmax(worst_small_back, quaternion_error_eps(quaternion_from_gibbs_vector(gs), qs));
+    worst_small_back =
+        std::fmax(worst_small_back, quaternion_error_eps(quaternion_from_gibbs_vector(gs), qs));
 
     const long double delta = rng.log_uniform<long double>(1e-15L, 1e-7L);
     const long double big = 3.14159265358979323846264338327950288L - delta;
@@ -221,7 +222,8 @@ TEMPLATE_TEST_CASE("Gibbs vector: near 0, near π, huge and denormal-sized", "[g
   REQUIRE(squared_norm(gh.g) > std::numeric_limits<T>::max());
   const Quaternion<T> qh_back = quaternion_from_gibbs_vector(gh);
   CHECK(quaternion_error_eps(qh_back, qh) <= 2.0L);
-  CHECK(std::fabs(static_cast<long double>(qh_back.w) - static_cast<long double>(wmin)) <= 2 * eps<T>() * static_cast<long double>(wmin));
+  CHECK(std::fabs(static_cast<long double>(qh_back.w) - static_cast<long double>(wmin)) <=
+        2 * eps<T>() * static_cast<long double>(wmin));
 
   // Denormal-sized vector part: w = 1, so g = v and the round trip are exact.
   const T d = std::numeric_limits<T>::denorm_min();
@@ -230,6 +232,79 @@ TEMPLATE_TEST_CASE("Gibbs vector: near 0, near π, huge and denormal-sized", "[g
   CHECK_FALSE(gd.singular);
   CHECK(gd.g == qd.vector());
   CHECK(quaternion_from_gibbs_vector(gd) == qd);
+}
+
+TEMPLATE_TEST_CASE("Gibbs vector: components near T's largest value, and extreme singular axes",
+                   "[gibbs][edge][reference]", float, double) {
+  // References: (1, g)/√(1 + |g|²) evaluated in long double, whose range holds |g|² for every
+  // finite float and double g (x87 extended precision); and the limit: as |g| → ∞ the rotation
+  // tends to the half turn about g/|g| (tan(θ/2) → ∞ as θ → π; common practice, no source). Here
+  // |g| > √max, so the two differ by 2·atan(1/|g|) < 2/√max, far below ε.
+  using T = TestType;
+  const T hi = std::numeric_limits<T>::max();
+  const T d = std::numeric_limits<T>::denorm_min();
+  RandomRotations rng(405);
+  long double worst_exact = 0, worst_limit = 0, worst_norm = 0;
+  auto check = [&](const Vector3<T>& g) {
+    const Quaternion<T> q = quaternion_from_gibbs_vector(GibbsVector<T>{g, false});
+    const LV gl = widen(g);
+    const long double n = std::sqrt(gl.x * gl.x + gl.y * gl.y + gl.z * gl.z);
+    const long double r = std::sqrt(1.0L + n * n);
+    const Quaternion<T> exact{static_cast<T>(1.0L / r), static_cast<T>(gl.x / r),
+                              static_cast<T>(gl.y / r), static_cast<T>(gl.z / r)};
+    const Quaternion<T> limit{T(0), static_cast<T>(gl.x / n), static_cast<T>(gl.y / n),
+                              static_cast<T>(gl.z / n)};
+    INFO("g = (" << static_cast<double>(g.x) << ", " << static_cast<double>(g.y) << ", "
+                 << static_cast<double>(g.z) << ")");
+    REQUIRE(is_finite(q));
+    REQUIRE(q.w >= T(0));
+    worst_exact = std::fmax(worst_exact, quaternion_error_eps(q, exact));
+    worst_limit = std::fmax(worst_limit, quaternion_error_eps(q, limit));
+    worst_norm = std::fmax(worst_norm, std::fabs(test::norm_ld(q) - 1.0L) / eps<T>());
+  };
+  // |g| itself overflows T here (the old result was the zero quaternion).
+  check(Vector3<T>{hi, hi, hi});
+  check(Vector3<T>{hi, -hi / 2, hi / 3});
+  check(Vector3<T>{-hi, hi, T(1)});
+  // |g|² overflows but |g| does not.
+  check(Vector3<T>{hi, T(0), T(0)});
+  check(Vector3<T>{T(0), -hi / 4, d});
+  for (int n = 0; n < property_samples; ++n) {
+    const LV axis = rng.unit_vector<long double>();
+    const long double size = rng.log_uniform<long double>(
+        2 * std::sqrt(static_cast<long double>(hi)), static_cast<long double>(hi));
+    check(Vector3<T>{static_cast<T>(size * axis.x), static_cast<T>(size * axis.y),
+                     static_cast<T>(size * axis.z)});
+  }
+  report_worst("Gibbs huge vs long double" + tname<T>() + " [eps]", worst_exact);
+  report_worst("Gibbs huge vs half-turn limit" + tname<T>() + " [eps]", worst_limit);
+  report_worst("Gibbs huge norm" + tname<T>() + " [eps]", worst_norm);
+  CHECK(worst_exact <= 2.0L);
+  CHECK(worst_limit <= 2.0L);
+  CHECK(worst_norm <= 3.0L);
+
+  // A unit quaternion whose g = v/w is finite per component but |g| overflows: w in
+  // [0.58/max, 1/max), a subnormal in both types. The round trip comes back to q.
+  const T c = static_cast<T>(std::sqrt(1.0L / 3));
+  const Quaternion<T> near_half_turn{T(0.8) / hi, c, c, -c};
+  const GibbsVector<T> gn = to_gibbs_vector(near_half_turn);
+  REQUIRE_FALSE(gn.singular);
+  REQUIRE(is_finite(gn.g));
+  const Quaternion<T> back = quaternion_from_gibbs_vector(gn);
+  CHECK(quaternion_error_eps(back, near_half_turn) <= 2.0L);
+  CHECK(std::fabs(test::norm_ld(back) - 1.0L) <= 2 * eps<T>());
+
+  // Singular (half turn) with an axis whose length overflows, or is subnormal: still (0, ĝ).
+  for (const Vector3<T>& axis : {Vector3<T>{hi, hi, -hi}, Vector3<T>{d, T(2) * d, T(0)},
+                                 Vector3<T>{T(3) * d, -d, T(5) * d}, Vector3<T>{T(0), T(0), -d}}) {
+    const LV al = widen(axis);
+    const long double n = std::sqrt(al.x * al.x + al.y * al.y + al.z * al.z);
+    const Quaternion<T> expect{T(0), static_cast<T>(al.x / n), static_cast<T>(al.y / n),
+                               static_cast<T>(al.z / n)};
+    const Quaternion<T> q = quaternion_from_gibbs_vector(GibbsVector<T>{axis, true});
+    CHECK(quaternion_error_eps(q, expect) <= 2.0L);
+    CHECK(std::fabs(test::norm_ld(q) - 1.0L) <= 2 * eps<T>());
+  }
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -256,17 +331,19 @@ TEMPLATE_TEST_CASE("MRP: round trip, |p| <= 1, shadow set is the same rotation",
 
     const ModifiedRodrigues<T> s = shadow_set(m);
     REQUIRE(norm(widen(s.p)) >= 1 - 4 * eps<T>());
-    worst_shadow_rotation = std::fmax(worst_shadow_rotation,
-                                      quaternion_error_eps(quaternion_from_modified_rodrigues(s), q));
+    worst_shadow_rotation = std::fmax(
+        worst_shadow_rotation, quaternion_error_eps(quaternion_from_modified_rodrigues(s), q));
     const ModifiedRodrigues<T> sw = switch_to_short(s);
     REQUIRE(squared_norm(sw.p) <= T(1) + T(4) * std::numeric_limits<T>::epsilon());
     worst_shadow_back = std::fmax(worst_shadow_back, relative_error_eps(sw.p, widen(m.p)));
-    worst_shadow_twice = std::fmax(worst_shadow_twice, relative_error_eps(shadow_set(s).p, widen(m.p)));
+    worst_shadow_twice =
+        std::fmax(worst_shadow_twice, relative_error_eps(shadow_set(s).p, widen(m.p)));
   }
   report_worst("MRP round trip q->p->q" + tname<T>() + " [eps]", worst_back);
   report_worst("MRP |p| - 1 excess" + tname<T>() + " [eps]", worst_norm_excess);
   report_worst("MRP shadow set as rotation" + tname<T>() + " [eps]", worst_shadow_rotation);
-  report_worst("MRP switch_to_short(shadow) vs p, relative" + tname<T>() + " [eps]", worst_shadow_back);
+  report_worst("MRP switch_to_short(shadow) vs p, relative" + tname<T>() + " [eps]",
+               worst_shadow_back);
   report_worst("MRP shadow(shadow) vs p, relative" + tname<T>() + " [eps]", worst_shadow_twice);
   CHECK(worst_back <= 4.0L);             // observed 1.5 ε (float and double)
   CHECK(worst_norm_excess <= 1.0L);      // observed 0 (|p| never above 1 here)
@@ -327,9 +404,10 @@ TEMPLATE_TEST_CASE("MRP: composition rule for the Hamilton product", "[mrp][refe
                                      2 * p.z / (1 + sp)};
     };
     const Quaternion<T> q = q1 * q2;
-    const Quaternion<long double> ql{static_cast<long double>(q.w), static_cast<long double>(q.x), static_cast<long double>(q.y),
-                                     static_cast<long double>(q.z)};
-    worst = std::fmax(worst, quaternion_error_eps(ql, as_quaternion(1)) * eps<long double>() / eps<T>());
+    const Quaternion<long double> ql{static_cast<long double>(q.w), static_cast<long double>(q.x),
+                                     static_cast<long double>(q.y), static_cast<long double>(q.z)};
+    worst = std::fmax(worst,
+                      quaternion_error_eps(ql, as_quaternion(1)) * eps<long double>() / eps<T>());
     if (quaternion_error_eps(ql, as_quaternion(-1)) * eps<long double>() / eps<T>() <= 5.0L) {
       ++other_sign_passes;
     }
@@ -352,7 +430,8 @@ TEMPLATE_TEST_CASE("MRP: half turns have |p| = 1 and both sets are valid", "[mrp
     CHECK(relative_error_eps(s.p, -widen(m.p)) <= 3.0L);
     CHECK(rotation_error_eps(quaternion_from_modified_rodrigues(m), q) <= 4.0L);
     CHECK(rotation_error_eps(quaternion_from_modified_rodrigues(s), q) <= 4.0L);
-    CHECK(rotation_error_eps(quaternion_from_modified_rodrigues(ModifiedRodrigues<T>{-m.p}), q) <= 4.0L);
+    CHECK(rotation_error_eps(quaternion_from_modified_rodrigues(ModifiedRodrigues<T>{-m.p}), q) <=
+          4.0L);
   }
   // Identity: p = 0 exactly and back.
   const ModifiedRodrigues<T> mi = to_modified_rodrigues(Quaternion<T>::identity());
@@ -372,16 +451,17 @@ TEMPLATE_TEST_CASE("MRP: near 0, near π, huge shadow and denormal-sized", "[mrp
     const Quaternion<T> qs = rounded_rotation<T>(small, axis);
     const ModifiedRodrigues<T> ms = to_modified_rodrigues(qs);
     worst_small = std::fmax(worst_small, relative_error_eps(ms.p, std::tan(0.25L * small) * axis));
-    worst_small_back =
-        std::fmax(worst_small_back, quaternion_error_eps(quaternion_from_modified_rodrigues(ms), qs));
+    worst_small_back = std::fmax(worst_small_back,
+                                 quaternion_error_eps(quaternion_from_modified_rodrigues(ms), qs));
 
     const long double delta = rng.log_uniform<long double>(1e-15L, 1e-7L);
     const long double big = 3.14159265358979323846264338327950288L - delta;
     const Quaternion<T> qp = rounded_rotation<T>(big, axis);
     const ModifiedRodrigues<T> mp = to_modified_rodrigues(qp);
-    worst_near_pi = std::fmax(worst_near_pi, relative_error_eps(mp.p, std::tan(0.25L * big) * axis));
-    worst_near_pi_back =
-        std::fmax(worst_near_pi_back, quaternion_error_eps(quaternion_from_modified_rodrigues(mp), qp));
+    worst_near_pi =
+        std::fmax(worst_near_pi, relative_error_eps(mp.p, std::tan(0.25L * big) * axis));
+    worst_near_pi_back = std::fmax(
+        worst_near_pi_back, quaternion_error_eps(quaternion_from_modified_rodrigues(mp), qp));
   }
   report_worst("MRP near 0 relative" + tname<T>() + " [eps]", worst_small);
   report_worst("MRP near 0 round trip" + tname<T>() + " [eps]", worst_small_back);
@@ -424,7 +504,8 @@ TEMPLATE_TEST_CASE("MRP: near 0, near π, huge shadow and denormal-sized", "[mrp
         static_cast<long double>(d));
 }
 
-TEMPLATE_TEST_CASE("Gibbs and MRP: scale-invariant in the quaternion", "[gibbs][mrp]", float, double) {
+TEMPLATE_TEST_CASE("Gibbs and MRP: scale-invariant in the quaternion", "[gibbs][mrp]", float,
+                   double) {
   // A slightly non-unit attitude (as propagation leaves it) gives the parameters of q/|q|.
   using T = TestType;
   RandomRotations rng(505);
@@ -433,8 +514,8 @@ TEMPLATE_TEST_CASE("Gibbs and MRP: scale-invariant in the quaternion", "[gibbs][
     const Quaternion<T> q = rng.quaternion<T>();
     const T k = rng.uniform<T>(T(0.5), T(2));
     const Quaternion<T> kq = k * q;
-    worst_gibbs = std::fmax(worst_gibbs, relative_error_eps(to_gibbs_vector(kq).g,
-                                                            widen(to_gibbs_vector(q).g)));
+    worst_gibbs = std::fmax(worst_gibbs,
+                            relative_error_eps(to_gibbs_vector(kq).g, widen(to_gibbs_vector(q).g)));
     worst_mrp = std::fmax(worst_mrp, relative_error_eps(to_modified_rodrigues(kq).p,
                                                         widen(to_modified_rodrigues(q).p)));
     // Powers of two scale exactly.

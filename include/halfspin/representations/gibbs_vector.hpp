@@ -37,17 +37,34 @@ GibbsVector<T> to_gibbs_vector(const Quaternion<T>& q) noexcept {
 
 // Gibbs vector (body → reference; finite g, or a unit-or-not axis with singular set) → unit
 // quaternion (1, g)/√(1 + |g|²) with w ≥ 0; a singular input gives the half turn (0, g/|g|).
-// |g|² may overflow T without harm (the scaled norm is used then).
+// Unit to a few ulps for every finite g, however large (|g|² and |g| may overflow T), and for a
+// singular axis of any finite nonzero length (subnormal or near overflow).
 template <class T>
 Quaternion<T> quaternion_from_gibbs_vector(const GibbsVector<T>& gibbs) noexcept {
   const Vector3<T>& g = gibbs.g;
   if (gibbs.singular) {
-    return Quaternion<T>::from_parts(T(0), g / norm(g));
+    return Quaternion<T>::from_parts(T(0), normalized(g));
   }
   const T n2 = squared_norm(g);
-  // √(1 + |g|²); when |g|² overflows, 1/|g|² is below ε² and √(1 + |g|²) rounds to |g|.
-  const T d = n2 <= std::numeric_limits<T>::max() ? std::sqrt(T(1) + n2) : norm(g);
-  return {T(1) / d, g.x / d, g.y / d, g.z / d};
+  if (n2 <= std::numeric_limits<T>::max()) {
+    const T d = std::sqrt(T(1) + n2);
+    return {T(1) / d, g.x / d, g.y / d, g.z / d};
+  }
+  // |g|² overflows (|g| > √max: a rotation within 2/√max of π, float 1.1e-19 rad, double
+  // 1.5e-154 rad). Scale by 2^−e, e the exponent of g's largest component (exact, e ≥ 63 in float,
+  // ≥ 511 in double): (1, g)/√(1 + |g|²) = (2^−e, h)/√(2^−2e + |h|²) with h = g·2^−e, |h| in
+  // [1, 2√3). 2^−2e < 2^−126 is below half an ulp of |h|² ≥ 1 and drops out; 2^−e itself is
+  // representable (subnormal at worst), so w = 2^−e/|h| is rounded once. Dividing by |g| directly
+  // gave zero once |g| overflowed.
+  if (!is_finite(g)) {
+    const T d = norm(g);  // non-finite g: a non-finite or zero result, never a valid-looking one
+    return {T(1) / d, g.x / d, g.y / d, g.z / d};
+  }
+  const T m = std::fmax(std::fabs(g.x), std::fmax(std::fabs(g.y), std::fabs(g.z)));
+  const int e = std::ilogb(m);
+  const Vector3<T> h{std::scalbn(g.x, -e), std::scalbn(g.y, -e), std::scalbn(g.z, -e)};
+  const T d = std::sqrt(squared_norm(h));
+  return {std::scalbn(T(1), -e) / d, h.x / d, h.y / d, h.z / d};
 }
 
 }  // namespace halfspin
