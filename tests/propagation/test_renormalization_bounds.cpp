@@ -49,8 +49,12 @@ TEMPLATE_TEST_CASE("renormalization bounds: exact and first order hold for any i
   FirstOrderRenormalization first_order;
   const long double exact_bound = test::ld(renormalized_norm_error(exact, T(0)));
   long double worst_exact = 0;
-  for (const long double incoming : {0.0L, 1e-7L, 1e-5L, 1e-3L, 1e-2L, 0.05L}) {
-    const long double fo_bound = test::ld(renormalized_norm_error(first_order, static_cast<T>(incoming)));
+  // Up to 1e-5 only the Newton step runs; from 1e-3 on (past first_order_range, float 2⁻¹²,
+  // double 2⁻²⁷) mostly the prescaled fallback, up to ‖q‖ = 1 ± 0.9. (From an incoming error of 1
+  // on, q may be 0 and the bound is +∞: checked below.)
+  for (const long double incoming : {0.0L, 1e-7L, 1e-5L, 1e-3L, 1e-2L, 0.05L, 0.5L, 0.9L}) {
+    const long double fo_bound =
+        test::ld(renormalized_norm_error(first_order, static_cast<T>(incoming)));
     long double worst_fo = 0;
     for (int n = 0; n < 2000; ++n) {
       const long double e = rng.uniform<long double>(-incoming, incoming);
@@ -67,11 +71,18 @@ TEMPLATE_TEST_CASE("renormalization bounds: exact and first order hold for any i
       worst_fo = std::fmax(worst_fo, r_fo);
     }
     if (incoming >= 1e-2L) {
-      // Here the Newton step's own 3E²/8 dominates: the bound is within 1.5× of it.
-      REQUIRE(test::ld(renormalized_norm_error(first_order, static_cast<T>(incoming))) <= 1.5L * worst_fo);
+      // Past the range the result is q/‖q‖ to rounding, whatever came in: one bound for all
+      // incoming errors (4u + 3E²/8 + rounding), reached within a factor 3.
+      REQUIRE(fo_bound == test::ld(renormalized_norm_error(first_order, T(0.5))));
+      REQUIRE(fo_bound <= 3.0L * worst_fo);
+      test::report_worst(
+          std::string("first order far from unit measured/bound ") + test::type_name<T>(),
+          worst_fo / fo_bound);
     }
     REQUIRE(fo_bound >= worst_fo);
   }
+  REQUIRE(std::isinf(renormalized_norm_error(first_order, T(1))));
+  REQUIRE(std::isinf(renormalized_norm_error(first_order, std::numeric_limits<T>::max())));
   // 4u is a worst case; measured reach at least half of it over 12,000 draws.
   REQUIRE(worst_exact >= 0.25L * exact_bound);
   test::report_worst(std::string("exact renormalization measured/bound ") + test::type_name<T>(),
@@ -97,8 +108,8 @@ TEMPLATE_TEST_CASE("renormalization bounds: the exponential-map step's norm drif
                   << " bound " << static_cast<double>(d));
     REQUIRE(worst <= d);
     REQUIRE(d <= 12.0L * test::eps<T>());  // about 10u (5ε) for every step the library takes
-    test::report_worst(std::string("exp-map step norm drift measured/bound ") + test::type_name<T>(),
-                       worst / d);
+    test::report_worst(
+        std::string("exp-map step norm drift measured/bound ") + test::type_name<T>(), worst / d);
   }
 }
 
@@ -127,7 +138,8 @@ TEMPLATE_TEST_CASE("renormalization bounds: every policy under a synthetic drift
   // none: (1 + b₀)(1 + d)^n − 1, reached within a factor 2.1 by a drift all of one sign (d/2).
   {
     const long double bound = test::ld(norm_error_bound(NoRenormalization{}, d, b0, 100));
-    const long double one_sided = worst_under_drift<T>(NoRenormalization{}, test::ld(d), 100, true, 821);
+    const long double one_sided =
+        worst_under_drift<T>(NoRenormalization{}, test::ld(d), 100, true, 821);
     REQUIRE(one_sided <= bound);
     REQUIRE(bound <= 2.1L * one_sided);
     REQUIRE(worst_under_drift<T>(NoRenormalization{}, test::ld(d), 100, false, 822) <= bound);

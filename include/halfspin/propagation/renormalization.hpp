@@ -18,7 +18,9 @@
 //                whatever came in (√ of a γ₄-accurate sum, then one division per component).
 //   first_order  the least fixed point of b ↦ 4u + (3/2)(b + d)² + …, about 4u = 2ε as long as the
 //                incoming error is ≪ √u: the Newton step squares the incoming error and adds its
-//                own rounding (factor γ₄/2 + u, product u).
+//                own rounding (factor γ₄/2 + u, product u). Past |‖q‖² − 1| = E ≈ √u the policy
+//                prescales q by about 1/‖q‖ first, so it never exceeds 4u + 3E²/8 ≤ 4u + 3u/8
+//                (2.25ε in float), whatever came in (any step and stepper; ‖q‖² a normal number).
 //   periodic     (1 + b_c)(1 + d)^(period − 1) − 1 ≈ 4u + (period − 1)·d, b_c the inner policy's
 //                bound: the drift of period − 1 uncorrected steps (15 × 10u for the default 16).
 //   threshold    max(the inner policy's bound, τ/2 + γ₄/2): the kept attitude passed the test
@@ -66,20 +68,139 @@ struct ExactRenormalization {
   }
 };
 
+namespace detail {
+
+// The range of FirstOrderRenormalization's plain Newton step: |fl(‖q‖²) − 1| ≤ E, E the largest
+// power of two with E² ≤ u (float 2⁻¹², double 2⁻²⁷). There the step's own error, 3E²/8 on ‖q‖,
+// stays below 3u/8, under one rounding, so the policy keeps the 2ε-class tolerance of
+// norm_error_bound (derivation at renormalized_norm_error).
+template <class T>
+constexpr T first_order_range() noexcept {
+  const T u = std::numeric_limits<T>::epsilon() / T(2);
+  T e = T(1);
+  while (e * e > u) {
+    e /= T(2);
+  }
+  return e;
+}
+
+// The bit-pattern guess of 1/√s for a normal s > 0: reading the bits of a positive T as an
+// integer gives, up to scale and offset, a piecewise-linear approximation of log₂ s, so
+// offset − bits(s)/2 reads back as about s^(−1/2). `offset` minimizes the worst relative error of
+// the guess, |guess·√s − 1| ≤ guess_error, found by our own search (float: every s in [1, 4), a
+// full period, since guess(4s) = guess(s)/2 exactly; double: the float optimum moved to the
+// double layout, refined on 2²⁴ points of [1, 4)); the test "first-order renormalization: the
+// reciprocal square root guess" checks it. newton_steps Newton steps y ← y(3/2 − s·y²/2) take
+// the relative error η to at most 3η²/2 + η³/2 (+ 3u of rounding): 0.0343 → 1.8e-3 → 5.0e-6
+// (float, 2 steps) → 3.5e-11 (double, 3 steps), below the 2⁻¹³ and 2⁻²⁸ the range above needs.
+template <class T>
+struct ReciprocalSquareRootGuess {
+  static constexpr bool available = false;
+};
+template <>
+struct ReciprocalSquareRootGuess<float> {
+  static constexpr bool available = true;
+  using Bits = std::uint32_t;
+  static constexpr Bits offset = 0x5F37642DU;
+  static constexpr int newton_steps = 2;
+  static constexpr float guess_error = 0.0343f;
+};
+template <>
+struct ReciprocalSquareRootGuess<double> {
+  static constexpr bool available = true;
+  using Bits = std::uint64_t;
+  static constexpr Bits offset = 0x5FE6EC85C0000000U;
+  static constexpr int newton_steps = 3;
+  static constexpr double guess_error = 0.0343;
+};
+
+// The bits of x as an unsigned integer of its size, and back (constexpr, no memory).
+template <class Bits, class T>
+constexpr Bits bits_of(T x) noexcept {
+  return __builtin_bit_cast(Bits, x);
+}
+template <class T, class Bits>
+constexpr T from_bits(Bits b) noexcept {
+  return __builtin_bit_cast(T, b);
+}
+
+// The guess of 1/√s refined by Newton steps (s normal and positive; see ReciprocalSquareRootGuess).
+template <class T>
+constexpr T reciprocal_square_root(T s) noexcept {
+  using Guess = ReciprocalSquareRootGuess<T>;
+  using Bits = typename Guess::Bits;
+  T y = from_bits<T>(static_cast<Bits>(Guess::offset - (bits_of<Bits>(s) >> 1U)));
+  // Written out rather than looped: g++ 12 leaves a short inner loop in place and then cannot
+  // vectorize the batch lane loop around it. (s·y)·y, not s·y², so that y² cannot underflow.
+  y = y * (T(1.5) - T(0.5) * ((s * y) * y));
+  y = y * (T(1.5) - T(0.5) * ((s * y) * y));
+  if constexpr (Guess::newton_steps > 2) {
+    y = y * (T(1.5) - T(0.5) * ((s * y) * y));
+  }
+  return y;
+}
+
+// The factor FirstOrderRenormalization scales q by before its Newton step: exactly 1 when
+// |s − 1| ≤ first_order_range (s = fl(‖q‖²)), else about 1/√s. Branch-free: both are computed and
+// one is selected by a mask made from the sign bit of range − |s − 1| (a comparison turned into a
+// bool and then into a 64-bit mask kept g++ 12 from vectorizing the double batch lanes).
+template <class T>
+constexpr T first_order_prescale(T s) noexcept {
+  if constexpr (ReciprocalSquareRootGuess<T>::available) {
+    using Bits = typename ReciprocalSquareRootGuess<T>::Bits;
+    constexpr unsigned top = 8U * sizeof(Bits) - 1U;
+    constexpr Bits sign = Bits(1) << top;
+    const T y = reciprocal_square_root(s);
+    // |s − 1| by clearing the sign bit; s − 1 is exact near the range (Sterbenz), so the test
+    // |fl(‖q‖²) − 1| ≤ range is decided without rounding.
+    const T distance = from_bits<T>(static_cast<Bits>(bits_of<Bits>(s - T(1)) & ~sign));
+    const Bits outside =
+        static_cast<Bits>(Bits(0) - (bits_of<Bits>(first_order_range<T>() - distance) >> top));
+    return from_bits<T>(static_cast<Bits>((bits_of<Bits>(T(1)) & static_cast<Bits>(~outside)) |
+                                          (bits_of<Bits>(y) & outside)));
+  } else {
+    // Other scalar types (long double): the square root, with a branch; nothing vectorizes them.
+    const T d = s - T(1);
+    return (d <= first_order_range<T>() && d >= -first_order_range<T>()) ? T(1)
+                                                                         : T(1) / std::sqrt(s);
+  }
+}
+
+}  // namespace detail
+
 // One Newton step toward ‖q‖ = 1 with no square root: q·(3 − ‖q‖²)/2. If ‖q‖² = 1 + e, the
 // result has ‖q‖² = 1 − 3e²/4 + e³/4: quadratic convergence, so with the per-step drift of a
-// gyro step (e ~ ε) the norm stays at rounding level. Cost 7 + 2 + 4 = 13 multiplications/adds.
-// Converges only while e stays below about 1 (past ‖q‖² = 3 the factor changes sign and the error
-// grows): fine for the exponential-map family, whose steps change the norm by rounding only, but a
-// Runge–Kutta step over a large angle θ can leave that range (measured by fuzzing: up to about
-// 0.19·θ⁴ for RK2); with Runge–Kutta steppers use first order only for θ ≤ 0.5 rad (norm error ≤
-// θ⁴/2), or use exact. The propagator rejects a step whose renormalized result overflows.
+// gyro step (e ~ ε) the norm stays at rounding level. The step alone converges only for e below
+// about 1 and diverges past ‖q‖² = 3 (a large Runge–Kutta step or a far-from-unit initial
+// attitude can get there), and well before that its error 3e²/8 exceeds rounding. So it is taken
+// as it is only inside |fl(‖q‖²) − 1| ≤ E = detail::first_order_range (float 2⁻¹², double 2⁻²⁷,
+// where 3E²/8 ≤ 3u/8), bit for bit as it always was; outside, q is first multiplied by an
+// approximation y of 1/‖q‖ (a bit-pattern guess and 2 (float) or 3 (double) Newton steps on 1/√s,
+// no square root, |‖y·q‖² − 1| ≤ 1.1e-5 float, 7e-11 double) and the same Newton step then
+// finishes: the exact form q/‖q‖ to rounding. Both are computed and one selected, branch-free, so
+// the BatchPropagator lane loop stays vectorized (checked in the assembly of g++ 12 and
+// clang++ 14, -O2 and -O3, default x86-64 target, BatchPropagator<float, 1024> and
+// <double, 1024>, objdump of the lane loop: packed arithmetic only — mulps/addps/subps, the guess
+// in psrld/psubd and the select in and/andn/or (ps or p- forms), and the same in pd and q forms for
+// double — no scalar add/sub/mul/div/sqrt/compare in ss or sd, no call; g++ reloads a few
+// constants with movss/movsd and broadcasts them inside the loop, 1 in float and 9 in double,
+// against 1 and 2 before the fallback existed). There is no square root on purpose: std::sqrt sets
+// errno under the default -fmath-errno, so neither compiler vectorizes a loop that calls it
+// (checked on a loop of the same shape: one scalar sqrtss/sqrtsd and a call to sqrtf/sqrt remain,
+// also with std::fabs, std::fmax or a select in front of the argument).
+// The result is unit to about 2ε (norm_error_bound) for every q whose ‖q‖² is a normal number of T
+// (float: 1.1e-19 < ‖q‖ < 1.8e19; double: 1.5e-154 < ‖q‖ < 1.3e154), any step size and stepper.
+// Cost in flops: 7 (‖q‖²) + 2 (range test) + 5 per Newton step on 1/√s + 4 (prescale) + 7 + 2 + 4
+// (the step) = 36 in float, 41 in double, plus 2 integer operations for the guess and 4 bit
+// operations for the select (13 flops before the fallback existed). A q = 0, or one whose ‖q‖²
+// overflows, gives 0 or a non-finite result, which the propagator rejects.
 struct FirstOrderRenormalization {
   static constexpr const char* name = "first_order";
   template <class T>
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
-    const T factor = T(1.5) - T(0.5) * squared_norm(q);
-    return factor * q;
+    const Quaternion<T> r = detail::first_order_prescale(squared_norm(q)) * q;  // r = q inside
+    const T factor = T(1.5) - T(0.5) * squared_norm(r);
+    return factor * r;
   }
 };
 
@@ -196,8 +317,9 @@ constexpr T exponential_map_step_norm_drift(T theta) noexcept {
   const T vector2 = theta2 / T(4);  // |v|² ≤ (θ/2)²
   // ‖P̂‖² − 1 within [−(2|δc| + |v|²(2γ₁₄)), 2|δc| + δc² + |v|²(2γ₁₄ + γ₁₄²)]; on the series
   // branch its truncation (θ⁸/10321920 relative) added as θ⁸·1e-7.
-  const T truncation =
-      theta2 < ScalarTraits<T>::exp_series_angle_squared ? theta2 * theta2 * theta2 * theta2 * T(1e-7) : T(0);
+  const T truncation = theta2 < ScalarTraits<T>::exp_series_angle_squared
+                           ? theta2 * theta2 * theta2 * theta2 * T(1e-7)
+                           : T(0);
   const T hi = T(2) * dc + dc * dc + vector2 * (T(2) * g14 + g14 * g14) + T(2) * truncation;
   const T lo = -(T(2) * dc + vector2 * T(2) * g14 + T(2) * truncation);
   const T exp_norm = detail::norm_from_squared_norm(lo, hi);
@@ -217,22 +339,81 @@ constexpr T renormalized_norm_error(const ExactRenormalization&, T incoming) noe
   const T down = T(1) - (T(1) - u) / (T(1) + u) * (T(1) - T(0.5) * g4);
   return up > down ? up : down;
 }
-// First order: ‖r‖² = g(s)·(1 + ρ) with s = ‖q‖² = 1 + E, g(s) = (3/2 − s/2)²s = 1 − 3E²/4 + E³/4 ≤ 1
-// the exact Newton step, and ρ from the factor (relative s·γ₄/(2(3/2 − s/2)) + u) and the product
-// (u per component). +∞ when the incoming error exceeds 0.05 (outside the derivation's range).
+namespace detail {
+
+// The Newton step alone on an r with |‖r‖² − 1| ≤ e ≤ 0.05: ‖result‖² = g(s)·(1 + ρ) with
+// s = ‖r‖² = 1 + E, g(s) = (3/2 − s/2)²s = 1 − 3E²/4 + E³/4 ≤ 1 the exact Newton step, and ρ from
+// the factor (relative s·γ₄/(2(3/2 − s/2)) + u) and the product (u per component).
+template <class T>
+constexpr T first_order_newton_error(T e) noexcept {
+  const T u = std::numeric_limits<T>::epsilon() / T(2);
+  const T g4 = norm_gamma<T>(4);
+  const T k = (T(1) + e) * g4 / (T(2) * (T(1.5) - T(0.5) * (T(1) + e)));
+  const T hi = (T(1) + k) * (T(1) + k) * norm_power(T(1) + u, 4) - T(1);
+  const T g_lo = T(1) - T(0.75) * e * e - T(0.25) * e * e * e;
+  const T lo = g_lo * (T(1) - k) * (T(1) - k) * norm_power(T(1) - u, 4) - T(1);
+  return norm_from_squared_norm(lo, hi);
+}
+
+// |‖y·q‖² − 1| for the prescaled q outside the range. y from the guess (relative error
+// η₀ ≤ guess_error against 1/√s, s = fl(‖q‖²)) and Newton steps: a step computes
+// y(3/2 − fl(fl(s·y)·y)/2), the product rounded twice (Δ, |Δ| ≤ 2u + u², an absolute error
+// ≤ (1 + η)²(2u + u²)/2 in the bracket), the bracket and the new y once each, so
+// η' ≤ (1 + 3η²/2 + η³/2 + (1 + η)³(2u + u²)/2)(1 + u)² − 1. Then each component of y·q rounds by
+// u and s = ‖q‖²(1 + θ), |θ| ≤ γ₄: ‖y·q‖² = (1 + η)²(1 + δ)²/(1 + θ), |δ| ≤ u. (Gradual underflow
+// of a component far below the largest adds under denorm_min to a unit-size norm, ignored.)
+template <class T>
+constexpr T first_order_prescaled_error() noexcept {
+  using Guess = ReciprocalSquareRootGuess<T>;
+  const T u = std::numeric_limits<T>::epsilon() / T(2);
+  const T g4 = norm_gamma<T>(4);
+  // Without the guess (other scalar types) y = 1/√s: a square root and a division, u each.
+  T eta = T(2) * u;
+  int steps = 0;
+  if constexpr (Guess::available) {
+    eta = Guess::guess_error;
+    steps = Guess::newton_steps;
+  }
+  for (int i = 0; i < steps; ++i) {
+    const T bracket = (T(1) + eta) * (T(1) + eta) * (T(1) + eta) * (T(2) * u + u * u) / T(2);
+    eta =
+        (T(1) + T(1.5) * eta * eta + T(0.5) * eta * eta * eta + bracket) * (T(1) + u) * (T(1) + u) -
+        T(1);
+  }
+  const T up = (T(1) + eta) * (T(1) + eta) * (T(1) + u) * (T(1) + u) / (T(1) - g4) - T(1);
+  const T down = T(1) - (T(1) - eta) * (T(1) - eta) * (T(1) - u) * (T(1) - u) / (T(1) + g4);
+  return up > down ? up : down;
+}
+
+}  // namespace detail
+
+// First order: the Newton step on r = q (branch taken when |fl(s) − 1| ≤ E, s = ‖q‖²) or on the
+// prescaled r = y·q (otherwise). With |‖q‖² − 1| ≤ e_in (from the incoming error): if even
+// e_in + γ₄(1 + e_in) ≤ E, fl(s) cannot leave the range and the bound is the Newton step's on
+// e_in, as before the fallback existed. Otherwise either branch may run: the Newton branch sees at
+// most e_reach = (E + γ₄)/(1 − γ₄) (fl(s) = s(1 + θ) within E of 1), the fallback at most
+// first_order_prescaled_error (< E by the choice of Newton steps), so the bound is the Newton
+// step's on the larger of the two, whatever came in: ≈ 4u + 3E²/8 ≤ 4u + 3u/8 (as evaluated in
+// T: float 2.25ε; double 2.0ε, where 3E²/8 = 3u/16 is below the evaluation's own rounding). +∞
+// where q may be 0 or ‖q‖² may overflow (incoming ≥ 1 or (1 + incoming)² near T's largest value),
+// where no bound holds.
 template <class T>
 constexpr T renormalized_norm_error(const FirstOrderRenormalization&, T incoming) noexcept {
-  if (!(incoming <= T(0.05))) {
+  const T g4 = detail::norm_gamma<T>(4);
+  const T big = T(1) + incoming;
+  if (!(incoming < T(1)) || !(big * big <= std::numeric_limits<T>::max() * (T(1) - g4))) {
     return std::numeric_limits<T>::infinity();
   }
-  const T u = std::numeric_limits<T>::epsilon() / T(2);
-  const T g4 = detail::norm_gamma<T>(4);
-  const T e = (T(1) + incoming) * (T(1) + incoming) - T(1);  // |s − 1| ≤ e
-  const T k = (T(1) + e) * g4 / (T(2) * (T(1.5) - T(0.5) * (T(1) + e)));
-  const T hi = (T(1) + k) * (T(1) + k) * detail::norm_power(T(1) + u, 4) - T(1);
-  const T g_lo = T(1) - T(0.75) * e * e - T(0.25) * e * e * e;
-  const T lo = g_lo * (T(1) - k) * (T(1) - k) * detail::norm_power(T(1) - u, 4) - T(1);
-  return detail::norm_from_squared_norm(lo, hi);
+  // |s − 1| ≤ e_in (the lower side, 1 − (1 − incoming)², is the smaller).
+  const T e_in = big * big - T(1);
+  const T range = detail::first_order_range<T>();
+  if (e_in + g4 * (T(1) + e_in) <= range) {
+    return detail::first_order_newton_error(e_in);
+  }
+  const T e_reach = (range + g4) / (T(1) - g4);
+  const T e_branch = e_in < e_reach ? e_in : e_reach;
+  const T e_fallback = detail::first_order_prescaled_error<T>();
+  return detail::first_order_newton_error(e_branch > e_fallback ? e_branch : e_fallback);
 }
 // None: what came in.
 template <class T>
@@ -254,7 +435,8 @@ template <class T>
 constexpr T norm_error_bound(const ExactRenormalization& policy, T step_drift, T initial,
                              std::uint64_t steps) noexcept {
   static_cast<void>(steps);
-  const T after = renormalized_norm_error(policy, detail::drifted_norm_error(initial, step_drift, 1));
+  const T after =
+      renormalized_norm_error(policy, detail::drifted_norm_error(initial, step_drift, 1));
   return initial > after ? initial : after;
 }
 // First order: the least invariant bound of b ↦ after(b drifted by one step), from b₀.
@@ -291,7 +473,8 @@ constexpr T norm_error_bound(const ThresholdRenormalization<T, Inner>& policy, T
                                                 (T(1) + tau) / (T(1) - g4) - T(1));
   const T floor = initial > kept ? initial : kept;
   return detail::least_invariant_bound(floor, [&policy, step_drift, floor](T b) {
-    const T fired = renormalized_norm_error(policy.inner, detail::drifted_norm_error(b, step_drift, 1));
+    const T fired =
+        renormalized_norm_error(policy.inner, detail::drifted_norm_error(b, step_drift, 1));
     return fired > floor ? fired : floor;
   });
 }
