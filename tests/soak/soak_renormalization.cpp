@@ -39,21 +39,19 @@
 //    (≤ 1) only for the first ~10⁶ steps and astronomically vacuous at 10⁸ (≈ 10²⁵);
 //  - attitude, every 1000 steps: angle to the truth ≤ truncation bound (rigorous, coning_error.hpp)
 //    + worst-case roundoff (RoundoffModel::worst_case, N × per-step: rigorous). In float that
-//    bound passes π after ~3·10⁶ steps (108 rad at 10⁸): the check is informative only up to
-//    there, and the soak requires it to be within 100× of the measured error at the last
-//    informative checkpoint. RoundoffModel::expected (√N × per-step, a typical size, not a bound)
-//    is NOT a valid description of these float runs: at a fixed mean attitude the rounding of
-//    q ⊗ exp(φ) (and of the renormalization) is correlated from step to step, because a factor a
-//    few ulps from 1 (cos(|φ|/2) ≈ 1 − 1.1e-7 here) rounds a quasi-static q the same way every
-//    step. The float error then grows linearly at first (≈ 0.57u per step over the first 10⁶
-//    steps: 31× the random-walk roundoff term), until the attitude settles, after ~6·10⁶ steps,
-//    where its components sit near short binary fractions (w ≈ 0.75, x ≈ z ≈ 0.375) and the
-//    biases balance: 0.30 rad from the truth for the rest of the run, 3.5× truncation + expected
-//    roundoff. That comparison is printed (KNOWN ISSUE), not asserted: asserting it would fail,
-//    and it is a library finding reported with the soak, not a property the library has. (Measured
-//    remedies, outside the library: the update in increment form q + q ⊗ (cos(|φ|/2) − 1, v) with
-//    cos − 1 from its series, renormalized by threshold, ends at 0.071 rad; a compensated
-//    two-float attitude at 0.0754 rad = the truncation bound.)
+//    bound passes π after ~3·10⁶ steps (108 rad at 10⁸): informative only up to there, and its
+//    ratio to the measured error is reported, not asserted, because it grows as √N: the steppers
+//    return the increment δ = exp(φ/2) − 1 with cos − 1 from its series and the propagator adds
+//    q ⊗ δ to q, so each step rounds q + (a small term) and the roundings no longer repeat from
+//    step to step; the errors follow RoundoffModel::expected (√N × per-step, a typical size, not
+//    a bound). That is asserted: every float lane within expected_model_limit (4) × truncation +
+//    expected roundoff at every checkpoint (measured worst 2.03, first_order; at the end
+//    0.82–1.56 ×: none 0.0727, exact 0.117, first_order 0.134, periodic 0.0791, threshold 0.0708
+//    rad against a truncation bound of 0.0754 rad).
+//    History: with the product form q ⊗ exp(φ/2) a factor a few ulps from 1 (cos(|φ|/2) ≈
+//    1 − 1.1e-7 here) rounded a quasi-static q the same way every step; the float error grew
+//    linearly (≈ 0.57u per step, 31× the random-walk term) and ended at 0.30 rad for every policy
+//    (3.5× the model; none's norm 0.11), and the worst-case bound was within 100× of it.
 //  - the same run in double (first_order policy) is held to truncation + worst-case roundoff at
 //    every checkpoint through 10⁸ steps, where that bound is informative (≤ 1.01 × measured at
 //    the end): the a-priori attitude bound verified over the full soak. (A short soak, whose
@@ -100,6 +98,9 @@ constexpr std::size_t samples_per_step = periods_per_step(Stepper::layout, Stepp
 // A bound is called informative while it is at most this (rad for attitude, dimensionless for
 // the norm): beyond, it no longer says anything a user could act on.
 constexpr double informative_limit = 1.0;
+// How far the float lanes may stray from the random-walk model (truncation + expected roundoff)
+// at any checkpoint: the measured worst with a margin of about 2 (header comment).
+constexpr double expected_model_limit = 4.0;
 
 int failures = 0;
 void check(bool ok, const std::string& what) {
@@ -177,6 +178,8 @@ struct Lane {
   double informative_norm_ratio = 0.0;  // bound / measured there
   std::uint64_t last_informative_attitude_step = 0;
   double informative_attitude_ratio = 0.0;
+  // Largest measured error / (truncation + expected random-walk roundoff) over the checkpoints.
+  double max_expected_ratio = 0.0;
 
   Lane(const char* n, const Quaternion<T>& initial, const GyroLimits<T>& limits)
       : name(n), propagator(initial, limits) {
@@ -201,9 +204,13 @@ struct Lane {
   // error against the norm bound for `steps` (both bounds grow with steps, so the running max
   // is the right quantity).
   void checkpoint(std::uint64_t steps, const Quaternion<LD>& truth, double attitude_bound,
-                  double norm_bound) {
+                  double norm_bound, double expected = 0.0) {
     final_attitude_error = angle_between(test::widen(propagator.attitude()), truth);
     max_attitude_error = std::fmax(max_attitude_error, final_attitude_error);
+    if (expected > 0.0) {
+      max_expected_ratio =
+          std::fmax(max_expected_ratio, static_cast<double>(final_attitude_error) / expected);
+    }
     if (static_cast<double>(final_attitude_error) > attitude_bound) {
       ++attitude_violations;
     }
@@ -289,10 +296,12 @@ int main(int argc, char** argv) {
   const auto double_bound = [&](std::uint64_t n) {
     return truncation(n) + roundoff_floor_worst<Stepper, double>(theta_d, static_cast<std::int64_t>(n));
   };
-  const auto n_all = static_cast<std::int64_t>(steps);
+  const auto expected_float = [&](std::uint64_t n) {
+    return truncation(n) + static_cast<double>(roundoff_floor_expected<Stepper, float>(
+                               theta, static_cast<std::int64_t>(n)));
+  };
   const double truncation_all = truncation(steps);
-  const double expected_all =
-      truncation_all + static_cast<double>(roundoff_floor_expected<Stepper, float>(theta, n_all));
+  const double expected_all = expected_float(steps);
   // The library's one-call form (float motion description) gives the same figures.
   MotionDescription<float> motion_f{};
   motion_f.coning = {static_cast<float>(cone_half_angle), static_cast<float>(frequency_hz)};
@@ -363,11 +372,12 @@ int main(int argc, char** argv) {
     const std::uint64_t n = (b + 1) * steps_per_block;
     const Quaternion<LD> truth = truth_after(first + block.size());
     const double bound_f = float_bound(n);
-    none.checkpoint(n, truth, bound_f, norm_bound(none, n));
-    exact.checkpoint(n, truth, bound_f, norm_bound(exact, n));
-    first_order.checkpoint(n, truth, bound_f, norm_bound(first_order, n));
-    periodic.checkpoint(n, truth, bound_f, norm_bound(periodic, n));
-    threshold.checkpoint(n, truth, bound_f, norm_bound(threshold, n));
+    const double expected_f = expected_float(n);
+    none.checkpoint(n, truth, bound_f, norm_bound(none, n), expected_f);
+    exact.checkpoint(n, truth, bound_f, norm_bound(exact, n), expected_f);
+    first_order.checkpoint(n, truth, bound_f, norm_bound(first_order, n), expected_f);
+    periodic.checkpoint(n, truth, bound_f, norm_bound(periodic, n), expected_f);
+    threshold.checkpoint(n, truth, bound_f, norm_bound(threshold, n), expected_f);
     in_double.checkpoint(n, truth, double_bound(n),
                          norm_error_bound(in_double.propagator.renormalization(), drift_d, b0_d, n));
     if ((b + 1) % report_every == 0) {
@@ -419,10 +429,12 @@ int main(int argc, char** argv) {
       check(lane.last_informative_norm_step == steps,
             name + ": the norm bound is informative (<= 1) through the whole run");
     } else {
+      // Reported: the worst-case drift adds d every step, the measured drift is a random walk
+      // (header comment), so their ratio grows as √n.
       std::printf("  %s: norm bound informative (<= 1) through step %" PRIu64 ", bound/measured there %.3g\n",
                   lane.name, lane.last_informative_norm_step, lane.informative_norm_ratio);
-      check(lane.last_informative_norm_step > 0 && lane.informative_norm_ratio <= 100.0,
-            name + ": the norm bound is within 100x of the measured drift at its last informative checkpoint");
+      check(lane.last_informative_norm_step > 0,
+            name + ": the norm bound is informative for a while (the first checkpoints)");
     }
     check(lane.attitude_violations == 0,
           name + ": attitude error within truncation + worst-case roundoff at every checkpoint");
@@ -432,12 +444,14 @@ int main(int argc, char** argv) {
                 std::to_string(lane.informative_attitude_ratio) + " <= " + std::to_string(ratio_limit) +
                 " at the end");
     } else {
+      // Reported, like the norm: N worst-case rounding terms against a √N random walk; how close
+      // the errors are to the random-walk model is asserted below (expected_model_limit).
       std::printf("  %s: attitude bound informative (<= %.0f rad) through step %" PRIu64
                   ", bound/measured there %.3g\n",
                   lane.name, informative_limit, lane.last_informative_attitude_step,
                   lane.informative_attitude_ratio);
-      check(lane.last_informative_attitude_step > 0 && lane.informative_attitude_ratio <= 100.0,
-            name + ": the attitude bound is within 100x of the measured error at its last informative checkpoint");
+      check(lane.last_informative_attitude_step > 0,
+            name + ": the attitude bound is informative for a while (the first checkpoints)");
     }
   };
   const bool long_float_run = float_bound(steps) > informative_limit;
@@ -449,17 +463,23 @@ int main(int argc, char** argv) {
   check_lane(threshold, true, !long_float_run, 100.0);
   check_lane(in_double, true, true, 1.01);
 
-  // The random-walk model, reported (see the header comment: correlated rounding in float).
-  std::printf("\nKNOWN ISSUE (reported, not asserted): float attitude error vs truncation + expected "
-              "(random-walk) roundoff %.4e rad:\n", expected_all);
-  for (const double e : {static_cast<double>(none.max_attitude_error),
-                         static_cast<double>(exact.max_attitude_error),
-                         static_cast<double>(first_order.max_attitude_error),
-                         static_cast<double>(periodic.max_attitude_error),
-                         static_cast<double>(threshold.max_attitude_error)}) {
-    std::printf("  %.4e rad = %.2f x the model%s\n", e, e / expected_all,
-                e > expected_all ? " (exceeds it)" : "");
-  }
+  // The random-walk model (header comment): every float lane within expected_model_limit of it
+  // at every checkpoint.
+  std::printf("\nfloat attitude error vs truncation + expected (random-walk) roundoff (%.4e rad "
+              "at the end), largest ratio over the checkpoints:\n", expected_all);
+  const auto check_expected = [&](const auto& lane) {
+    std::printf("  %-12s end %.4Le rad = %.2f x the model; largest ratio %.2f\n", lane.name,
+                lane.final_attitude_error,
+                static_cast<double>(lane.final_attitude_error) / expected_all, lane.max_expected_ratio);
+    check(lane.max_expected_ratio <= expected_model_limit,
+          std::string(lane.name) + ": attitude error within " + std::to_string(expected_model_limit) +
+              " x truncation + expected roundoff at every checkpoint");
+  };
+  check_expected(none);
+  check_expected(exact);
+  check_expected(first_order);
+  check_expected(periodic);
+  check_expected(threshold);
 
   std::printf("\n%s: %d check(s) failed\n", failures == 0 ? "soak passed" : "SOAK FAILED", failures);
   return failures == 0 ? 0 : 1;
