@@ -174,28 +174,41 @@ TEST_CASE("a non-finite step result is rejected and leaves state intact", "[prop
 // Found by fuzzing (fuzz/fuzz_propagator.cpp; inputs in fuzz/regressions/fuzz_propagator/): a
 // step result that is finite can renormalize to an attitude that is not. Classic RK4 over a step
 // angle of √3·1000 rad/s·2 s ≈ 3500 rad (a gyro range and gap limit this wide make it valid input)
-// returns ‖q‖² ≈ 1e23 in float; the first-order Newton factor 3/2 − ‖q‖²/2 ≈ −7e22 then gives
-// components near 3e34, whose squared norm overflows. Before the fix the step was taken (status
-// ok) and the propagator was stuck on that attitude; now the renormalized result is checked
-// (‖q‖² positive and finite) and the step is rejected as non_finite with the state intact, the
-// policy's own state (a periodic counter) included.
+// returns ‖q‖² ≈ 1e23 in float. Before the fix the first-order Newton factor 3/2 − ‖q‖²/2 gave
+// components near 3e34 whose squared norm overflows, and the step was taken (status ok) with that
+// attitude. First-order renormalization now falls back to q/‖q‖ outside its Newton range
+// (renormalization.hpp), so that step is taken with a unit attitude; the propagator's check of
+// the renormalized result (‖q‖² positive and finite) is still what rejects a step whose own
+// result overflows: 3e5 rad/s per axis over 1 s (rate function) or 2 s (samples) gives ‖q‖² beyond
+// FLT_MAX (≈ 3.6e40 for 1 s: the θ⁴/24 term of P at θ/2 = 2.6e5), rejected as
+// non_finite with the state intact, the policy's own state (a periodic counter) included.
 TEST_CASE(
     "a step whose renormalized result or error estimate overflows is rejected with state intact",
     "[propagation]") {
   const GyroLimits<float> wide{1000.0f, 1.0f};
   const Quaternion<float> q0{0.6f, 0.0f, 0.8f, 0.0f};
   const Vector3<float> w{1000.0f, -1000.0f, 1000.0f};
-  Propagator<float, RungeKutta4Sampled, FirstOrderRenormalization> p(q0, wide);
-  REQUIRE(p.push(w, 1.0f) == Status::waiting_for_samples);
-  REQUIRE(p.push(w, 1.0f) == Status::waiting_for_samples);
-  REQUIRE(p.push(w, 1.0f) == Status::non_finite);
+  {
+    // ‖q‖² ≈ 1e23 after the step: first order falls back to the exact form, a unit attitude.
+    Propagator<float, RungeKutta4Sampled, FirstOrderRenormalization> taken(q0, wide);
+    REQUIRE(taken.push(w, 1.0f) == Status::waiting_for_samples);
+    REQUIRE(taken.push(w, 1.0f) == Status::waiting_for_samples);
+    REQUIRE(taken.push(w, 1.0f) == Status::ok);
+    REQUIRE(std::fabs(taken.norm_error()) <= 4 * std::numeric_limits<float>::epsilon());
+  }
+  const GyroLimits<float> huge{3e5f, 1.0f};
+  const Vector3<float> w_huge{3e5f, -3e5f, 3e5f};
+  Propagator<float, RungeKutta4Sampled, FirstOrderRenormalization> p(q0, huge);
+  REQUIRE(p.push(w_huge, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(p.push(w_huge, 1.0f) == Status::waiting_for_samples);
+  REQUIRE(p.push(w_huge, 1.0f) == Status::non_finite);
   REQUIRE(same_bits(p.attitude(), q0));
   REQUIRE(p.counters().rejected_non_finite == 1);
   REQUIRE(p.counters().steps == 0);
   REQUIRE(p.counters().samples_accepted == 2);
   // The rate-function path checks the same.
-  Propagator<float, RungeKutta4RateFunction, FirstOrderRenormalization> f(q0, wide);
-  REQUIRE(f.advance([&w](float) { return w; }, 1.0f) == Status::non_finite);
+  Propagator<float, RungeKutta4RateFunction, FirstOrderRenormalization> f(q0, huge);
+  REQUIRE(f.advance([&w_huge](float) { return w_huge; }, 1.0f) == Status::non_finite);
   REQUIRE(same_bits(f.attitude(), q0));
   // Periodic, every second step: the first step is kept as it is (‖q‖² ≈ 1e23, finite), the
   // second overflows inside the step and would have reached the Newton factor as −∞; it is
