@@ -86,9 +86,11 @@ TEST_CASE("catalogue ids are stable: stored fuzz corpora keep their stepper", "[
   }
   CHECK_FALSE(StepperCatalogue::visit_id(999, [](auto) {}));
   STATIC_REQUIRE(StepperCatalogue::ids_unique());
-  STATIC_REQUIRE(StepperCatalogue::names_unique());
-  STATIC_REQUIRE(StepperCatalogue::index_of("magnus_4") < StepperCatalogue::size);
-  STATIC_REQUIRE(StepperCatalogue::index_of("expmap_hold_end") == StepperCatalogue::size);
+  for (std::size_t i = 0; i < StepperCatalogue::size; ++i) {
+    for (std::size_t j = 0; j < i; ++j) {
+      CHECK(std::string(StepperCatalogue::names[i]) != StepperCatalogue::names[j]);
+    }
+  }
 }
 
 TEST_CASE("every catalogued stepper has a finite a-priori bound for a smooth rate envelope",

@@ -342,7 +342,8 @@ constexpr T quadrature_error(const RotationVectorRule<W>& r, const RateEnvelope<
   for (int j = 0; j < d; ++j) {
     hp *= h;
   }
-  const T top_form = product(to_scalar<T>(peano_top(r, d)) * hp, e[static_cast<std::size_t>(d + 1)]);
+  const std::size_t derivative = static_cast<std::size_t>(d) + 1;
+  const T top_form = product(to_scalar<T>(peano_top(r, d)) * hp, e[derivative]);
   return smaller(zero_form, top_form);
 }
 

@@ -401,7 +401,7 @@ struct RotationVectorWeights {
 // samples (rates in rad/s or delta-angles in rad, as the layout says); dt (s) the step length.
 template <class Rule>
 struct RotationVectorStepper {
-  static constexpr auto& rule = Rule::value;
+  static constexpr const RotationVectorRule<Rule::value.window>& rule = Rule::value;
   using family = RotationVectorStepper<Rule>;  // the bounds layer dispatches on it
   static constexpr SampleLayout layout = rule.layout;
   static constexpr std::size_t window = rule.window;

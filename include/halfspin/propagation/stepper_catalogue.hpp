@@ -6,7 +6,8 @@
 // stepper by id, so stored corpora keep their meaning when steppers are added) and the docs'
 // tables. A build check fails when a stepper type exists that this list lacks
 // (tests/build_checks: catalogue_complete), and when a listed stepper has no finite a-priori
-// bound for a smooth rate envelope (catalogue_bounds).
+// bound for a smooth rate envelope, or a name that is not the snake_case of its type (names are
+// then unique as the types are; tests/propagation/test_catalogue.cpp).
 //
 // Adding a stepper: its header (one algorithm; for a family member, its data), one line below
 // with the next unused id (ids are never reused or renumbered), and its own tests.
@@ -45,31 +46,6 @@ struct CatalogueEntry {
 
 namespace detail {
 
-constexpr bool same_text(const char* a, const char* b) noexcept {
-  while (*a != '\0' && *a == *b) {
-    ++a;
-    ++b;
-  }
-  return *a == *b;
-}
-
-// A run-time name is lower-case words and numbers joined by single underscores.
-constexpr bool is_snake_case(const char* s) noexcept {
-  if (*s == '\0' || *s == '_') {
-    return false;
-  }
-  char previous = '_';
-  for (; *s != '\0'; ++s) {
-    const char c = *s;
-    const bool word = (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9');
-    if (!word && !(c == '_' && previous != '_')) {
-      return false;
-    }
-    previous = c;
-  }
-  return previous != '_';
-}
-
 // What the contract (stepper_traits.hpp) requires of every catalogued stepper, at compile time.
 template <class S>
 constexpr bool meets_contract() noexcept {
@@ -83,7 +59,6 @@ constexpr bool meets_contract() noexcept {
   static_assert(std::is_same<decltype(S::has_estimate), const bool>::value,
                 "a stepper says whether it estimates its error");
   static_assert(S::order >= 1 && S::flops > 0, "order and flops are positive");
-  static_assert(is_snake_case(S::name), "run-time names are snake_case");
   using family = typename S::family;  // the data the bounds layer dispatches on
   static_cast<void>(sizeof(family*));
   return true;
@@ -112,31 +87,11 @@ struct StepperCatalogueOf {
     ((!found && Entries::id == id ? (f(Entries{}), found = true) : false), ...);
     return found;
   }
-  // Index of the stepper called `name` in the catalogue, or size if none.
-  static constexpr std::size_t index_of(const char* name) noexcept {
-    for (std::size_t i = 0; i < size; ++i) {
-      if (detail::same_text(names[i], name)) {
-        return i;
-      }
-    }
-    return size;
-  }
-
   static constexpr bool all_meet_contract = (detail::meets_contract<typename Entries::stepper>() && ...);
   static constexpr bool ids_unique() noexcept {
     for (std::size_t i = 0; i < size; ++i) {
       for (std::size_t j = 0; j < i; ++j) {
         if (ids[i] == ids[j]) {
-          return false;
-        }
-      }
-    }
-    return true;
-  }
-  static constexpr bool names_unique() noexcept {
-    for (std::size_t i = 0; i < size; ++i) {
-      for (std::size_t j = 0; j < i; ++j) {
-        if (detail::same_text(names[i], names[j])) {
           return false;
         }
       }
@@ -176,6 +131,5 @@ using StepperCatalogue = StepperCatalogueOf<
 
 static_assert(StepperCatalogue::all_meet_contract, "every catalogued stepper meets the contract");
 static_assert(StepperCatalogue::ids_unique(), "catalogue ids are unique");
-static_assert(StepperCatalogue::names_unique(), "stepper names are unique");
 
 }  // namespace halfspin
