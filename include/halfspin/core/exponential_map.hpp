@@ -18,17 +18,27 @@ inline constexpr int quaternion_exp_series_flops = 20;
 // Rotation vector φ (rad) → unit quaternion exp(φ/2). Below the per-type threshold of
 // ScalarTraits the series of cos(θ/2) and sin(θ/2)/θ are used, which need only θ² (no square root,
 // no trigonometry) and stay exact for denormal-sized φ. Valid for |φ|² below the type's maximum.
+namespace detail {
+// Below ScalarTraits::exp_series_angle_squared, from t = θ²: cos(θ/2) − 1 = −θ²/8 + θ⁴/384 − θ⁶/46080
+// + … and sin(θ/2)/θ = 1/2 − θ²/48 + θ⁴/3840 − θ⁶/645120. The θ⁶ terms are below half an ulp at the
+// threshold but always of one sign: dropping them would bias every step the same way and the norm
+// would drift linearly over a long run.
+template <class T>
+constexpr void half_angle_series(T t, T& c_minus_one, T& s_over_angle) noexcept {
+  c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * T(-1.0L / 46080)));
+  s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * T(-1.0L / 645120)));
+}
+}  // namespace detail
+
 template <class T>
 Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
   const T t = squared_norm(phi);
   T c;
   T s_over_angle;  // sin(θ/2)/θ
   if (t < ScalarTraits<T>::exp_series_angle_squared) {
-    // cos(θ/2) = 1 − θ²/8 + θ⁴/384 − θ⁶/46080 + …,  sin(θ/2)/θ = 1/2 − θ²/48 + θ⁴/3840 − θ⁶/645120.
-    // The θ⁶ terms are below half an ulp at the threshold but always of one sign: dropping them
-    // would bias every step the same way and the norm would drift linearly over a long run.
-    c = T(1) + t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * T(-1.0L / 46080)));
-    s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * T(-1.0L / 645120)));
+    T c_minus_one;
+    detail::half_angle_series(t, c_minus_one, s_over_angle);
+    c = T(1) + c_minus_one;
   } else {
     const T angle = std::sqrt(t);
     const T half = T(0.5) * angle;
@@ -53,9 +63,7 @@ Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
   T c_minus_one;
   T s_over_angle;  // sin(θ/2)/θ
   if (t < ScalarTraits<T>::exp_series_angle_squared) {
-    // The θ⁶ terms kept for the reason given in quaternion_exp.
-    c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * T(-1.0L / 46080)));
-    s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * T(-1.0L / 645120)));
+    detail::half_angle_series(t, c_minus_one, s_over_angle);
   } else {
     const T angle = std::sqrt(t);
     const T quarter_sine = std::sin(T(0.25) * angle);

@@ -29,6 +29,7 @@
 #include <cmath>
 #include <cstddef>
 #include <type_traits>
+#include <utility>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
@@ -89,12 +90,13 @@ struct EmbeddedRungeKutta {
   template <class T>
   static Increment<T> from_stage_rates(const std::array<Vector3<T>, stages>& stage_rate,
                                        T dt) noexcept {
-    using C = TableauCoefficients<Tableau, T>;
     const T half_dt = T(0.5) * dt;
     const std::array<Quaternion<T>, stages> k =
         detail::increment_stage_slopes<Tableau>(stage_rate, half_dt);
-    const Quaternion<T> high = detail::weighted_slopes(C::b, k, stages, half_dt);
-    const Quaternion<T> difference = detail::weighted_slopes(C::b_difference, k, stages, half_dt);
+    const Quaternion<T> high = detail::weighted_slopes<detail::SolutionWeights<Tableau, T>>(
+        k, half_dt, std::make_index_sequence<stages>{});
+    const Quaternion<T> difference = detail::weighted_slopes<detail::DifferenceWeights<Tableau, T>>(
+        k, half_dt, std::make_index_sequence<stages>{});
     return {high, T(2) * std::sqrt(squared_norm(difference))};
   }
 };

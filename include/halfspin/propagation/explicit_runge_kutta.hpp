@@ -45,6 +45,7 @@
 #include <array>
 #include <cstddef>
 #include <type_traits>
+#include <utility>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
@@ -123,25 +124,38 @@ struct StageSampleFractions {
   static constexpr std::array<T, S> fraction = round_all<T>(positions.fraction);
 };
 
+// Stage I's rate from W samples spanning the step (rad/s): a repeated node reuses its first
+// stage's rate, a node on the grid reads its sample, any other interpolates; decided at compile
+// time, so a step tests no coefficient.
+template <class Tableau, std::size_t Window, std::size_t I, class T, std::size_t S>
+constexpr void stage_rate_from_samples(std::array<Vector3<T>, S>& w,
+                                       const std::array<Vector3<T>, Window>& rate) noexcept {
+  using F = StageSampleFractions<Tableau, Window, T>;
+  constexpr std::size_t first = first_stage_with_node(Tableau::value)[I];
+  constexpr std::size_t lower = F::positions.lower[I];
+  if constexpr (first != I) {
+    w[I] = w[first];
+  } else if constexpr (F::positions.fraction[I] == 0.0L) {
+    w[I] = rate[lower];
+  } else {
+    w[I] = rate[lower] + F::fraction[I] * (rate[lower + 1] - rate[lower]);
+  }
+}
+
+template <class Tableau, std::size_t Window, class T, std::size_t... I>
+constexpr std::array<Vector3<T>, sizeof...(I)> stage_rates_from_samples(
+    const std::array<Vector3<T>, Window>& rate, std::index_sequence<I...> /*stages*/) noexcept {
+  std::array<Vector3<T>, sizeof...(I)> w{};
+  (stage_rate_from_samples<Tableau, Window, I>(w, rate), ...);
+  return w;
+}
+
 // Rates at the stage times from W samples spanning the step (rad/s).
 template <class Tableau, std::size_t Window, class T>
 constexpr std::array<Vector3<T>, Tableau::value.stages> stage_rates_from_samples(
     const std::array<Vector3<T>, Window>& rate) noexcept {
-  constexpr std::size_t S = Tableau::value.stages;
-  using F = StageSampleFractions<Tableau, Window, T>;
-  constexpr std::array<std::size_t, S> first = first_stage_with_node(Tableau::value);
-  std::array<Vector3<T>, S> w{};
-  for (std::size_t i = 0; i < S; ++i) {
-    const std::size_t lower = F::positions.lower[i];
-    if (first[i] != i) {
-      w[i] = w[first[i]];
-    } else if (F::fraction[i] == T(0)) {
-      w[i] = rate[lower];
-    } else {
-      w[i] = rate[lower] + F::fraction[i] * (rate[lower + 1] - rate[lower]);
-    }
-  }
-  return w;
+  return stage_rates_from_samples<Tableau, Window>(rate,
+                                                   std::make_index_sequence<Tableau::value.stages>{});
 }
 
 // Rates at the stage times from a rate function of τ ∈ [0, dt] (rad/s); one call per distinct node.
@@ -173,45 +187,80 @@ constexpr Quaternion<T> times_pure(const Quaternion<T>& q, const Vector3<T>& w) 
           q.w * w.y - q.x * w.z + q.z * w.x, q.w * w.z + q.x * w.y - q.y * w.x};
 }
 
-// Σ (weight_i · dt/2) k̃_i over the nonzero weights; the first term starts the sum (no 0 + x).
-template <class T, std::size_t S>
-constexpr Quaternion<T> weighted_slopes(const std::array<T, S>& weight,
-                                        const std::array<Quaternion<T>, S>& k, std::size_t count,
-                                        T half_dt) noexcept {
-  Quaternion<T> r{T(0), T(0), T(0), T(0)};
-  bool started = false;
-  for (std::size_t i = 0; i < count; ++i) {
-    if (weight[i] != T(0)) {
-      const Quaternion<T> term = (weight[i] * half_dt) * k[i];
-      r = started ? r + term : term;
-      started = true;
-    }
+// Which weights of the tableau a weighted sum of slopes uses, rounded once to T: row `Row` of a
+// (a stage increment), b (the solution) or b − b̂ (the embedded pair's estimate).
+template <class Tableau, class T, std::size_t Row>
+struct StageWeights {
+  static constexpr std::array<T, Tableau::value.stages> value = TableauCoefficients<Tableau, T>::a[Row];
+};
+template <class Tableau, class T>
+struct SolutionWeights {
+  static constexpr std::array<T, Tableau::value.stages> value = TableauCoefficients<Tableau, T>::b;
+};
+template <class Tableau, class T>
+struct DifferenceWeights {
+  static constexpr std::array<T, Tableau::value.stages> value =
+      TableauCoefficients<Tableau, T>::b_difference;
+};
+
+// Adds (w_J · dt/2) k̃_J to sum when w_J ≠ 0, decided at compile time (the first term starts the
+// sum: no 0 + x). Unrolled by the fold in weighted_slopes: a step carries no test of a
+// coefficient, whatever the compiler's unrolling heuristics.
+template <class Weights, std::size_t J, class T, std::size_t S>
+constexpr void add_weighted_slope(Quaternion<T>& sum, bool& started,
+                                  const std::array<Quaternion<T>, S>& k, T half_dt) noexcept {
+  if constexpr (Weights::value[J] != T(0)) {
+    const Quaternion<T> term = (Weights::value[J] * half_dt) * k[J];
+    sum = started ? sum + term : term;
+    started = true;
   }
-  return r;
 }
 
-// The stage slopes from q = 1 (without their factor ½): k̃_i = (1 + D_i) ⊗ (0, ω_i) with the stage
-// increment D_i = (dt/2) Σ_{j<i} a_ij k̃_j, formed as (0, ω_i) + D_i ⊗ (0, ω_i).
+// Σ_{j ∈ J} (w_j · dt/2) k̃_j over the nonzero weights.
+template <class Weights, class T, std::size_t S, std::size_t... J>
+constexpr Quaternion<T> weighted_slopes(const std::array<Quaternion<T>, S>& k, T half_dt,
+                                        std::index_sequence<J...> /*indices*/) noexcept {
+  Quaternion<T> sum{T(0), T(0), T(0), T(0)};
+  bool started = false;
+  (add_weighted_slope<Weights, J>(sum, started, k, half_dt), ...);
+  return sum;
+}
+
+template <std::size_t S>
+constexpr bool any_nonzero(const std::array<long double, S>& row) noexcept {
+  return count_nonzero(row) != 0;
+}
+
+// Stage I's slope from q = 1 (without its factor ½): k̃_I = (1 + D_I) ⊗ (0, ω_I) with the stage
+// increment D_I = (dt/2) Σ_{j<I} a_Ij k̃_j, formed as (0, ω_I) + D_I ⊗ (0, ω_I).
+template <class Tableau, std::size_t I, class T, std::size_t S>
+constexpr void stage_slope(std::array<Quaternion<T>, S>& k, const std::array<Vector3<T>, S>& rate,
+                           T half_dt) noexcept {
+  const Quaternion<T> pure{T(0), rate[I].x, rate[I].y, rate[I].z};
+  if constexpr (any_nonzero(Tableau::value.a[I])) {
+    const Quaternion<T> d = weighted_slopes<StageWeights<Tableau, T, I>>(
+        k, half_dt, std::make_index_sequence<I>{});
+    k[I] = pure + times_pure(d, rate[I]);
+  } else {
+    k[I] = pure;
+  }
+}
+
+template <class Tableau, class T, std::size_t S, std::size_t... I>
+constexpr std::array<Quaternion<T>, S> increment_stage_slopes(const std::array<Vector3<T>, S>& rate,
+                                                              T half_dt,
+                                                              std::index_sequence<I...> /*stages*/) noexcept {
+  std::array<Quaternion<T>, S> k{};
+  (stage_slope<Tableau, I>(k, rate, half_dt), ...);
+  return k;
+}
+
+// The stage slopes k̃_i of the whole tableau, in stage order.
 template <class Tableau, class T>
 constexpr std::array<Quaternion<T>, Tableau::value.stages> increment_stage_slopes(
     const std::array<Vector3<T>, Tableau::value.stages>& rate, T half_dt) noexcept {
-  constexpr std::size_t S = Tableau::value.stages;
-  using C = TableauCoefficients<Tableau, T>;
-  std::array<Quaternion<T>, S> k{};
-  for (std::size_t i = 0; i < S; ++i) {
-    const Quaternion<T> pure{T(0), rate[i].x, rate[i].y, rate[i].z};
-    bool any = false;
-    for (std::size_t j = 0; j < i; ++j) {
-      any = any || C::a[i][j] != T(0);
-    }
-    if (any) {
-      const Quaternion<T> d = weighted_slopes(C::a[i], k, i, half_dt);
-      k[i] = pure + times_pure(d, rate[i]);
-    } else {
-      k[i] = pure;
-    }
-  }
-  return k;
+  return increment_stage_slopes<Tableau>(rate, half_dt,
+                                         std::make_index_sequence<Tableau::value.stages>{});
 }
 
 // Flops of the increment (stage slopes, δ, dt/2) plus the plain application (header comment).
@@ -298,7 +347,8 @@ struct ExplicitRungeKutta {
     const T half_dt = T(0.5) * dt;
     const std::array<Quaternion<T>, stages> k =
         detail::increment_stage_slopes<Tableau>(stage_rate, half_dt);
-    return detail::weighted_slopes(TableauCoefficients<Tableau, T>::b, k, stages, half_dt);
+    return detail::weighted_slopes<detail::SolutionWeights<Tableau, T>>(
+        k, half_dt, std::make_index_sequence<stages>{});
   }
 };
 

@@ -39,6 +39,7 @@
 #include <array>
 #include <cstddef>
 #include <type_traits>
+#include <utility>
 
 #include "halfspin/core/exponential_map.hpp"
 #include "halfspin/core/quaternion.hpp"
@@ -109,25 +110,45 @@ struct MuntheKaasRungeKutta {
   template <class T>
   static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, stages>& stage_rate,
                                               T dt) noexcept {
-    using C = TableauCoefficients<Tableau, T>;
     std::array<Vector3<T>, stages> k{};
     k[0] = stage_rate[0];  // dexp⁻¹ at θ = 0 is the identity
-    for (std::size_t i = 1; i < stages; ++i) {
-      Vector3<T> theta = Vector3<T>::zero();
-      for (std::size_t j = 0; j < i; ++j) {
-        if (C::a[i][j] != T(0)) {
-          theta += (C::a[i][j] * dt) * k[j];
-        }
-      }
-      k[i] = detail::rotation_vector_rate(theta, stage_rate[i]);
+    stage_slopes(k, stage_rate, dt, std::make_index_sequence<stages>{});
+    return weighted_rates<detail::SolutionWeights<Tableau, T>>(k, dt,
+                                                               std::make_index_sequence<stages>{});
+  }
+
+ private:
+  // Folds over index sequences with `if constexpr` (as explicit_runge_kutta.hpp): a step tests no
+  // coefficient at run time.
+  template <class Weights, std::size_t J, class T>
+  static constexpr void add_weighted_rate(Vector3<T>& theta, const std::array<Vector3<T>, stages>& k,
+                                          T dt) noexcept {
+    if constexpr (Weights::value[J] != T(0)) {
+      theta += (Weights::value[J] * dt) * k[J];
     }
+  }
+  // θ = Σ_j (w_j·dt) k_j over the nonzero weights (rad).
+  template <class Weights, class T, std::size_t... J>
+  static constexpr Vector3<T> weighted_rates(const std::array<Vector3<T>, stages>& k, T dt,
+                                             std::index_sequence<J...> /*indices*/) noexcept {
     Vector3<T> theta = Vector3<T>::zero();
-    for (std::size_t i = 0; i < stages; ++i) {
-      if (C::b[i] != T(0)) {
-        theta += (C::b[i] * dt) * k[i];
-      }
-    }
+    (add_weighted_rate<Weights, J>(theta, k, dt), ...);
     return theta;
+  }
+  template <std::size_t I, class T>
+  static constexpr void stage_slope(std::array<Vector3<T>, stages>& k,
+                                    const std::array<Vector3<T>, stages>& stage_rate, T dt) noexcept {
+    if constexpr (I > 0) {
+      const Vector3<T> theta = weighted_rates<detail::StageWeights<Tableau, T, I>>(
+          k, dt, std::make_index_sequence<I>{});
+      k[I] = detail::rotation_vector_rate(theta, stage_rate[I]);
+    }
+  }
+  template <class T, std::size_t... I>
+  static constexpr void stage_slopes(std::array<Vector3<T>, stages>& k,
+                                     const std::array<Vector3<T>, stages>& stage_rate, T dt,
+                                     std::index_sequence<I...> /*stages*/) noexcept {
+    (stage_slope<I>(k, stage_rate, dt), ...);
   }
 };
 

@@ -34,6 +34,8 @@
 #include <cmath>
 #include <cstddef>
 #include <cstdint>
+#include <type_traits>
+#include <utility>
 
 #include "halfspin/core/exponential_map.hpp"
 #include "halfspin/core/quaternion.hpp"
@@ -417,22 +419,21 @@ struct RotationVectorStepper {
   // α̂ = Σ w_i s_i (rad): the quadrature of ∫ω over the step (delta-angles: their sum).
   template <class T>
   static constexpr Vector3<T> quadrature_term(const std::array<Vector3<T>, window>& s, T dt) noexcept {
-    Vector3<T> sum{};
-    bool started = false;
-    for (std::size_t i = 0; i < window; ++i) {
-      if (rule.quadrature[i] == 0) {
-        continue;
-      }
-      const Vector3<T> term = rule.quadrature[i] == 1 ? s[i] : T(rule.quadrature[i]) * s[i];
-      sum = started ? sum + term : term;  // no 0 + x: the first term starts the sum
-      started = true;
-    }
+    const Vector3<T> sum = weighted_sum(s, std::make_index_sequence<window>{});
     constexpr T inverse = detail::RotationVectorWeights<Rule, T>::quadrature_inverse;
     if constexpr (detail::carries_rates(layout)) {
-      return rule.quadrature_denominator == 1 ? sum * dt : sum * (dt * inverse);
+      if constexpr (rule.quadrature_denominator == 1) {
+        return sum * dt;
+      } else {
+        return sum * (dt * inverse);
+      }
     } else {
       static_cast<void>(dt);
-      return rule.quadrature_denominator == 1 ? sum : inverse * sum;
+      if constexpr (rule.quadrature_denominator == 1) {
+        return sum;
+      } else {
+        return inverse * sum;
+      }
     }
   }
 
@@ -442,24 +443,7 @@ struct RotationVectorStepper {
   static constexpr Vector3<T> commutator_term(const std::array<Vector3<T>, window>& s, T dt) noexcept {
     Vector3<T> beta{};
     bool started = false;
-    for (std::size_t m = 1; m < window; ++m) {
-      if (rule.commutator.numerators[m - 1] == 0) {
-        continue;
-      }
-      Vector3<T> sum = cross(s[0], s[m]);
-      for (std::size_t i = 1; i + m < window; ++i) {
-        sum += cross(s[i], s[i + m]);
-      }
-      const T weight = detail::RotationVectorWeights<Rule, T>::commutator[m - 1];
-      Vector3<T> term;
-      if constexpr (detail::carries_rates(layout)) {
-        term = sum * (dt * dt * weight);
-      } else {
-        term = weight * sum;
-      }
-      beta = started ? beta + term : term;
-      started = true;
-    }
+    add_separations(beta, started, s, dt, std::make_index_sequence<(window > 0 ? window - 1 : 0)>{});
     static_cast<void>(dt);
     return beta;
   }
@@ -498,6 +482,62 @@ struct RotationVectorStepper {
                                            const std::array<Vector3<T>, window>& s, T dt) noexcept {
     const Increment<T> inc = increment(s, dt);
     return {apply_increment(q, inc.delta), inc.error_estimate};
+  }
+
+ private:
+  // The loops over the rule's weights are folds over index sequences with `if constexpr`, so a
+  // step tests no weight and converts no integer at run time, whatever the compiler's unrolling
+  // heuristics (arm-none-eabi-g++ -O2 kept the plain loops, with their tests, for four samples).
+  template <class T, std::size_t I>
+  static constexpr void add_sample(Vector3<T>& sum, bool& started,
+                                   const std::array<Vector3<T>, window>& s) noexcept {
+    if constexpr (rule.quadrature[I] != 0) {
+      Vector3<T> term = s[I];
+      if constexpr (rule.quadrature[I] != 1) {
+        term = T(rule.quadrature[I]) * s[I];
+      }
+      sum = started ? sum + term : term;  // no 0 + x: the first term starts the sum
+      started = true;
+    }
+  }
+  template <class T, std::size_t... I>
+  static constexpr Vector3<T> weighted_sum(const std::array<Vector3<T>, window>& s,
+                                           std::index_sequence<I...> /*samples*/) noexcept {
+    Vector3<T> sum{};
+    bool started = false;
+    (add_sample<T, I>(sum, started, s), ...);
+    return sum;
+  }
+  // Σ_i s_i × s_(i+M) over the window, the first product starting the sum.
+  template <std::size_t M, class T, std::size_t... I>
+  static constexpr Vector3<T> cross_products(const std::array<Vector3<T>, window>& s,
+                                             std::index_sequence<0, I...> /*pairs*/) noexcept {
+    Vector3<T> sum = cross(s[0], s[M]);
+    ((sum += cross(s[I], s[I + M])), ...);
+    return sum;
+  }
+  template <class T, std::size_t Index>
+  static constexpr void add_separation(Vector3<T>& beta, bool& started,
+                                       const std::array<Vector3<T>, window>& s, T dt) noexcept {
+    constexpr std::size_t m = Index + 1;
+    if constexpr (rule.commutator.numerators[Index] != 0) {
+      const Vector3<T> sum = cross_products<m>(s, std::make_index_sequence<window - m>{});
+      constexpr T weight = detail::RotationVectorWeights<Rule, T>::commutator[Index];
+      Vector3<T> term;
+      if constexpr (detail::carries_rates(layout)) {
+        term = sum * (dt * dt * weight);
+      } else {
+        term = weight * sum;
+      }
+      beta = started ? beta + term : term;
+      started = true;
+    }
+  }
+  template <class T, std::size_t... Index>
+  static constexpr void add_separations(Vector3<T>& beta, bool& started,
+                                        const std::array<Vector3<T>, window>& s, T dt,
+                                        std::index_sequence<Index...> /*separations*/) noexcept {
+    (add_separation<T, Index>(beta, started, s, dt), ...);
   }
 };
 
