@@ -15,17 +15,13 @@
 #include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/runge_kutta_bounds.hpp"
-#include "halfspin/propagation/coning_compensation.hpp"
-#include "halfspin/propagation/embedded_runge_kutta.hpp"
-#include "halfspin/propagation/explicit_runge_kutta.hpp"
-#include "halfspin/propagation/exponential_map_step.hpp"
-#include "halfspin/propagation/lie_group_runge_kutta.hpp"
-#include "halfspin/propagation/magnus4.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/two_gimbal.hpp"
+#include "catalogue_types.hpp"
 #include "propagation_runs.hpp"
 #include "test_support.hpp"
 
@@ -164,45 +160,11 @@ void check_all_motions() {
 
 }  // namespace
 
-TEMPLATE_TEST_CASE("bounds are safe: exponential map, Magnus", "[bounds]", float, double) {
-  using T = TestType;
-  check_all_motions<ExponentialMapHoldEnd, T>();
-  check_all_motions<ExponentialMapHoldStart, T>();
-  check_all_motions<ExponentialMapMidpointMean, T>();
-  check_all_motions<ExponentialMapMidpointSample, T>();
-  check_all_motions<Magnus4, T>();
-}
-
-TEMPLATE_TEST_CASE("bounds are safe: Runge–Kutta", "[bounds]", float, double) {
-  using T = TestType;
-  check_all_motions<RungeKutta2MidpointSampled, T>();
-  check_all_motions<RungeKutta2MidpointInterpolated, T>();
-  check_all_motions<RungeKutta2MidpointRateFunction, T>();
-  check_all_motions<RungeKutta3KuttaSampled, T>();
-  check_all_motions<RungeKutta3KuttaInterpolated, T>();
-  check_all_motions<RungeKutta3KuttaRateFunction, T>();
-  check_all_motions<RungeKutta4Sampled, T>();
-  check_all_motions<RungeKutta4Interpolated, T>();
-  check_all_motions<RungeKutta4RateFunction, T>();
-}
-
-TEMPLATE_TEST_CASE("bounds are safe: embedded pairs and RKMK4", "[bounds]", float, double) {
-  using T = TestType;
-  check_all_motions<BogackiShampine32RateFunction, T>();
-  check_all_motions<DormandPrince54RateFunction, T>();
-  check_all_motions<MuntheKaas4Sampled, T>();
-  check_all_motions<MuntheKaas4Interpolated, T>();
-  check_all_motions<MuntheKaas4RateFunction, T>();
-}
-
-TEMPLATE_TEST_CASE("bounds are safe: coning compensation", "[bounds]", float, double) {
-  using T = TestType;
-  check_all_motions<Coning1Sample, T>();
-  check_all_motions<Coning1SamplePlusPrevious, T>();
-  check_all_motions<Coning2Sample, T>();
-  check_all_motions<Coning3Sample, T>();
-  check_all_motions<Coning3SampleMiller, T>();
-  check_all_motions<Coning4Sample, T>();
+// Every stepper of the catalogue (include/halfspin/propagation/stepper_catalogue.hpp), in float
+// and double: a stepper added to the catalogue has its bound checked here without another list.
+TEMPLATE_LIST_TEST_CASE("bounds are safe on five motions", "[bounds]", test::CatalogueSteppers) {
+  check_all_motions<TestType, float>();
+  check_all_motions<TestType, double>();
 }
 
 namespace {

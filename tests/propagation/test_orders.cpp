@@ -17,13 +17,9 @@
 #include <type_traits>
 #include <vector>
 
-#include "halfspin/propagation/coning_compensation.hpp"
-#include "halfspin/propagation/embedded_runge_kutta.hpp"
-#include "halfspin/propagation/explicit_runge_kutta.hpp"
-#include "halfspin/propagation/exponential_map_step.hpp"
-#include "halfspin/propagation/lie_group_runge_kutta.hpp"
-#include "halfspin/propagation/magnus4.hpp"
+#include "catalogue_types.hpp"
 #include "halfspin/propagation/propagator.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
@@ -154,37 +150,11 @@ void check_orders() {
 
 }  // namespace
 
-TEMPLATE_TEST_CASE("observed orders: exponential map and Magnus", "[order]", float, double) {
-  using T = TestType;
-  check_orders<ExponentialMapHoldEnd, T>();
-  check_orders<ExponentialMapHoldStart, T>();
-  check_orders<ExponentialMapMidpointMean, T>();
-  check_orders<ExponentialMapMidpointSample, T>();
-  check_orders<Magnus4, T>();
-}
-
-TEMPLATE_TEST_CASE("observed orders: Runge–Kutta with sampled, interpolated and function input",
-                   "[order]", float, double) {
-  using T = TestType;
-  check_orders<RungeKutta2MidpointSampled, T>();
-  check_orders<RungeKutta2MidpointInterpolated, T>();
-  check_orders<RungeKutta2MidpointRateFunction, T>();
-  check_orders<RungeKutta3KuttaSampled, T>();
-  check_orders<RungeKutta3KuttaInterpolated, T>();
-  check_orders<RungeKutta3KuttaRateFunction, T>();
-  check_orders<RungeKutta4Sampled, T>();
-  check_orders<RungeKutta4Interpolated, T>();
-  check_orders<RungeKutta4RateFunction, T>();
-}
-
-TEMPLATE_TEST_CASE("observed orders: embedded pairs and the Lie-group method", "[order]", float,
-                   double) {
-  using T = TestType;
-  check_orders<BogackiShampine32RateFunction, T>();
-  check_orders<DormandPrince54RateFunction, T>();
-  check_orders<MuntheKaas4Sampled, T>();
-  check_orders<MuntheKaas4Interpolated, T>();
-  check_orders<MuntheKaas4RateFunction, T>();
+// Every stepper of the catalogue (include/halfspin/propagation/stepper_catalogue.hpp), in float
+// and double: a stepper added to the catalogue is measured here without another list.
+TEMPLATE_LIST_TEST_CASE("observed orders on three motions", "[order]", test::CatalogueSteppers) {
+  check_orders<TestType, float>();
+  check_orders<TestType, double>();
 }
 
 TEST_CASE("observed order: Dormand–Prince 5(4) on the two-gimbal motion, in long double",
@@ -195,15 +165,4 @@ TEST_CASE("observed order: Dormand–Prince 5(4) on the two-gimbal motion, in lo
   test::report_worst("order (claims 5) dormand_prince_54_rate_function long double on two gimbals",
                      test::ld(p));
   CHECK(std::fabs(p - 5) <= 0.2);
-}
-
-TEMPLATE_TEST_CASE("observed orders: coning compensation on delta-angles", "[order]", float,
-                   double) {
-  using T = TestType;
-  check_orders<Coning1Sample, T>();
-  check_orders<Coning1SamplePlusPrevious, T>();
-  check_orders<Coning2Sample, T>();
-  check_orders<Coning3Sample, T>();
-  check_orders<Coning3SampleMiller, T>();
-  check_orders<Coning4Sample, T>();
 }

@@ -6,27 +6,25 @@
 # Also the hygiene fixtures in <build>/hygiene-fixtures/: images that break one rule on purpose,
 # to prove each check can fail.
 
+# Every stepper of the catalogue in float; these also in double (each must be catalogued).
+include("${CMAKE_CURRENT_LIST_DIR}/../../cmake/HalfspinCatalogue.cmake")
+halfspin_read_catalogue(_catalogue_ids _catalogue_types _catalogue_names)
+set(HALFSPIN_FOOTPRINT_DOUBLE
+  exponential_map_midpoint_mean magnus_4 runge_kutta_4_sampled coning_2_sample)
+foreach(name IN LISTS HALFSPIN_FOOTPRINT_DOUBLE)
+  if(NOT name IN_LIST _catalogue_names)
+    message(FATAL_ERROR "footprint.cmake: ${name} is not in the stepper catalogue")
+  endif()
+endforeach()
 # name | stepper type | scalars
-set(HALFSPIN_FOOTPRINT_STEPPERS
-  "exponential_map_hold_end|halfspin::ExponentialMapHoldEnd|float"
-  "exponential_map_hold_start|halfspin::ExponentialMapHoldStart|float"
-  "exponential_map_midpoint_mean|halfspin::ExponentialMapMidpointMean|float,double"
-  "exponential_map_midpoint_sample|halfspin::ExponentialMapMidpointSample|float"
-  "magnus_4|halfspin::Magnus4|float,double"
-  "rk2_sampled|halfspin::RungeKutta2MidpointSampled|float"
-  "rk2_interpolated|halfspin::RungeKutta2MidpointInterpolated|float"
-  "rk3_sampled|halfspin::RungeKutta3KuttaSampled|float"
-  "rk3_interpolated|halfspin::RungeKutta3KuttaInterpolated|float"
-  "runge_kutta_4_sampled|halfspin::RungeKutta4Sampled|float,double"
-  "runge_kutta_4_interpolated|halfspin::RungeKutta4Interpolated|float"
-  "munthe_kaas_4_sampled|halfspin::MuntheKaas4Sampled|float"
-  "coning_1|halfspin::Coning1Sample|float"
-  "coning_1_plus_previous|halfspin::Coning1SamplePlusPrevious|float"
-  "coning_2|halfspin::Coning2Sample|float,double"
-  "coning_3|halfspin::Coning3Sample|float"
-  "coning_4|halfspin::Coning4Sample|float"
-  "runge_kutta_4_rate_function|halfspin::RungeKutta4RateFunction|float"
-  "dp54_rate_function|halfspin::DormandPrince54RateFunction|float")
+set(HALFSPIN_FOOTPRINT_STEPPERS "")
+foreach(name type IN ZIP_LISTS _catalogue_names _catalogue_types)
+  set(scalars float)
+  if(name IN_LIST HALFSPIN_FOOTPRINT_DOUBLE)
+    set(scalars "float,double")
+  endif()
+  list(APPEND HALFSPIN_FOOTPRINT_STEPPERS "${name}|${type}|${scalars}")
+endforeach()
 
 # The project's warning set as errors, on the C++ sources (the C startup file is the board's).
 # HALFSPIN_WARNING_FLAGS is set inside the add_subdirectory() of the library, so it is empty at
