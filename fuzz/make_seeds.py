@@ -6,6 +6,7 @@ The CSV seeds (fuzz/corpus/fuzz_gyro_log_csv/) are hand-written files. Invented 
 Byte layouts are documented at the top of each harness."""
 import math
 import os
+import re
 import struct
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -41,12 +42,22 @@ def write(harness, name, data):
         f.write(data)
 
 
+def catalogue():
+    """(id, run-time name) of every stepper, from include/halfspin/propagation/stepper_catalogue.hpp
+    (the harness selects steppers by these stable ids)."""
+    path = os.path.join(HERE, "..", "include", "halfspin", "propagation", "stepper_catalogue.hpp")
+    entries = []
+    with open(path, encoding="utf-8") as f:
+        for m in re.finditer(r"CatalogueEntry<(\d+), *([A-Za-z0-9_]+)>", f.read()):
+            name = re.sub(r"([a-z0-9])([A-Z])", r"\1_\2", m.group(2))
+            name = re.sub(r"([A-Za-z])([0-9])", r"\1_\2", name)
+            name = re.sub(r"([0-9])([A-Za-z])", r"\1_\2", name).lower()
+            entries.append((int(m.group(1)), name))
+    return entries
+
+
 def propagator_seeds():
-    steppers = ["exponential_map_hold_end", "exponential_map_midpoint_mean", "magnus_4", "munthe_kaas_4_sampled",
-                "munthe_kaas_4_rate_function", "coning_2", "coning_4", "coning_1_plus_previous",
-                "runge_kutta_4_sampled", "rk2_interpolated", "rk3_sampled", "runge_kutta_4_rate_function",
-                "bogacki_shampine_32", "dormand_prince_54", "coning_1"]
-    for index, name in enumerate(steppers):
+    for index, name in catalogue():
         for scalar in (0, 1):
             policy = (index + scalar) % 5
             out = bytes([scalar, index])
