@@ -1,6 +1,7 @@
 // The yardsticks for the step and propagator figures, on the same workload
 // (callgrind/baseline_runs.hpp):
-//   baseline/eigen_exponential_map/<scalar>  Eigen 3's Quaternion and AngleAxis plus normalized(): the
+//   baseline/eigen_exponential_map/<scalar>  Eigen 3's Quaternion and AngleAxis plus normalized():
+//   the
 //                                   obvious general-purpose exponential-map update
 //   baseline/odeint_rk4/<scalar>    Boost.Odeint runge_kutta4 on a 4-element state, one do_step
 //                                   per iteration, rates at the stage nodes from three samples

@@ -1,8 +1,9 @@
 // ns per attitude-step of the batch (structure-of-arrays) propagator for desktop Monte Carlo,
 // against a loop over N scalar propagators doing the same work: the one-sample delta-angle update
 // q ⊗ exp(Δθ/2), first-order renormalization, validation of every sample and the elapsed-time sum.
-//   batch/exponential_map_x<N>/<scalar>               BatchPropagator<T, N>::step(), samples written in
-//   place batch/loop_of_propagators_x<N>/<scalar>  N × Propagator<T, Coning1Sample>::push(Δθ, dt)
+//   batch/exponential_map_x<N>/<scalar>               BatchPropagator<T, N>::step(), samples
+//   written in place batch/loop_of_propagators_x<N>/<scalar>  N × Propagator<T,
+//   Coning1Sample>::push(Δθ, dt)
 // items = attitude-steps (N per iteration); the counter `per_attitude_step` is the time of one
 // (seconds, printed with an SI prefix: "2.1n" is 2.1 ns). The speed-up is the ratio of the two at
 // the same N and scalar. Inputs: |Δθ| up to 0.01 rad, seeded, the same every iteration (the

@@ -38,7 +38,8 @@ const std::array<Vector3<T>, table_size>& small_rotation_vectors() {
     std::mt19937_64 engine(8);
     std::uniform_real_distribution<double> u(-1e-2, 1e-2);
     for (auto& v : t) {
-      v = Vector3<T>{static_cast<T>(u(engine)), static_cast<T>(u(engine)), static_cast<T>(u(engine))};
+      v = Vector3<T>{static_cast<T>(u(engine)), static_cast<T>(u(engine)),
+                     static_cast<T>(u(engine))};
     }
     return t;
   }();
@@ -67,7 +68,8 @@ void exp_small(benchmark::State& state) {
 
 template <class T>
 void exp_large(benchmark::State& state) {
-  run_over_rotations<T>(state, [](const Quaternion<T>& q) { return quaternion_exp(q.vector() * T(3)); });
+  run_over_rotations<T>(state,
+                        [](const Quaternion<T>& q) { return quaternion_exp(q.vector() * T(3)); });
 }
 template <class T>
 void log_any(benchmark::State& state) {
@@ -91,7 +93,8 @@ void from_matrix(benchmark::State& state) {
 }
 template <class T>
 void to_euler_321(benchmark::State& state) {
-  run_over_rotations<T>(state, [](const Quaternion<T>& q) { return to_euler_angles(q, EulerSequence::zyx); });
+  run_over_rotations<T>(
+      state, [](const Quaternion<T>& q) { return to_euler_angles(q, EulerSequence::zyx); });
 }
 template <class T>
 void from_euler_321(benchmark::State& state) {
@@ -110,7 +113,9 @@ void product(benchmark::State& state) {
 }
 template <class T>
 void rotate_vector(benchmark::State& state) {
-  run_over_rotations<T>(state, [](const Quaternion<T>& q) { return rotate(q, Vector3<T>{T(1), T(2), T(3)}); });
+  run_over_rotations<T>(state, [](const Quaternion<T>& q) {
+    return rotate(q, Vector3<T>{T(1), T(2), T(3)});
+  });
 }
 
 }  // namespace

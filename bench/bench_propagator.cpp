@@ -2,9 +2,9 @@
 // renormalization (first_order) and GyroLimits validation of every sample, fed push(sample, dt)
 // new_samples times per iteration so that every iteration completes exactly one step:
 // propagator/<method>/<scalar>, for every sample-driven stepper; rate-function steppers go through
-// advance(rate, dt) with the same linear rate as their bare step. Compare with step/<method>/<scalar>
-// (bench_steppers.cpp) for the cost of validation, history and renormalization; bench/ratios.py
-// prints the ratios.
+// advance(rate, dt) with the same linear rate as their bare step. Compare with
+// step/<method>/<scalar> (bench_steppers.cpp) for the cost of validation, history and
+// renormalization; bench/ratios.py prints the ratios.
 //
 // Also propagator_renormalization/<policy>/<method>/<scalar> for three steppers and the policies
 // none, first_order (the default) and periodic (exact every 16 steps): what the policy adds to the
@@ -24,14 +24,15 @@ using namespace halfspin;
 
 template <class Stepper, class T>
 void register_propagator() {
-  const std::string name = std::string("propagator/") + Stepper::name + "/" + bench::scalar_name<T>();
+  const std::string name =
+      std::string("propagator/") + Stepper::name + "/" + bench::scalar_name<T>();
   benchmark::RegisterBenchmark(name.c_str(), &bench::measure<bench::PropagatorRun<Stepper, T>>);
 }
 
 template <class Stepper, class T, class Renormalization>
 void register_renormalization() {
-  const std::string name = std::string("propagator_renormalization/") + Renormalization::name + "/" +
-                           Stepper::name + "/" + bench::scalar_name<T>();
+  const std::string name = std::string("propagator_renormalization/") + Renormalization::name +
+                           "/" + Stepper::name + "/" + bench::scalar_name<T>();
   benchmark::RegisterBenchmark(name.c_str(),
                                &bench::measure<bench::PropagatorRun<Stepper, T, Renormalization>>);
 }

@@ -1,9 +1,9 @@
 // ns per step of every stepper of the library (the catalogue's AllMethods list, by the stepper's
 // `name`), in float and double: step/<method>/<scalar>. The bare step: q ← Stepper::step(q, input,
-// dt) with the attitude carried from step to step over a 1 kHz gyro workload (callgrind/workload.hpp:
-// a few mrad per step; rate-function steppers get the linear rate ω(τ) = ω_k + τ·ω̇_k). No
-// validation, no renormalization (one normalization per 256 steps keeps the run on the unit
-// sphere); bench_propagator.cpp measures the same steps through the Propagator.
+// dt) with the attitude carried from step to step over a 1 kHz gyro workload
+// (callgrind/workload.hpp: a few mrad per step; rate-function steppers get the linear rate ω(τ) =
+// ω_k + τ·ω̇_k). No validation, no renormalization (one normalization per 256 steps keeps the run on
+// the unit sphere); bench_propagator.cpp measures the same steps through the Propagator.
 #include <benchmark/benchmark.h>
 
 #include <string>

@@ -8,7 +8,8 @@ set(_halfspin_catalogue_file
     "${CMAKE_CURRENT_LIST_DIR}/../include/halfspin/propagation/stepper_catalogue.hpp")
 
 function(halfspin_read_catalogue ids_var types_var names_var)
-  file(STRINGS "${_halfspin_catalogue_file}" lines REGEX "CatalogueEntry<[0-9]+, *[A-Za-z0-9_]+>")
+  file(READ "${_halfspin_catalogue_file}" text)
+  string(REGEX MATCHALL "CatalogueEntry<[0-9]+, *[A-Za-z0-9_]+>" lines "${text}")
   set(ids "")
   set(types "")
   set(names "")

@@ -52,7 +52,8 @@ double final_error_deg(unsigned long* steps) {
   const Quaternion<T> q = p.attitude();
   const Quaternion<double> got{static_cast<double>(q.w), static_cast<double>(q.x),
                                static_cast<double>(q.y), static_cast<double>(q.z)};
-  return angle_between(got, vibration.attitude(static_cast<double>(last_step_sample) * h)) * 180.0 / pi_d;
+  return angle_between(got, vibration.attitude(static_cast<double>(last_step_sample) * h)) * 180.0 /
+         pi_d;
 }
 
 template <class Stepper>
@@ -68,9 +69,11 @@ double row() {
 }  // namespace
 
 int main() {
-  std::printf("halfspin demo: 1 kHz gyro, frame coning 0.5 deg at 40 Hz (invented vibration), 60 s\n");
+  std::printf(
+      "halfspin demo: 1 kHz gyro, frame coning 0.5 deg at 40 Hz (invented vibration), 60 s\n");
   std::printf("error = final attitude error against the closed-form truth\n\n");
-  std::printf("%-32s %3s %8s %12s %12s\n", "method", "ord", "update", "float (deg)", "double (deg)");
+  std::printf("%-32s %3s %8s %12s %12s\n", "method", "ord", "update", "float (deg)",
+              "double (deg)");
   row<ExponentialMapHoldEnd>();
   row<ExponentialMapMidpointMean>();
   row<Magnus4>();
@@ -79,19 +82,22 @@ int main() {
   row<Coning1Sample>();
   const double two_sample = row<Coning2Sample>();
   row<Coning3Sample>();
-  std::printf("\nUnder coning, methods that ignore the non-commutativity of successive rotations\n"
-              "drift about the cone axis; the coning algorithms on delta-angles cancel the drift up\n"
-              "to their order (here each added sample buys one to two orders of magnitude). In float,\n"
-              "rounding of the state sets a floor whatever the method.\n");
+  std::printf(
+      "\nUnder coning, methods that ignore the non-commutativity of successive rotations\n"
+      "drift about the cone axis; the coning algorithms on delta-angles cancel the drift up\n"
+      "to their order (here each added sample buys one to two orders of magnitude). In float,\n"
+      "rounding of the state sets a floor whatever the method.\n");
   const double lambda = vibration.cone_frequency / sample_rate_hz;
   const double sin_a = std::sin(vibration.cone_angle);
-  const double predicted_deg = sin_a * sin_a * std::pow(lambda, 5) / 30.0 *
-                               static_cast<double>(samples / 2) * 180.0 / pi_d;
+  const double predicted_deg =
+      sin_a * sin_a * std::pow(lambda, 5) / 30.0 * static_cast<double>(samples / 2) * 180.0 / pi_d;
   const bool ok = std::fabs(two_sample - predicted_deg) <= 0.1 * predicted_deg;
-  std::printf("\ntwo-sample coning drift predicted from its series error: %.3e deg\n", predicted_deg);
+  std::printf("\ntwo-sample coning drift predicted from its series error: %.3e deg\n",
+              predicted_deg);
   std::printf("%s\n", ok ? "ok: measured within 10 % of the prediction"
                          : "FAILED: measured differs from the prediction by more than 10 %");
-  std::printf("Caution: attitude errors can crash vehicles; validate in hardware-in-the-loop and flight\n"
-              "test, under local airworthiness rules and licensed practice.\n");
+  std::printf(
+      "Caution: attitude errors can crash vehicles; validate in hardware-in-the-loop and flight\n"
+      "test, under local airworthiness rules and licensed practice.\n");
   return ok ? 0 : 1;
 }

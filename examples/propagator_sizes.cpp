@@ -12,11 +12,16 @@ namespace {
 
 const char* layout_name(halfspin::SampleLayout layout) {
   switch (layout) {
-    case halfspin::SampleLayout::rate_at_end: return "rate at step end";
-    case halfspin::SampleLayout::rates_spanning: return "rates spanning the step";
-    case halfspin::SampleLayout::delta_angles: return "delta-angles tiling the step";
-    case halfspin::SampleLayout::delta_angles_with_previous: return "previous + new delta-angles";
-    case halfspin::SampleLayout::rate_function: return "rate function";
+    case halfspin::SampleLayout::rate_at_end:
+      return "rate at step end";
+    case halfspin::SampleLayout::rates_spanning:
+      return "rates spanning the step";
+    case halfspin::SampleLayout::delta_angles:
+      return "delta-angles tiling the step";
+    case halfspin::SampleLayout::delta_angles_with_previous:
+      return "previous + new delta-angles";
+    case halfspin::SampleLayout::rate_function:
+      return "rate function";
   }
   return "?";
 }
@@ -42,8 +47,8 @@ void stepper_row() {
 
 template <class Stepper, class Renormalization = halfspin::FirstOrderRenormalization>
 void row() {
-  std::printf("| `%s` | `%s` | %zu | %zu | %zu |\n", Stepper::name, Renormalization::name, Stepper::window,
-              sizeof(halfspin::Propagator<float, Stepper, Renormalization>),
+  std::printf("| `%s` | `%s` | %zu | %zu | %zu |\n", Stepper::name, Renormalization::name,
+              Stepper::window, sizeof(halfspin::Propagator<float, Stepper, Renormalization>),
               sizeof(halfspin::Propagator<double, Stepper, Renormalization>));
 }
 
@@ -55,7 +60,9 @@ int main() {
   std::printf("| --- | --- | --- | --- | --- |\n");
   StepperCatalogue::for_each([](auto entry) { stepper_row<typename decltype(entry)::stepper>(); });
   std::printf("\n");
-  std::printf("| stepper | renormalization | window (samples) | sizeof, float (bytes) | sizeof, double (bytes) |\n");
+  std::printf(
+      "| stepper | renormalization | window (samples) | sizeof, float (bytes) | sizeof, double "
+      "(bytes) |\n");
   std::printf("| --- | --- | --- | --- | --- |\n");
   StepperCatalogue::for_each([](auto entry) { row<typename decltype(entry)::stepper>(); });
   row<ExponentialMapMidpointMean, PeriodicRenormalization<ExactRenormalization>>();

@@ -26,7 +26,8 @@ void row(const MotionDescription<double>& motion, double budget, double horizon)
 }
 
 template <class... S>
-void table(const char* title, const MotionDescription<double>& motion, double budget, double horizon) {
+void table(const char* title, const MotionDescription<double>& motion, double budget,
+           double horizon) {
   std::printf("%s\n", title);
   (row<S>(motion, budget, horizon), ...);
 }
@@ -51,15 +52,18 @@ int main() {
   std::printf("\n");
   table<ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled, Coning1Sample, Coning2Sample,
         Coning3Sample>("Turns plus vibration, as a rate envelope (worst-case linear accumulation):",
-                           full, budget, horizon);
-  const auto r = recommend_stepper(StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean, Coning1Sample,
-                                               Coning2Sample, Coning3Sample, Magnus4>{},
-                                   full, budget, horizon, 1000.0);
-  std::printf("\nAt a 1 kHz gyro, the cheapest stepper meeting the budget: %s (%.0f flop/s, bound "
-              "%.3e deg)\n",
-              r.found ? r.name : "none", r.found ? r.cost_flops_per_s : 0.0,
-              r.found ? r.bound_rad / degree : 0.0);
-  std::printf("Caution: bounds support engineering judgement; validate in hardware-in-the-loop and\n"
-              "flight test, under local airworthiness rules and licensed practice.\n");
+                       full, budget, horizon);
+  const auto r =
+      recommend_stepper(StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean,
+                                    Coning1Sample, Coning2Sample, Coning3Sample, Magnus4>{},
+                        full, budget, horizon, 1000.0);
+  std::printf(
+      "\nAt a 1 kHz gyro, the cheapest stepper meeting the budget: %s (%.0f flop/s, bound "
+      "%.3e deg)\n",
+      r.found ? r.name : "none", r.found ? r.cost_flops_per_s : 0.0,
+      r.found ? r.bound_rad / degree : 0.0);
+  std::printf(
+      "Caution: bounds support engineering judgement; validate in hardware-in-the-loop and\n"
+      "flight test, under local airworthiness rules and licensed practice.\n");
   return 0;
 }

@@ -2,14 +2,16 @@
 // The baselines and the floor, one step per call over the shared workload (workload.hpp), in the
 // same shape as runs.hpp so that halfspin_bench and halfspin_callgrind_driver measure one code:
 //
-//   EigenExponentialMapRun<T>   the obvious general-purpose exponential-map update with Eigen 3 (Debian
+//   EigenExponentialMapRun<T>   the obvious general-purpose exponential-map update with Eigen 3
+//   (Debian
 //                       libeigen3-dev): AngleAxis(|ω|·dt, ω/|ω|) → Quaternion, product,
 //                       normalized(); rate at the step's end, like exponential_map_hold_end
 //   OdeintRk4Run<T>     Boost.Odeint (Debian libboost-dev) runge_kutta4 on a 4-element state,
 //                       q̇ = ½ q ⊗ (0, ω), one do_step by hand per call (integrate_* would copy the
 //                       stepper); ω at a stage time is the sample at that node (start, middle,
 //                       end of a two-period step), the input runge_kutta_4_sampled takes
-//   FloorExponentialMapRun<T>   the minimal hand-written kernel of the same math as exponential_map_hold_end:
+//   FloorExponentialMapRun<T>   the minimal hand-written kernel of the same math as
+//   exponential_map_hold_end:
 //                       φ = ω·dt, the series of cos(θ/2) and sin(θ/2)/θ to the θ⁶ term (the degree
 //                       the library keeps), one Hamilton product written out: the floor
 //
@@ -65,8 +67,8 @@ class OdeintRk4Run {
     const std::array<Vector3<T>, 3>* samples;
     T quarter_step;  // node boundaries at 1/4 and 3/4 of the step
     void operator()(const State& q, State& dq, T t) const noexcept {
-      const std::size_t node =
-          static_cast<std::size_t>(t > quarter_step) + static_cast<std::size_t>(t > T(3) * quarter_step);
+      const std::size_t node = static_cast<std::size_t>(t > quarter_step) +
+                               static_cast<std::size_t>(t > T(3) * quarter_step);
       const Vector3<T>& w = (*samples)[node];
       dq[0] = T(-0.5) * (q[1] * w.x + q[2] * w.y + q[3] * w.z);
       dq[1] = T(0.5) * (q[0] * w.x + q[2] * w.z - q[3] * w.y);

@@ -5,10 +5,11 @@
 //   halfspin_callgrind_driver <method> <float|double> <steps> [step|propagator]
 //   halfspin_callgrind_driver --list        every method: name, flops, sample-driven (1/0)
 //
-// <method> is a stepper's name (the step/… benchmarks) or eigen_exponential_map, odeint_rk4, floor_exponential_map
-// (the baselines; `step` mode only). `step` runs the bare step (BareStepRun), `propagator` the
-// Propagator path (PropagatorRun): the same loop bodies as halfspin_bench. Prints the final
-// attitude so that nothing can be optimized away; exit 1 if the run went wrong, 2 on bad usage.
+// <method> is a stepper's name (the step/… benchmarks) or eigen_exponential_map, odeint_rk4,
+// floor_exponential_map (the baselines; `step` mode only). `step` runs the bare step (BareStepRun),
+// `propagator` the Propagator path (PropagatorRun): the same loop bodies as halfspin_bench. Prints
+// the final attitude so that nothing can be optimized away; exit 1 if the run went wrong, 2 on bad
+// usage.
 //
 // Benchmark tool code (not part of the installed library).
 #include <cstdint>
@@ -62,9 +63,10 @@ int run_typed(std::string_view method, std::uint64_t steps, bool propagator) {
 }
 
 int usage() {
-  std::fprintf(stderr,
-               "usage: halfspin_callgrind_driver <method> <float|double> <steps> [step|propagator]\n"
-               "       halfspin_callgrind_driver --list\n");
+  std::fprintf(
+      stderr,
+      "usage: halfspin_callgrind_driver <method> <float|double> <steps> [step|propagator]\n"
+      "       halfspin_callgrind_driver --list\n");
   return 2;
 }
 

@@ -52,7 +52,7 @@ constexpr std::uint32_t systick_interrupt = 1u << 1;
 // board-specific constant at all.
 struct TimerSetup {
   bool usable;
-  std::uint32_t reload;      // for a 1 ms period on the reference clock
+  std::uint32_t reload;  // for a 1 ms period on the reference clock
   std::uint32_t tenms;
   bool noref;
   bool skew;
@@ -105,10 +105,10 @@ struct ImuFrame {
 };
 
 constexpr std::uint32_t run_ticks = 5000;        // 5 s at 1 kHz
-constexpr std::uint32_t nan_tick = 1000;          // a corrupted frame with a NaN, before frame 1000
-constexpr std::uint32_t over_range_tick = 1500;   // a frame reading 40 rad/s, before frame 1500
-constexpr std::uint32_t repeat_tick = 2001;       // frame 2000 delivered again, before frame 2001
-constexpr std::uint32_t dropout_first = 3000;     // frames 3000..3019 never arrive (20 ms)
+constexpr std::uint32_t nan_tick = 1000;         // a corrupted frame with a NaN, before frame 1000
+constexpr std::uint32_t over_range_tick = 1500;  // a frame reading 40 rad/s, before frame 1500
+constexpr std::uint32_t repeat_tick = 2001;      // frame 2000 delivered again, before frame 2001
+constexpr std::uint32_t dropout_first = 3000;    // frames 3000..3019 never arrive (20 ms)
 constexpr std::uint32_t dropout_last = 3019;
 
 // The invented motion: roll 0.5 rad/s, coning half-angle 2 mrad at 40 Hz (25 samples a cycle).
@@ -167,9 +167,8 @@ namespace {
 // The attitude loop
 
 constexpr std::size_t status_count = 6;
-const char* const status_names[status_count] = {"ok",          "waiting_for_samples",
-                                                "non_finite",  "non_positive_step",
-                                                "step_too_long", "over_range"};
+const char* const status_names[status_count] = {
+    "ok", "waiting_for_samples", "non_finite", "non_positive_step", "step_too_long", "over_range"};
 
 struct Gap {
   std::uint32_t last_step_tick;  // the attitude stands at the truth of this tick
@@ -178,14 +177,14 @@ struct Gap {
 
 struct LoopState {
   std::array<std::uint32_t, status_count> by_status{};
-  std::uint32_t last_tick = 0;        // timestamp of the last accepted frame
-  std::uint32_t last_step_tick = 0;   // timestamp that ended the last step
-  std::uint32_t waiting = 0;          // accepted frames since the last step
+  std::uint32_t last_tick = 0;       // timestamp of the last accepted frame
+  std::uint32_t last_step_tick = 0;  // timestamp that ended the last step
+  std::uint32_t waiting = 0;         // accepted frames since the last step
   std::uint32_t injected = 0;
   std::uint32_t injected_right = 0;
-  std::uint32_t unexpected = 0;       // real frames rejected, or accepted faults
+  std::uint32_t unexpected = 0;  // real frames rejected, or accepted faults
   std::uint32_t expected_discards = 0;
-  std::uint64_t lost_ticks = 0;       // intervals of frames rejected as gaps
+  std::uint64_t lost_ticks = 0;  // intervals of frames rejected as gaps
   std::array<Gap, 4> gaps{};
   std::size_t gap_count = 0;
 };
@@ -272,10 +271,11 @@ int main() {
               halfspin::Coning2Sample::name);
 
   const TimerSetup timer = one_millisecond_from_calibration();
-  std::printf("SysTick: SYST_CALIB TENMS %lu, NOREF %d, SKEW %d -> reference clock %.3f MHz, "
-              "reload %lu for 1 ms\n",
-              static_cast<unsigned long>(timer.tenms), timer.noref ? 1 : 0, timer.skew ? 1 : 0,
-              static_cast<double>(timer.tenms + 1) / 1e4, static_cast<unsigned long>(timer.reload));
+  std::printf(
+      "SysTick: SYST_CALIB TENMS %lu, NOREF %d, SKEW %d -> reference clock %.3f MHz, "
+      "reload %lu for 1 ms\n",
+      static_cast<unsigned long>(timer.tenms), timer.noref ? 1 : 0, timer.skew ? 1 : 0,
+      static_cast<double>(timer.tenms + 1) / 1e4, static_cast<unsigned long>(timer.reload));
   if (!timer.usable) {
     std::printf("firmware example: FAIL (SysTick calibration gives no exact 1 ms period)\n");
     return 1;
@@ -345,17 +345,17 @@ int main() {
     std::printf(" %s %lu", status_names[i], static_cast<unsigned long>(st.by_status[i]));
   }
   std::printf("\n");
-  std::printf("counters: samples_accepted %llu steps %llu rejected non_finite %llu "
-              "non_positive_step %llu step_too_long %llu over_range %llu discarded %llu "
-              "elapsed_ticks %llu\n",
-              static_cast<unsigned long long>(c.samples_accepted),
-              static_cast<unsigned long long>(c.steps),
-              static_cast<unsigned long long>(c.rejected_non_finite),
-              static_cast<unsigned long long>(c.rejected_non_positive_step),
-              static_cast<unsigned long long>(c.rejected_step_too_long),
-              static_cast<unsigned long long>(c.rejected_over_range),
-              static_cast<unsigned long long>(c.discarded_samples),
-              static_cast<unsigned long long>(attitude.elapsed_ticks()));
+  std::printf(
+      "counters: samples_accepted %llu steps %llu rejected non_finite %llu "
+      "non_positive_step %llu step_too_long %llu over_range %llu discarded %llu "
+      "elapsed_ticks %llu\n",
+      static_cast<unsigned long long>(c.samples_accepted), static_cast<unsigned long long>(c.steps),
+      static_cast<unsigned long long>(c.rejected_non_finite),
+      static_cast<unsigned long long>(c.rejected_non_positive_step),
+      static_cast<unsigned long long>(c.rejected_step_too_long),
+      static_cast<unsigned long long>(c.rejected_over_range),
+      static_cast<unsigned long long>(c.discarded_samples),
+      static_cast<unsigned long long>(attitude.elapsed_ticks()));
   for (std::size_t i = 0; i < st.gap_count && i < st.gaps.size(); ++i) {
     std::printf("gap: attitude held at tick %lu, propagation resumed after tick %lu\n",
                 static_cast<unsigned long>(st.gaps[i].last_step_tick),
@@ -365,9 +365,10 @@ int main() {
               static_cast<unsigned long>(st.last_step_tick), qd.w, qd.x, qd.y, qd.z);
   std::printf("closed form (gap excluded): (%.7f, %.7f, %.7f, %.7f)\n", truth.w, truth.x, truth.y,
               truth.z);
-  std::printf("final attitude error %.3e rad (%.2e deg); budget %.3e rad (coning drift %.2e + "
-              "rounding %.2e)\n",
-              error, error * 57.29577951308232, budget, drift, rounding);
+  std::printf(
+      "final attitude error %.3e rad (%.2e deg); budget %.3e rad (coning drift %.2e + "
+      "rounding %.2e)\n",
+      error, error * 57.29577951308232, budget, drift, rounding);
 
   std::printf("checks:\n");
   require(error <= budget, "final attitude within the budget of the closed form");
@@ -379,8 +380,7 @@ int main() {
           "propagator counters: one rejection of each class");
   require(st.gap_count == 1 && c.discarded_samples == st.expected_discards,
           "one gap; the frame waiting at the gap discarded and counted");
-  require(c.steps == st.by_status[0] &&
-              c.samples_accepted == st.by_status[0] + st.by_status[1] &&
+  require(c.steps == st.by_status[0] && c.samples_accepted == st.by_status[0] + st.by_status[1] &&
               attitude.elapsed_ticks() == run_ticks - st.lost_ticks,
           "steps, accepted samples and elapsed ticks add up");
   // The interrupt rate against host time is reported, not asserted: it depends on how loaded the

@@ -1,7 +1,8 @@
 #pragma once
 // The invented motion the firmware example's simulated IMU measures: a steady roll at r rad/s about
 // the reference x axis, with a coning vibration of the body x axis on top (half-angle a rad at
-// Ω rad/s, the classical coning of halfspin/truth/classical_coning.hpp). Attitude, body → reference:
+// Ω rad/s, the classical coning of halfspin/truth/classical_coning.hpp). Attitude, body →
+// reference:
 //     q(t) = exp(x̂·r·t/2) ⊗ q_cone(t),   q_cone(t) = (cos a/2, 0, sin a/2·cos Ωt, sin a/2·sin Ωt).
 // Body rate, from ω = R(q_cone)ᵀ·r·x̂ + ω_cone (the roll rate seen in the coning body frame):
 //     ω(t) = (r cos a − Ω(1 − cos a), −(r + Ω) sin a sin Ωt, (r + Ω) sin a cos Ωt),
@@ -23,10 +24,10 @@
 namespace firmware {
 
 struct RollWithConing {
-  double roll_rate;              // r, rad/s
-  double cone_angle;             // a, rad
+  double roll_rate;                 // r, rad/s
+  double cone_angle;                // a, rad
   std::uint32_t samples_per_cycle;  // vibration period in sample intervals (Ω = 2π/(this·h))
-  double sample_period;          // h, s
+  double sample_period;             // h, s
 
   double cone_rate() const noexcept {  // Ω, rad/s
     return 2.0 * 3.141592653589793 / (static_cast<double>(samples_per_cycle) * sample_period);

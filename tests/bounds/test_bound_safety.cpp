@@ -11,6 +11,7 @@
 #include <string>
 #include <vector>
 
+#include "catalogue_types.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
@@ -21,7 +22,6 @@
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/two_gimbal.hpp"
-#include "catalogue_types.hpp"
 #include "propagation_runs.hpp"
 #include "test_support.hpp"
 
@@ -38,8 +38,8 @@ const ConstantRateMotion<LD> constant{normalized(Quaternion<LD>{0.9L, 0.1L, -0.3
 const SingleAxisOscillation<LD> oscillation{normalized(Vector3<LD>{0.3L, -0.5L, 0.8L}), 0.2L, 3.0L,
                                             0.4L, Quaternion<LD>::identity()};
 const ClassicalConingMotion<LD> coning{0.05L, two_pi * 4};
-const AxisymmetricBodyMotion<LD> body{normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L,
-                                      1.6L, 0.8L, 0.3L, 1.5L};
+const AxisymmetricBodyMotion<LD> body{
+    normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
 const TwoGimbalMotion<LD> gimbal{};
 
 template <class T>
@@ -103,7 +103,8 @@ MotionDescription<T> describe_gimbal() {
         (w[4] - 2.0L * w[3] + w[2]) / (h * h),
         (w[5] - 2.0L * w[4] + 2.0L * w[2] - w[1]) / (2 * h * h * h),
         (w[5] - 4.0L * w[4] + 6.0L * w[3] - 4.0L * w[2] + w[1]) / (h * h * h * h),
-        (w[6] - 4.0L * w[5] + 5.0L * w[4] - 5.0L * w[2] + 4.0L * w[1] - w[0]) / (2 * h * h * h * h * h)};
+        (w[6] - 4.0L * w[5] + 5.0L * w[4] - 5.0L * w[2] + 4.0L * w[1] - w[0]) /
+            (2 * h * h * h * h * h)};
     for (std::size_t k = 0; k < 6; ++k) {
       worst[k] = std::fmax(worst[k], test::length_ld(der[k]));
     }
@@ -145,16 +146,22 @@ Ratios check_safe(const char* motion_name, const Motion& m, const MotionDescript
 template <class Stepper, class T>
 void check_all_motions() {
   const std::string who = std::string(Stepper::name) + " " + test::type_name<T>();
-  const Ratios a = check_safe<Stepper, T>("constant rate", constant, describe_constant<T>(), 1.0L / 16, 2.0L);
-  const Ratios b = check_safe<Stepper, T>("oscillation", oscillation, describe_oscillation<T>(), 1.0L / 32, 2.0L);
+  const Ratios a =
+      check_safe<Stepper, T>("constant rate", constant, describe_constant<T>(), 1.0L / 16, 2.0L);
+  const Ratios b = check_safe<Stepper, T>("oscillation", oscillation, describe_oscillation<T>(),
+                                          1.0L / 32, 2.0L);
   const Ratios c = check_safe<Stepper, T>("coning", coning, describe_coning<T>(), 1.0L / 32, 2.0L);
-  const Ratios e = check_safe<Stepper, T>("axisymmetric body", body, describe_body<T>(), 1.0L / 8, 4.0L);
-  const Ratios g = check_safe<Stepper, T>("two gimbals", gimbal, describe_gimbal<T>(), 1.0L / 64, 1.0L);
-  test::report_worst("bound/measured, smallest over all motions " + who,
-                     test::ld(std::fmin(std::fmin(a.worst_margin, b.worst_margin),
-                                        std::fmin(c.worst_margin, std::fmin(e.worst_margin, g.worst_margin)))));
+  const Ratios e =
+      check_safe<Stepper, T>("axisymmetric body", body, describe_body<T>(), 1.0L / 8, 4.0L);
+  const Ratios g =
+      check_safe<Stepper, T>("two gimbals", gimbal, describe_gimbal<T>(), 1.0L / 64, 1.0L);
+  test::report_worst(
+      "bound/measured, smallest over all motions " + who,
+      test::ld(std::fmin(std::fmin(a.worst_margin, b.worst_margin),
+                         std::fmin(c.worst_margin, std::fmin(e.worst_margin, g.worst_margin)))));
   test::report_worst("bound/measured, largest on coning " + who, test::ld(c.largest));
-  test::report_worst("bound/measured, largest on the axisymmetric body " + who, test::ld(e.largest));
+  test::report_worst("bound/measured, largest on the axisymmetric body " + who,
+                     test::ld(e.largest));
   test::report_worst("bound/measured, largest on two gimbals " + who, test::ld(g.largest));
 }
 
@@ -187,7 +194,8 @@ void check_tight_at_constant_rate() {
     if (run.error < 100 * floor) {
       continue;
     }
-    const LD bound = test::ld(horizon_error_bound<Stepper, T>(d, static_cast<T>(h) * periods, T(2)));
+    const LD bound =
+        test::ld(horizon_error_bound<Stepper, T>(d, static_cast<T>(h) * periods, T(2)));
     INFO(Stepper::name << " at constant rate, h = " << static_cast<double>(h));
     CHECK(bound <= 10 * run.error);
     largest = std::fmax(largest, static_cast<double>(bound / run.error));

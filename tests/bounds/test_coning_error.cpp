@@ -45,9 +45,9 @@ void for_each_stepper(Types<S...>, F&& f) {
 }
 
 using AllSteppers =
-    Types<ExponentialMapHoldEnd, ExponentialMapHoldStart, ExponentialMapMidpointMean, ExponentialMapMidpointSample, Magnus4,
-          Coning1Sample, Coning2Sample, Coning3Sample, Coning3SampleMiller,
-          Coning4Sample, Coning1SamplePlusPrevious, RungeKutta2MidpointSampled,
+    Types<ExponentialMapHoldEnd, ExponentialMapHoldStart, ExponentialMapMidpointMean,
+          ExponentialMapMidpointSample, Magnus4, Coning1Sample, Coning2Sample, Coning3Sample,
+          Coning3SampleMiller, Coning4Sample, Coning1SamplePlusPrevious, RungeKutta2MidpointSampled,
           RungeKutta2MidpointInterpolated, RungeKutta2MidpointRateFunction, RungeKutta3KuttaSampled,
           RungeKutta3KuttaInterpolated, RungeKutta3KuttaRateFunction, RungeKutta4Sampled,
           RungeKutta4Interpolated, RungeKutta4RateFunction, BogackiShampine32RateFunction,
@@ -62,15 +62,22 @@ std::array<Vector3<LD>, S::window> step_inputs(const ClassicalConingMotion<LD>& 
   for (std::size_t i = 0; i < S::window; ++i) {
     const LD ki = static_cast<LD>(i);
     switch (S::layout) {
-      case SampleLayout::rate_at_end: in[i] = m.rate(t0 + h); break;
-      case SampleLayout::rates_spanning: in[i] = m.rate(t0 + ki * h); break;
-      case SampleLayout::delta_angles: in[i] = m.delta_angle(t0 + ki * h, t0 + (ki + 1) * h); break;
+      case SampleLayout::rate_at_end:
+        in[i] = m.rate(t0 + h);
+        break;
+      case SampleLayout::rates_spanning:
+        in[i] = m.rate(t0 + ki * h);
+        break;
+      case SampleLayout::delta_angles:
+        in[i] = m.delta_angle(t0 + ki * h, t0 + (ki + 1) * h);
+        break;
       case SampleLayout::delta_angles_with_previous:
         // [0] the previous step's last delta-angle, over (t0 − h, t0]: the closed form gives it
         // for the first step too (the propagator would start from a zero previous sample).
         in[i] = m.delta_angle(t0 + (ki - 1) * h, t0 + ki * h);
         break;
-      case SampleLayout::rate_function: break;
+      case SampleLayout::rate_function:
+        break;
     }
   }
   return in;
@@ -92,8 +99,8 @@ LD propagated_error(const ClassicalConingMotion<LD>& m, LD h, long samples) {
   for (long k = 0; k < steps; ++k) {
     const LD t0 = static_cast<LD>(k) * dt;
     if constexpr (Stepper::layout == SampleLayout::rate_function) {
-      q = Stepper::step(q, [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); },
-                        static_cast<T>(dt));
+      q = Stepper::step(
+          q, [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); }, static_cast<T>(dt));
     } else {
       const std::array<Vector3<LD>, Stepper::window> in = step_inputs<Stepper>(m, t0, h);
       std::array<Vector3<T>, Stepper::window> input{};
@@ -120,7 +127,8 @@ LD axial_share(const ClassicalConingMotion<LD>& m, LD dt) {
   constexpr std::size_t periods = periods_per_step(S::layout, S::window);
   Quaternion<LD> end{};
   if constexpr (S::layout == SampleLayout::rate_function) {
-    end = S::step(m.attitude(0), [&](LD tau) { return m.rate(tau); }, dt);
+    end = S::step(
+        m.attitude(0), [&](LD tau) { return m.rate(tau); }, dt);
   } else {
     end = S::step(m.attitude(0), step_inputs<S>(m, 0.0L, dt / static_cast<LD>(periods)), dt);
   }
@@ -145,7 +153,8 @@ TEST_CASE("coning: every step of every stepper makes the same local error", "[re
       const LD t0 = 0.0123L * static_cast<LD>(k * k) + 0.37L * static_cast<LD>(k);
       Quaternion<LD> end{};
       if constexpr (S::layout == SampleLayout::rate_function) {
-        end = S::step(m.attitude(t0), [&](LD tau) { return m.rate(t0 + tau); }, dt);
+        end = S::step(
+            m.attitude(t0), [&](LD tau) { return m.rate(t0 + tau); }, dt);
       } else {
         const auto in = step_inputs<S>(m, t0, h);
         end = S::step(m.attitude(t0), in, dt);
@@ -184,12 +193,12 @@ TEST_CASE("coning: the default horizon bound is safe and within 10x for every st
         const long samples = per_period * periods_of_cone;
         const LD h = 1.0L / (f * static_cast<LD>(per_period));
         const LD horizon = h * static_cast<LD>(samples);
-        const double dt = static_cast<double>(h * static_cast<LD>(periods_per_step(S::layout, S::window)));
+        const double dt =
+            static_cast<double>(h * static_cast<LD>(periods_per_step(S::layout, S::window)));
         const LD measured = propagated_error<S, double>(m, h, samples);
         const double bound = horizon_error_bound<S>(d, dt, static_cast<double>(horizon));
         const std::int64_t steps = steps_for_horizon(dt, static_cast<double>(horizon));
-        const double truncation =
-            truncation_bound<S>(d, dt, steps) + startup_bound<S>(d, dt);
+        const double truncation = truncation_bound<S>(d, dt, steps) + startup_bound<S>(d, dt);
         const double floor = roundoff_floor_worst<S, double>(step_rotation_bound(d, dt), steps);
         INFO(S::name << " cone periods " << periods_of_cone << " samples/period " << per_period
                      << " measured " << static_cast<double>(measured) << " bound " << bound
@@ -213,8 +222,9 @@ TEST_CASE("coning: the default horizon bound is safe and within 10x for every st
                          ratios[ratios.size() / 2]);
       if (periods_of_cone == 20) {
         const LD h3 = 1.0L / (f * 192.0L);  // level 3 of the sweep
-        test::report_worst(std::string("coning axial share of the local error ") + S::name,
-                           axial_share<S>(m, h3 * static_cast<LD>(periods_per_step(S::layout, S::window))));
+        test::report_worst(
+            std::string("coning axial share of the local error ") + S::name,
+            axial_share<S>(m, h3 * static_cast<LD>(periods_per_step(S::layout, S::window))));
       }
     }
   });
@@ -244,13 +254,16 @@ TEST_CASE("coning: the linear-accumulation form is safe, and tight where the err
         const long per_period = 24L << level;
         const long samples = per_period * periods_of_cone;
         const LD h = 1.0L / (f * static_cast<LD>(per_period));
-        const double dt = static_cast<double>(h * static_cast<LD>(periods_per_step(S::layout, S::window)));
-        const std::int64_t steps = steps_for_horizon(dt, static_cast<double>(h * static_cast<LD>(samples)));
+        const double dt =
+            static_cast<double>(h * static_cast<LD>(periods_per_step(S::layout, S::window)));
+        const std::int64_t steps =
+            steps_for_horizon(dt, static_cast<double>(h * static_cast<LD>(samples)));
         const LD measured = propagated_error<S, double>(m, h, samples);
         const LD truncation = test::ld(truncation_bound_linear<S>(d, dt, steps));
         REQUIRE(truncation == test::ld(coning_truncation_bound<S>(d.coning, dt, steps)));
         const LD startup = test::ld(startup_bound<S>(d, dt));
-        const LD floor = test::ld(roundoff_floor_worst<S, double>(step_rotation_bound(d, dt), steps));
+        const LD floor =
+            test::ld(roundoff_floor_worst<S, double>(step_rotation_bound(d, dt), steps));
         const LD bound = truncation + startup + floor;
         INFO(S::name << " cone periods " << periods_of_cone << " samples/period " << per_period
                      << " measured " << static_cast<double>(measured) << " linear bound "

@@ -87,7 +87,8 @@ struct SinusoidSum {
     Vector3<LD> d = constant * (t1 - t0);
     for (std::size_t i = 0; i < 3; ++i) {
       const LD w = frequency[i];
-      d += (2 * std::sin(w * 0.5L * (t0 + t1) + phase[i]) * std::sin(0.5L * w * (t1 - t0)) / w) * amplitude[i];
+      d += (2 * std::sin(w * 0.5L * (t0 + t1) + phase[i]) * std::sin(0.5L * w * (t1 - t0)) / w) *
+           amplitude[i];
     }
     return d;
   }
@@ -97,7 +98,8 @@ struct SinusoidSum {
     State q{1, 0, 0, 0};
     auto rhs = [this](const State& x, State& dx, LD t) {
       const Vector3<LD> w = rate(t);
-      const Quaternion<LD> d = Quaternion<LD>{x[0], x[1], x[2], x[3]} * Quaternion<LD>{0, w.x, w.y, w.z};
+      const Quaternion<LD> d =
+          Quaternion<LD>{x[0], x[1], x[2], x[3]} * Quaternion<LD>{0, w.x, w.y, w.z};
       dx = {0.5L * d.w, 0.5L * d.x, 0.5L * d.y, 0.5L * d.z};
     };
     // Stepped by hand: odeint's integrate functions copy the stepper, and the copy trips GCC's
@@ -139,11 +141,20 @@ std::array<Vector3<LD>, Stepper::window> step_input(const M& m, LD t0, LD h) {
   for (std::size_t k = 0; k < Stepper::window; ++k) {
     const LD kk = static_cast<LD>(k);
     switch (Stepper::layout) {
-      case SampleLayout::rate_at_end: in[k] = m.rate(t0 + h); break;
-      case SampleLayout::rates_spanning: in[k] = m.rate(t0 + kk * p); break;
-      case SampleLayout::delta_angles: in[k] = m.delta(t0 + kk * p, t0 + (kk + 1) * p); break;
-      case SampleLayout::delta_angles_with_previous: in[k] = m.delta(t0 + (kk - 1) * p, t0 + kk * p); break;
-      case SampleLayout::rate_function: break;
+      case SampleLayout::rate_at_end:
+        in[k] = m.rate(t0 + h);
+        break;
+      case SampleLayout::rates_spanning:
+        in[k] = m.rate(t0 + kk * p);
+        break;
+      case SampleLayout::delta_angles:
+        in[k] = m.delta(t0 + kk * p, t0 + (kk + 1) * p);
+        break;
+      case SampleLayout::delta_angles_with_previous:
+        in[k] = m.delta(t0 + (kk - 1) * p, t0 + kk * p);
+        break;
+      case SampleLayout::rate_function:
+        break;
     }
   }
   return in;
@@ -152,7 +163,8 @@ std::array<Vector3<LD>, Stepper::window> step_input(const M& m, LD t0, LD h) {
 // Angle error (rad) of one step of length h from t0, in long double.
 template <class Stepper, class M>
 LD one_step_error(const M& m, LD t0, LD h) {
-  const Quaternion<LD> q = Stepper::step(Quaternion<LD>::identity(), step_input<Stepper>(m, t0, h), h);
+  const Quaternion<LD> q =
+      Stepper::step(Quaternion<LD>::identity(), step_input<Stepper>(m, t0, h), h);
   return angle_between(q, m.increment(t0, t0 + h));
 }
 
@@ -172,7 +184,8 @@ struct Ratios {
 // Safety over 10 steps from h0 down by factors of 2 and `starts` start times in [0, span):
 // returns the bound/measured ratios where truncation dominates. Counts every check.
 template <class Stepper, class M>
-Ratios check_safety(const M& m, const RateEnvelope<LD>& e, LD h0, LD span, int starts, const std::string& who) {
+Ratios check_safety(const M& m, const RateEnvelope<LD>& e, LD h0, LD span, int starts,
+                    const std::string& who) {
   Ratios ratios;
   for (int j = 0; j < 10; ++j) {
     const LD h = h0 / std::pow(2.0L, static_cast<LD>(j));
@@ -180,8 +193,9 @@ Ratios check_safety(const M& m, const RateEnvelope<LD>& e, LD h0, LD span, int s
     for (int s = 0; s < starts; ++s) {
       const LD t0 = span * (static_cast<LD>(s) + 0.37L) / static_cast<LD>(starts);
       const LD measured = one_step_error<Stepper>(m, t0, h);
-      INFO(who << " " << Stepper::name << " h=" << static_cast<double>(h) << " t0=" << static_cast<double>(t0)
-               << " bound=" << static_cast<double>(bound) << " measured=" << static_cast<double>(measured));
+      INFO(who << " " << Stepper::name << " h=" << static_cast<double>(h)
+               << " t0=" << static_cast<double>(t0) << " bound=" << static_cast<double>(bound)
+               << " measured=" << static_cast<double>(measured));
       CHECK(measured <= bound + allowance);
       if (measured > truncation_floor && std::isfinite(bound)) {
         ratios.add(bound / measured);
@@ -192,7 +206,8 @@ Ratios check_safety(const M& m, const RateEnvelope<LD>& e, LD h0, LD span, int s
 }
 
 // Motions (invented parameters).
-const ClosedForm<ClassicalConingMotion<LD>> coning_wide{{0.2L, two_pi * 2}, ConingSpec<LD>{0.2L, 2}.envelope()};
+const ClosedForm<ClassicalConingMotion<LD>> coning_wide{{0.2L, two_pi * 2},
+                                                        ConingSpec<LD>{0.2L, 2}.envelope()};
 const ClosedForm<ClassicalConingMotion<LD>> coning_narrow{{0.02L, two_pi * 5},
                                                           ConingSpec<LD>{0.02L, 5}.envelope()};
 
@@ -205,11 +220,12 @@ RateEnvelope<LD> body_envelope(const AxisymmetricBodyMotion<LD>& b) {
   }
   return e;
 }
-const AxisymmetricBodyMotion<LD> body_motion{normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L,
-                                             0.8L, 0.3L, 1.5L};
+const AxisymmetricBodyMotion<LD> body_motion{
+    normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
 const ClosedForm<AxisymmetricBodyMotion<LD>> body{body_motion, body_envelope(body_motion)};
 // A fast-turning body: ω turns at λ = 2.5·3 rad/s, so the commutator term dominates.
-const AxisymmetricBodyMotion<LD> spinner_motion{Quaternion<LD>::identity(), 1.0L, 3.5L, 1.2L, -0.4L, 3.0L};
+const AxisymmetricBodyMotion<LD> spinner_motion{
+    Quaternion<LD>::identity(), 1.0L, 3.5L, 1.2L, -0.4L, 3.0L};
 const ClosedForm<AxisymmetricBodyMotion<LD>> spinner{spinner_motion, body_envelope(spinner_motion)};
 
 SingleAxisOscillation<LD> oscillation_motion() {
@@ -229,7 +245,8 @@ RateEnvelope<LD> oscillation_envelope() {
   }
   return e;
 }
-const ClosedForm<SingleAxisOscillation<LD>> oscillation{oscillation_motion(), oscillation_envelope()};
+const ClosedForm<SingleAxisOscillation<LD>> oscillation{oscillation_motion(),
+                                                        oscillation_envelope()};
 
 SinusoidMotion random_sinusoids(std::uint64_t seed) {
   test::RandomRotations rng(seed);
@@ -246,11 +263,12 @@ SinusoidMotion random_sinusoids(std::uint64_t seed) {
 template <class Stepper>
 void report(const std::string& who, const Ratios& r) {
   if (std::getenv("HALFSPIN_REPORT_WORST") != nullptr) {
-    std::printf("bound/measured min-1 %s on %s: %.3Le over %zu points\n", Stepper::name, who.c_str(), r.min() - 1,
-                r.r.size());
+    std::printf("bound/measured min-1 %s on %s: %.3Le over %zu points\n", Stepper::name,
+                who.c_str(), r.min() - 1, r.r.size());
   }
   test::report_worst(std::string("bound/measured min ") + Stepper::name + " on " + who, r.min());
-  test::report_worst(std::string("bound/measured median ") + Stepper::name + " on " + who, r.median());
+  test::report_worst(std::string("bound/measured median ") + Stepper::name + " on " + who,
+                     r.median());
   test::report_worst(std::string("bound/measured max ") + Stepper::name + " on " + who, r.max());
 }
 
@@ -266,8 +284,9 @@ void check_all_motions(LD tight) {
     report<Stepper>(who, r);
     return r;
   };
-  for (const Ratios& r : {run(coning_wide, "coning 0.2 rad 2 Hz", 0.5L), run(body, "axisymmetric body", 7.0L),
-                          run(spinner, "fast-turning axisymmetric body", 2.1L)}) {
+  for (const Ratios& r :
+       {run(coning_wide, "coning 0.2 rad 2 Hz", 0.5L), run(body, "axisymmetric body", 7.0L),
+        run(spinner, "fast-turning axisymmetric body", 2.1L)}) {
     INFO(Stepper::name);
     CHECK(r.max() <= tight);
     CHECK(r.r.size() >= 150);  // most of the 240 steps are truncation-dominated
@@ -276,7 +295,8 @@ void check_all_motions(LD tight) {
   run(oscillation, "single-axis oscillation", 0.67L);
   for (std::uint64_t seed = 1; seed <= 4; ++seed) {
     const SinusoidMotion m = random_sinusoids(seed);
-    const Ratios r = check_safety<Stepper>(m, m.envelope, 0.9L / m.envelope[0], 6.0L, 12, "random sinusoids");
+    const Ratios r =
+        check_safety<Stepper>(m, m.envelope, 0.9L / m.envelope[0], 6.0L, 12, "random sinusoids");
     report<Stepper>("random sinusoids seed " + std::to_string(seed), r);
   }
 }
@@ -305,7 +325,8 @@ TEST_CASE("the exponential map shortens distances inside the ball of radius π",
   test::report_worst("exp contraction: max d/|a-b|", worst);
   // Along the same axis the map is an isometry: the inequality is sharp.
   const Vector3<LD> u{0.6L, 0.0L, 0.8L};
-  CHECK(std::fabs(angle_between(quaternion_exp(1.1L * u), quaternion_exp(2.3L * u)) - 1.2L) <= 16 * eps_ld);
+  CHECK(std::fabs(angle_between(quaternion_exp(1.1L * u), quaternion_exp(2.3L * u)) - 1.2L) <=
+        16 * eps_ld);
 }
 
 // The constants of the header's section 4, re-derived by hand there, computed by the general
@@ -316,10 +337,11 @@ TEST_CASE("the exponential map shortens distances inside the ball of radius π",
 TEST_CASE("coning-term error constants match the hand derivation", "[reference]") {
   namespace mb = detail::magnus_bounds;
   // Envelopes that switch on one D-product at a time (the function is algebraic in them); the
-  // coefficient of h^n is read at h = 1e-6, where the higher powers (D2²·h⁶ …) are below 1e-6 of it.
+  // coefficient of h^n is read at h = 1e-6, where the higher powers (D2²·h⁶ …) are below 1e-6 of
+  // it.
   const LD h = 1e-6L;
-  const RateEnvelope<LD> d0d1{{1, 1, 0, 0, 0, 0}}, d0d3{{1, 0, 0, 1, 0, 0}}, d1d2{{0, 1, 1, 0, 0, 0}},
-      d0d2{{1, 0, 1, 0, 0, 0}};
+  const RateEnvelope<LD> d0d1{{1, 1, 0, 0, 0, 0}}, d0d3{{1, 0, 0, 1, 0, 0}},
+      d1d2{{0, 1, 1, 0, 0, 0}}, d0d2{{1, 0, 1, 0, 0, 0}};
   auto coefficient = [&](const auto& samples, const auto& pairs, const RateEnvelope<LD>& e, int n) {
     return mb::coning_term_tiers(samples, pairs, e, h).through_d3 / std::pow(h, static_cast<LD>(n));
   };
@@ -351,8 +373,10 @@ TEST_CASE("coning-term error constants match the hand derivation", "[reference]"
   // One-plus-previous is consistent but not symmetric: ∫τ²/2 is 13/24 over the previous period
   // [−3/2, −1/2] and 1/24 over the step, so κ_q = 1/12·(1/24 − 13/24) = −1/24: an h⁴·D0·D2 term,
   // the ω × ω̈ term behind its order 3 (coning_compensation.hpp).
-  const auto prev = detail::rule_sample_moments<LD>(rotation_vector_rules::Coning1SamplePlusPrevious::value);
-  const auto prev_pairs = detail::rule_pairs(rotation_vector_rules::Coning1SamplePlusPrevious::value);
+  const auto prev =
+      detail::rule_sample_moments<LD>(rotation_vector_rules::Coning1SamplePlusPrevious::value);
+  const auto prev_pairs =
+      detail::rule_pairs(rotation_vector_rules::Coning1SamplePlusPrevious::value);
   CHECK(coefficient(prev, prev_pairs, d0d1, 3) == 0);
   CHECK(near(coefficient(prev, prev_pairs, d0d2, 4), 1.0L / 24));
 }
@@ -372,22 +396,38 @@ TEST_CASE("bounds are exactly zero at constant rate and +inf when a needed deriv
       CHECK(bound(constant_unknown_higher, h) == 0);
     }
   };
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapHoldEnd>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapHoldStart>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapMidpointMean>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<ExponentialMapMidpointSample>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Magnus4>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning1Sample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<ExponentialMapHoldEnd>::local(e, h);
+  });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<ExponentialMapHoldStart>::local(e, h);
+  });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<ExponentialMapMidpointMean>::local(e, h);
+  });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<ExponentialMapMidpointSample>::local(e, h);
+  });
   zero_at_constant(
-      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning1SamplePlusPrevious>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning2Sample>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning3Sample>::local(e, h); });
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Magnus4>::local(e, h); });
   zero_at_constant(
-      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning3SampleMiller>::local(e, h); });
-  zero_at_constant([](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning4Sample>::local(e, h); });
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning1Sample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<Coning1SamplePlusPrevious>::local(e, h);
+  });
+  zero_at_constant(
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning2Sample>::local(e, h); });
+  zero_at_constant(
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning3Sample>::local(e, h); });
+  zero_at_constant([](const RateEnvelope<LD>& e, LD h) {
+    return LocalErrorBound<Coning3SampleMiller>::local(e, h);
+  });
+  zero_at_constant(
+      [](const RateEnvelope<LD>& e, LD h) { return LocalErrorBound<Coning4Sample>::local(e, h); });
   // float and double give 0 too.
   CHECK(LocalErrorBound<Magnus4>::local(RateEnvelope<float>::constant_rate(2.5f), 0.01f) == 0.0f);
-  CHECK(LocalErrorBound<Coning4Sample>::local(RateEnvelope<double>::constant_rate(2.5), 0.01) == 0.0);
+  CHECK(LocalErrorBound<Coning4Sample>::local(RateEnvelope<double>::constant_rate(2.5), 0.01) ==
+        0.0);
   // The measured error at constant rate is rounding only.
   const ClosedForm<ConstantRateMotion<LD>> spin{
       {normalized(Quaternion<LD>{0.3L, -0.5L, 0.1L, 0.8L}), {0.3L, -1.2L, 0.7L}},
@@ -399,7 +439,8 @@ TEST_CASE("bounds are exactly zero at constant rate and +inf when a needed deriv
   // Unknown derivatives: first/second-order methods need only D0, D1 (their quadrature and
   // commutator bounds have D1-only forms); the coning algorithms with a correction need D2 (an
   // O(h⁴) bound; with D3, D4 the O(h⁵) one); Magnus 4 needs D4 for its O(h⁵) Simpson form.
-  const RateEnvelope<LD> d01 = RateEnvelope<LD>::from_rate_bounds(2, 3, std::numeric_limits<LD>::infinity());
+  const RateEnvelope<LD> d01 =
+      RateEnvelope<LD>::from_rate_bounds(2, 3, std::numeric_limits<LD>::infinity());
   CHECK(std::isfinite(LocalErrorBound<ExponentialMapHoldEnd>::local(d01, 0.01L)));
   CHECK(std::isfinite(LocalErrorBound<ExponentialMapMidpointMean>::local(d01, 0.01L)));
   CHECK(std::isfinite(LocalErrorBound<ExponentialMapMidpointSample>::local(d01, 0.01L)));
@@ -411,16 +452,19 @@ TEST_CASE("bounds are exactly zero at constant rate and +inf when a needed deriv
   // Magnus 4 without D4: its Simpson quadrature falls back to the degree-0 Peano form (h²·D1,
   // derived from the weights), so the bound is finite but only O(h²): halving h quarters it.
   CHECK(std::isfinite(LocalErrorBound<Magnus4>::local(d012, 0.01L)));
-  CHECK(LocalErrorBound<Magnus4>::local(d012, 0.005L) / LocalErrorBound<Magnus4>::local(d012, 0.01L) >
+  CHECK(LocalErrorBound<Magnus4>::local(d012, 0.005L) /
+            LocalErrorBound<Magnus4>::local(d012, 0.01L) >
         0.2L);
   RateEnvelope<LD> d0123 = d012;
   d0123.derivative[3] = 5;
   CHECK(std::isfinite(LocalErrorBound<Coning4Sample>::local(d0123, 0.01L)));
-  CHECK(LocalErrorBound<Magnus4>::local(d0123, 0.01L) <= LocalErrorBound<Magnus4>::local(d012, 0.01L));
+  CHECK(LocalErrorBound<Magnus4>::local(d0123, 0.01L) <=
+        LocalErrorBound<Magnus4>::local(d012, 0.01L));
   // Outside the derivation's range (D0·h > 1 rad): +inf.
   CHECK(std::isinf(LocalErrorBound<ExponentialMapHoldEnd>::local(d012, 0.6L)));
   // Usable in constant expressions (firmware start-up checks).
-  constexpr float b = LocalErrorBound<Coning2Sample>::local(RateEnvelope<float>{{1, 2, 3, 4, 5, 6}}, 0.001f);
+  constexpr float b =
+      LocalErrorBound<Coning2Sample>::local(RateEnvelope<float>{{1, 2, 3, 4, 5, 6}}, 0.001f);
   static_assert(b > 0.0f, "constexpr bound");
   CHECK(b < 1e-12f);
 }
@@ -431,7 +475,8 @@ void check_precision_of_bound() {
   // The bound evaluated in float and double agrees with long double within 8 ε of the type
   // (measured 2.5 ε):
   // its rounding is negligible against the slack of the inequalities.
-  const std::array<RateEnvelope<LD>, 3> envelopes{coning_wide.envelope, body.envelope, random_sinusoids(7).envelope};
+  const std::array<RateEnvelope<LD>, 3> envelopes{coning_wide.envelope, body.envelope,
+                                                  random_sinusoids(7).envelope};
   LD worst_float = 0, worst_double = 0;
   for (const RateEnvelope<LD>& e : envelopes) {
     for (LD h = 0.5L / e[0]; h > 1e-4L / e[0]; h /= 3) {
@@ -452,15 +497,19 @@ void check_precision_of_bound() {
       const LD ref_f = LocalErrorBound<Stepper>::local(ef_ld, test::ld(hf));
       const LD ref_d = LocalErrorBound<Stepper>::local(ed_ld, test::ld(hd));
       if (ref_f > 1e-30L) {
-        worst_float = std::max(worst_float, std::fabs(test::ld(LocalErrorBound<Stepper>::local(ef, hf)) / ref_f - 1));
+        worst_float = std::max(
+            worst_float, std::fabs(test::ld(LocalErrorBound<Stepper>::local(ef, hf)) / ref_f - 1));
       }
       if (ref_d > 0) {
-        worst_double = std::max(worst_double, std::fabs(test::ld(LocalErrorBound<Stepper>::local(ed, hd)) / ref_d - 1));
+        worst_double = std::max(
+            worst_double, std::fabs(test::ld(LocalErrorBound<Stepper>::local(ed, hd)) / ref_d - 1));
       }
     }
   }
-  test::report_worst(std::string("bound rounding float (eps) ") + Stepper::name, worst_float / test::eps<float>());
-  test::report_worst(std::string("bound rounding double (eps) ") + Stepper::name, worst_double / test::eps<double>());
+  test::report_worst(std::string("bound rounding float (eps) ") + Stepper::name,
+                     worst_float / test::eps<float>());
+  test::report_worst(std::string("bound rounding double (eps) ") + Stepper::name,
+                     worst_double / test::eps<double>());
   CHECK(worst_float <= 8 * test::eps<float>());
   CHECK(worst_double <= 8 * test::eps<double>());
 }
@@ -492,7 +541,9 @@ TEST_CASE("local bounds of the exponential-map steps are safe on every motion", 
   check_all_motions<ExponentialMapMidpointSample>(3.0L);
 }
 
-TEST_CASE("local bound of Magnus 4 is safe on every motion", "[reference]") { check_all_motions<Magnus4>(15.0L); }
+TEST_CASE("local bound of Magnus 4 is safe on every motion", "[reference]") {
+  check_all_motions<Magnus4>(15.0L);
+}
 
 TEST_CASE("local bounds of the coning algorithms are safe on every motion", "[reference]") {
   check_all_motions<Coning1Sample>(6.0L);
@@ -523,9 +574,11 @@ Tracking track(const M& m, LD h, LD span, int starts) {
     // the trapezoid exponential-map step on the end rates.
     Quaternion<LD> lower;
     if constexpr (carries_delta_angles(Stepper::layout)) {
-      lower = Lower::step(Quaternion<LD>::identity(), std::array<Vector3<LD>, 1>{m.delta(t0, t0 + h)}, h);
+      lower = Lower::step(Quaternion<LD>::identity(),
+                          std::array<Vector3<LD>, 1>{m.delta(t0, t0 + h)}, h);
     } else {
-      lower = Lower::step(Quaternion<LD>::identity(), std::array<Vector3<LD>, 2>{m.rate(t0), m.rate(t0 + h)}, h);
+      lower = Lower::step(Quaternion<LD>::identity(),
+                          std::array<Vector3<LD>, 2>{m.rate(t0), m.rate(t0 + h)}, h);
     }
     const LD lower_error = angle_between(lower, truth);
     const LD own_error = angle_between(r.attitude, truth);
@@ -544,7 +597,8 @@ void check_tracking(const M& m, const char* who, LD h0, LD span) {
   for (int j = 0; j < 4; ++j) {
     const LD h = h0 / std::pow(4.0L, static_cast<LD>(j));
     const Tracking t = track<Stepper, Lower>(m, h, span, 40);
-    const std::string tag = std::string(Stepper::name) + " on " + who + " h=" + std::to_string(static_cast<double>(h));
+    const std::string tag =
+        std::string(Stepper::name) + " on " + who + " h=" + std::to_string(static_cast<double>(h));
     test::report_worst("estimate/lower-method error min " + tag, t.vs_lower.min());
     test::report_worst("estimate/lower-method error max " + tag, t.vs_lower.max());
     test::report_worst("estimate/own error min " + tag, t.vs_own.min());
@@ -577,7 +631,8 @@ TEST_CASE("online estimate |beta-hat| tracks the commutator part of the step", "
   static_assert(has_error_estimate<Magnus4, double>::value, "Magnus 4 has an estimate");
   static_assert(has_error_estimate<Coning2Sample, float>::value, "two-sample has an estimate");
   static_assert(has_error_estimate<Coning4Sample, double>::value, "four-sample has an estimate");
-  static_assert(has_error_estimate<Coning1SamplePlusPrevious, double>::value, "plus-previous has an estimate");
+  static_assert(has_error_estimate<Coning1SamplePlusPrevious, double>::value,
+                "plus-previous has an estimate");
   static_assert(!has_error_estimate<Coning1Sample, double>::value, "one sample has no correction");
   check_tracking<Magnus4, ExponentialMapMidpointMean>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
   check_tracking<Magnus4, ExponentialMapMidpointMean>(body, "axisymmetric body", 0.4L, 7.0L);
@@ -589,12 +644,14 @@ TEST_CASE("online estimate |beta-hat| tracks the commutator part of the step", "
   check_tracking<Coning3SampleMiller, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
   check_tracking<Coning4Sample, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.1L, 0.5L);
   check_tracking<Coning4Sample, Coning1Sample>(body, "axisymmetric body", 0.4L, 7.0L);
-  check_tracking<Coning1SamplePlusPrevious, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.05L, 0.5L);
+  check_tracking<Coning1SamplePlusPrevious, Coning1Sample>(coning_wide, "coning 0.2 rad", 0.05L,
+                                                           0.5L);
   check_tracking<Coning1SamplePlusPrevious, Coning1Sample>(body, "axisymmetric body", 0.2L, 7.0L);
 }
 
 TEST_CASE("the propagator reports the stepper's estimate per step and accumulated", "[reference]") {
-  // Truth: the estimate's definition, |dt²/12·ω0 × ω2| (Magnus expansion, Iserles and Nørsett 1999).
+  // Truth: the estimate's definition, |dt²/12·ω0 × ω2| (Magnus expansion, Iserles and Nørsett
+  // 1999).
   Propagator<double, Magnus4> p(Quaternion<double>::identity(), GyroLimits<double>{1e3, 10});
   const Vector3<double> w0{0.1, 0.2, 0.3}, w1{0.2, 0.1, 0.4}, w2{0.4, -0.1, 0.3};
   const double dt = 0.01;
@@ -602,10 +659,12 @@ TEST_CASE("the propagator reports the stepper's estimate per step and accumulate
   REQUIRE(!is_rejection(p.push(w1, dt)));
   REQUIRE(p.push(w2, dt) == Status::ok);
   const double expected = norm(cross(w0, w2)) * (0.02 * 0.02 / 12);
-  CHECK(std::fabs(p.last_error_estimate() - expected) <= 4 * std::numeric_limits<double>::epsilon() * expected);
+  CHECK(std::fabs(p.last_error_estimate() - expected) <=
+        4 * std::numeric_limits<double>::epsilon() * expected);
   CHECK(p.accumulated_error_estimate() == p.last_error_estimate());
   // step_with_estimate returns the same attitude as step(), bit for bit.
-  const std::array<Vector3<float>, 4> d{{{1e-3f, 2e-3f, 0}, {0, 1e-3f, 3e-3f}, {2e-3f, 0, 1e-3f}, {1e-3f, 1e-3f, 1e-3f}}};
+  const std::array<Vector3<float>, 4> d{
+      {{1e-3f, 2e-3f, 0}, {0, 1e-3f, 3e-3f}, {2e-3f, 0, 1e-3f}, {1e-3f, 1e-3f, 1e-3f}}};
   const Quaternion<float> q = normalized(Quaternion<float>{0.5f, 0.1f, -0.2f, 0.8f});
   const StepOutcome<float> r = Coning4Sample::step_with_estimate(q, d, 0.004f);
   const Quaternion<float> s = Coning4Sample::step(q, d, 0.004f);

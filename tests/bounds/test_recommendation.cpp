@@ -26,8 +26,8 @@ using namespace halfspin;
 namespace {
 
 template <class T, std::size_t N>
-void check_candidate(const Recommendation<T, N>& r, std::size_t i, const char* name, double hand_bound,
-                     CandidateOutcome outcome, double cost) {
+void check_candidate(const Recommendation<T, N>& r, std::size_t i, const char* name,
+                     double hand_bound, CandidateOutcome outcome, double cost) {
   const CandidateReport<T>& c = r.candidates[i];
   INFO(c.name << " bound " << test::ld(c.bound_rad) << " hand " << hand_bound << " cost "
               << test::ld(c.cost_flops_per_s));
@@ -45,7 +45,8 @@ void check_candidate(const Recommendation<T, N>& r, std::size_t i, const char* n
 // adds up (N·e_ax after N steps); the lateral part e_lat turns by λ per step, and its running sum
 // traces a circle of diameter e_lat/sin(λ/2), never more. The lateral error also lengthens the
 // composed per-step rotation by e_lat²/(4·tan(λ/2)) (second order: cos(α/2) = cos(λ/2)cos(e/2) −
-// …), which adds to the axial drift. Bound ≈ √((N·(e_ax + e_lat²/(4 tan(λ/2))))² + (e_lat/sin(λ/2))²)
+// …), which adds to the axial drift. Bound ≈ √((N·(e_ax + e_lat²/(4 tan(λ/2))))² +
+// (e_lat/sin(λ/2))²)
 // + roundoff. The error of a step in the body frame: with v the stepper's rotation vector,
 // e ≈ v − Φ* − ½·v × Φ* (Baker–Campbell–Hausdorff to second order), Φ*'s axial part carrying the
 // coning drift d = ½ sin²a (λ − sin λ) ≈ a²λ³/12 (a the half-angle, here λ = Ω·h per sample);
@@ -80,17 +81,21 @@ TEST_CASE("recommendation: quiet platform, the cheapest exponential-map step suf
           "[reference]") {
   MotionDescription<double> d{};
   d.coning = {1e-3, 0.5};
-  const StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean, RungeKutta2MidpointInterpolated, RungeKutta4Sampled>
+  const StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean,
+                    RungeKutta2MidpointInterpolated, RungeKutta4Sampled>
       list{};
   const auto loose = recommend_stepper(list, d, 1e-5, 600.0, 1000.0);
   REQUIRE(loose.found);
   CHECK(std::strcmp(loose.name, "exponential_map_hold_end") == 0);
   CHECK(loose.index == 0);
-  check_candidate(loose, 0, "exponential_map_hold_end", 3.143e-6, CandidateOutcome::meets_budget, 54e3);
-  check_candidate(loose, 1, "exponential_map_midpoint_mean", 4.71e-9, CandidateOutcome::meets_budget, 58e3);
-  check_candidate(loose, 2, "runge_kutta_2_midpoint_interpolated", 2.22e-9, CandidateOutcome::meets_budget,
-                  75e3);
-  check_candidate(loose, 3, "runge_kutta_4_sampled", 3.33e-10, CandidateOutcome::meets_budget, 74.5e3);
+  check_candidate(loose, 0, "exponential_map_hold_end", 3.143e-6, CandidateOutcome::meets_budget,
+                  54e3);
+  check_candidate(loose, 1, "exponential_map_midpoint_mean", 4.71e-9,
+                  CandidateOutcome::meets_budget, 58e3);
+  check_candidate(loose, 2, "runge_kutta_2_midpoint_interpolated", 2.22e-9,
+                  CandidateOutcome::meets_budget, 75e3);
+  check_candidate(loose, 3, "runge_kutta_4_sampled", 3.33e-10, CandidateOutcome::meets_budget,
+                  74.5e3);
 
   const auto tight = recommend_stepper(list, d, 1e-6, 600.0, 1000.0);
   REQUIRE(tight.found);
@@ -169,12 +174,13 @@ TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets,
 
 // Scenario 3 with the expected (random-walk) roundoff model: the same float platform, 600 s,
 // budget 5e-4 rad. No candidate meets it by a bound (scenario 3: the best worst-case floor is
-// four-sample's 0.161 rad). Expected sizes √N × per-step rounding (roundoff_floor.hpp; truncation as
-// in scenario 3, negligible: hold-end's lateral part 6.3e-6, one-sample's drift N·d = 1.2e-8):
+// four-sample's 0.161 rad). Expected sizes √N × per-step rounding (roundoff_floor.hpp; truncation
+// as in scenario 3, negligible: hold-end's lateral part 6.3e-6, one-sample's drift N·d = 1.2e-8):
 //   hold-end √6e5·1.073e-6 = 774.6·1.073e-6 = 8.31e-4 (+6.3e-6 = 8.37e-4); one-sample 8.31e-4;
 //   two-sample √3e5·1.073e-6 = 547.7·1.073e-6 = 5.88e-4; four-sample √1.5e5·1.073e-6
 //   = 387.3·1.073e-6 = 4.16e-4; RK4 sampled √3e5·5.96e-7 = 3.26e-4.
-//   Meeting 5e-4: four-sample (35.25 kflop/s) and RK4 (74.5): four-sample, a typical size, not a bound.
+//   Meeting 5e-4: four-sample (35.25 kflop/s) and RK4 (74.5): four-sample, a typical size, not a
+//   bound.
 TEST_CASE("recommendation: the expected roundoff model, float over ten minutes", "[reference]") {
   MotionDescription<float> d{};
   d.coning = {1e-3f, 1.0f};
@@ -212,7 +218,8 @@ struct TestOnlyUnboundedStepper {
 TEST_CASE("recommendation: a stepper without a bound is listed as no_bound") {
   MotionDescription<double> d{};
   d.maneuver = RateEnvelope<double>::constant_rate(1.0);
-  const auto r = recommend_stepper(StepperList<bounds_test_only::TestOnlyUnboundedStepper>{}, d, 1.0, 1.0, 100.0);
+  const auto r = recommend_stepper(StepperList<bounds_test_only::TestOnlyUnboundedStepper>{}, d,
+                                   1.0, 1.0, 100.0);
   CHECK_FALSE(r.found);
   CHECK(r.candidates[0].outcome == CandidateOutcome::no_bound);
 }

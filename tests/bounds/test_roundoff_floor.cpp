@@ -53,7 +53,8 @@ Quaternion<Q> run_step(const Quaternion<Q>& q, const Vector3<LD>& w, LD dt) {
         return narrow<Q>(w);
       }
     }();
-    return S::step(q, [wq](Q) { return wq; }, static_cast<Q>(dt));
+    return S::step(
+        q, [wq](Q) { return wq; }, static_cast<Q>(dt));
   } else {
     if constexpr (std::is_same<Q, LD>::value) {
       return S::step(q, constant_rate_input<S, LD>(w, dt), dt);
@@ -84,9 +85,9 @@ void check_per_step_bound(std::uint64_t seed) {
     REQUIRE(measured <= test::ld(bound));
     worst_ratio = std::fmax(worst_ratio, measured / test::ld(bound));
   }
-  test::report_worst(std::string("per-step rounding measured/bound ") + S::name + " " +
-                         test::type_name<T>(),
-                     worst_ratio);
+  test::report_worst(
+      std::string("per-step rounding measured/bound ") + S::name + " " + test::type_name<T>(),
+      worst_ratio);
 }
 
 }  // namespace
@@ -100,8 +101,8 @@ TEST_CASE("roundoff floor: the exponential map does not increase distances below
   const LD pi_ld = 3.141592653589793238462643383279502884L;
   LD worst = 0;
   for (int i = 0; i < test::property_samples; ++i) {
-    const Vector3<LD> a = widen(rng.unit_vector<double>()) *
-                          static_cast<LD>(rng.uniform<double>(0.0, 0.999)) * pi_ld;
+    const Vector3<LD> a =
+        widen(rng.unit_vector<double>()) * static_cast<LD>(rng.uniform<double>(0.0, 0.999)) * pi_ld;
     Vector3<LD> b{};
     do {
       const LD step = static_cast<LD>(rng.log_uniform<double>(1e-12, 3.0));
@@ -109,8 +110,8 @@ TEST_CASE("roundoff floor: the exponential map does not increase distances below
     } while (norm(b) >= 0.999L * pi_ld);
     const LD d = angle_between(quaternion_exp(a), quaternion_exp(b));
     const LD gap = norm(a - b);
-    INFO("|a| " << static_cast<double>(norm(a)) << " |b| " << static_cast<double>(norm(b))
-                << " d " << static_cast<double>(d) << " |a-b| " << static_cast<double>(gap));
+    INFO("|a| " << static_cast<double>(norm(a)) << " |b| " << static_cast<double>(norm(b)) << " d "
+                << static_cast<double>(d) << " |a-b| " << static_cast<double>(gap));
     // Long double rounding of d: relative 1e-15 plus 1e-18 rad.
     REQUIRE(d <= gap * (1.0L + 1e-15L) + 1e-18L);
     worst = std::fmax(worst, d / gap);
@@ -153,8 +154,8 @@ LD long_run_error(const Motion& m, LD h, long steps_total) {
   for (long k = 0; k < steps_total; ++k) {
     const LD t0 = static_cast<LD>(k) * dt;
     if constexpr (S::layout == SampleLayout::rate_function) {
-      q = S::step(q, [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); },
-                  static_cast<T>(dt));
+      q = S::step(
+          q, [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); }, static_cast<T>(dt));
     } else {
       std::array<Vector3<T>, S::window> in{};
       for (std::size_t i = 0; i < S::window; ++i) {
@@ -188,7 +189,8 @@ void long_run_constant_rate() {
   const ConstantRateMotion<LD> m{{0.9L, 0.1L, -0.3L, 0.3L}, {0.3L, -0.2L, 0.3464101615137754587L}};
   const ConstantRateMotion<LD> mu{normalized(m.initial), m.body_rate};
   const LD measured = long_run_error<S, T>(mu, h, steps);
-  const T theta = static_cast<T>(norm(mu.body_rate) * h * static_cast<LD>(periods_per_step(S::layout, S::window)));
+  const T theta = static_cast<T>(norm(mu.body_rate) * h *
+                                 static_cast<LD>(periods_per_step(S::layout, S::window)));
   const LD worst_floor = test::ld(roundoff_floor_worst<S, T>(theta, steps));
   const LD expected_floor = test::ld(roundoff_floor_expected<S, T>(theta, steps));
   INFO(S::name << " " << test::type_name<T>() << " measured " << static_cast<double>(measured)
@@ -251,8 +253,10 @@ TEST_CASE("roundoff floor: 10^6 float and double steps stay under the worst-case
 // Issue 4 item 5: the floor can be checked at compile time (firmware start-up configuration).
 // The value is the hand count of the header: exponential-map family at θ = 0, one float step,
 // 2x/(1 − x) with x = 2γ₄ plus 2u/(1 − u), about 18u.
-static_assert(roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) > 17.9f * 0.5f * 1.1920929e-7f &&
-                  roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) < 18.1f * 0.5f * 1.1920929e-7f,
+static_assert(roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) >
+                      17.9f * 0.5f * 1.1920929e-7f &&
+                  roundoff_floor_worst<ExponentialMapHoldEnd, float>(0.0f, 1) <
+                      18.1f * 0.5f * 1.1920929e-7f,
               "per-step floor of the exponential-map family is 18u at theta = 0");
 static_assert(roundoff_floor_worst<RungeKutta4Sampled, double>(0.0, 1) > 9.9 * 0x1p-53 &&
                   roundoff_floor_worst<RungeKutta4Sampled, double>(0.0, 1) < 10.1 * 0x1p-53,

@@ -326,14 +326,16 @@ TEST_CASE("Runge-Kutta local bounds need only the derivatives they use", "[bound
   REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta3KuttaSampled>::local(e, 0.01)));
   // RK2 uses D0..D3; interpolated stages cap RK4 at state order 2, so it uses D0..D3 too.
   e.derivative[3] = 5.0;
-  const double rk2 = halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.01);
+  const double rk2 =
+      halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.01);
   const double rk4i = halfspin::LocalErrorBound<halfspin::RungeKutta4Interpolated>::local(e, 0.01);
   REQUIRE(std::isfinite(rk2));
   REQUIRE(std::isfinite(rk4i));
   REQUIRE(rk2 > 0.0);
   REQUIRE(rk4i > 0.0);
   // Beyond the domain (D0·h > 1 rad) the bound is +∞ rather than a guess.
-  REQUIRE(std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.6)));
+  REQUIRE(
+      std::isinf(halfspin::LocalErrorBound<halfspin::RungeKutta2MidpointSampled>::local(e, 0.6)));
   // Order of the bound in h: halving h divides an RK4 (rate function) bound by ≈ 2⁵ once
   // the constant-rate and varying parts are both in their asymptotic range.
   const RateEnvelope<double> all{{2.0, 3.0, 4.0, 5.0, 6.0, 7.0}};

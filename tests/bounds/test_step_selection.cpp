@@ -44,8 +44,9 @@ LD run_on_coning(const ClassicalConingMotion<LD>& m, LD dt, std::int64_t steps) 
       } else if constexpr (S::layout == SampleLayout::delta_angles) {
         in[i] = narrow<T>(m.delta_angle(t0 + ki * h, t0 + (ki + 1) * h));
       } else {
-        static_assert(S::layout == SampleLayout::rates_spanning ||
-                      S::layout == SampleLayout::delta_angles, "layouts used here");
+        static_assert(
+            S::layout == SampleLayout::rates_spanning || S::layout == SampleLayout::delta_angles,
+            "layouts used here");
       }
     }
     q = normalized(S::step(q, in, static_cast<T>(dt)));
@@ -65,8 +66,7 @@ void check_selection(T half_angle, T frequency_hz, T budget, T horizon) {
   CHECK(sel.bound_rad <= budget);
   CHECK(sel.step_s >= sel.minimizing_step_s);
   CHECK(sel.update_rate_hz == T(1) / sel.step_s);
-  CHECK(sel.sample_rate_hz ==
-        static_cast<T>(periods_per_step(S::layout, S::window)) / sel.step_s);
+  CHECK(sel.sample_rate_hz == static_cast<T>(periods_per_step(S::layout, S::window)) / sel.step_s);
   // The returned step run on the truth meets the budget.
   const std::int64_t steps = steps_for_horizon(sel.step_s, horizon);
   const LD measured = run_on_coning<S, T>(
@@ -78,9 +78,9 @@ void check_selection(T half_angle, T frequency_hz, T budget, T horizon) {
   CHECK(horizon_error_bound<S>(d, T(2) * sel.step_s, horizon) > budget);
   // And so does a step larger by the bisection tolerance (relative 1e-3), twice over.
   CHECK(horizon_error_bound<S>(d, sel.step_s * T(1.002), horizon) > budget);
-  test::report_worst(std::string("selected step ") + S::name + " " + test::type_name<T>() +
-                         " measured/budget",
-                     measured / test::ld(budget));
+  test::report_worst(
+      std::string("selected step ") + S::name + " " + test::type_name<T>() + " measured/budget",
+      measured / test::ld(budget));
 }
 
 }  // namespace
@@ -194,11 +194,13 @@ TEST_CASE("step selection: non-coning motions use the stepper's LocalErrorBound"
   const double horizon = 10.0;
   const std::int64_t steps = steps_for_horizon(dt, horizon);
   CHECK(steps == 10000);
-  const double floor = roundoff_floor_worst<bounds_test_only::TestOnlyBoundedStepper, double>(1.0 * dt, steps);
+  const double floor =
+      roundoff_floor_worst<bounds_test_only::TestOnlyBoundedStepper, double>(1.0 * dt, steps);
   CHECK(horizon_error_bound<bounds_test_only::TestOnlyBoundedStepper>(d, dt, horizon) ==
         Approx(10000.0 * 0.5 * 2.0 * dt * dt + floor).epsilon(1e-12));
   // Budget 1e-3 rad over 10 s with D1 = 2: dt ≈ 2·1e-3/(10·2) = 1e-4 s.
-  const StepSelection<double> sel = select_step<bounds_test_only::TestOnlyBoundedStepper>(d, 1e-3, horizon);
+  const StepSelection<double> sel =
+      select_step<bounds_test_only::TestOnlyBoundedStepper>(d, 1e-3, horizon);
   REQUIRE(sel.status == StepSelectionStatus::ok);
   CHECK(sel.step_s == Approx(1e-4).epsilon(2e-3));
   CHECK(sel.bound_rad <= 1e-3);

@@ -80,8 +80,8 @@ TEMPLATE_TEST_CASE("quaternion_exp is accurate to a few ulp per component for an
   REQUIRE(worst <= 3);
 }
 
-TEMPLATE_TEST_CASE("below the threshold (no libm call) quaternion_exp is within 2 ulp",
-                   "[core]", float, double) {
+TEMPLATE_TEST_CASE("below the threshold (no libm call) quaternion_exp is within 2 ulp", "[core]",
+                   float, double) {
   // The small-angle kernel of a gyro step: series only, no sin/cos/sqrt.
   using T = TestType;
   test::RandomRotations rng(36);
@@ -143,11 +143,12 @@ TEMPLATE_TEST_CASE("log inverts exp for every angle below π, and near π", "[co
     const Vector3<T> phi = angle * axis;
     const Vector3<T> back = quaternion_log(quaternion_exp(phi));
     const long double exact = test::length_ld(phi);
-    const long double shortest = std::fmin(exact, 2 * 3.141592653589793238462643383279502884L - exact);
-    worst_angle = std::fmax(worst_angle, std::fabs(static_cast<long double>(norm(back)) - shortest) /
-                                             test::eps<T>());
-    worst_rotation = std::fmax(worst_rotation, test::quaternion_error_eps(quaternion_exp(back),
-                                                                          quaternion_exp(phi)));
+    const long double shortest =
+        std::fmin(exact, 2 * 3.141592653589793238462643383279502884L - exact);
+    worst_angle = std::fmax(
+        worst_angle, std::fabs(static_cast<long double>(norm(back)) - shortest) / test::eps<T>());
+    worst_rotation = std::fmax(
+        worst_rotation, test::quaternion_error_eps(quaternion_exp(back), quaternion_exp(phi)));
   }
   REQUIRE(worst_angle <= 16);  // ε units; the angle is near π, so this is 8 ulp of π
   REQUIRE(worst_rotation <= 4);
@@ -159,7 +160,9 @@ TEMPLATE_TEST_CASE("log returns the shortest rotation for either sign and past �
   const Vector3<T> axis{0, 0, 1};
   // A 3π/2 turn about +z is the same rotation as a π/2 turn about −z.
   const Vector3<T> phi = quaternion_log(quaternion_exp(T(1.5) * pi<T> * axis));
-  REQUIRE(phi.z == Approx(static_cast<double>(-pi<T> / T(2))).epsilon(8 * std::numeric_limits<T>::epsilon()));
+  REQUIRE(
+      phi.z ==
+      Approx(static_cast<double>(-pi<T> / T(2))).epsilon(8 * std::numeric_limits<T>::epsilon()));
   const Quaternion<T> q = quaternion_exp(Vector3<T>{T(0.3), T(-0.2), T(0.1)});
   REQUIRE(quaternion_log(-q) == quaternion_log(q));
   // Scale invariance: log of a non-unit multiple gives the same vector to rounding.

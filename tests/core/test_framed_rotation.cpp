@@ -4,8 +4,8 @@
 
 #include <type_traits>
 
-#include "halfspin/core/framed_rotation.hpp"
 #include "halfspin/core/exponential_map.hpp"
+#include "halfspin/core/framed_rotation.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;

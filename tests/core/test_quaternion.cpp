@@ -36,11 +36,11 @@ TEMPLATE_TEST_CASE("product is associative, conjugate reverses, inverse inverts"
   for (int n = 0; n < test::property_samples; ++n) {
     const auto a = rng.quaternion<T>(), b = rng.quaternion<T>(), c = rng.quaternion<T>();
     worst_assoc = std::fmax(worst_assoc, test::quaternion_error_eps((a * b) * c, a * (b * c)));
-    worst_conj = std::fmax(worst_conj, test::quaternion_error_eps(conjugate(a * b),
-                                                                  conjugate(b) * conjugate(a)));
+    worst_conj = std::fmax(
+        worst_conj, test::quaternion_error_eps(conjugate(a * b), conjugate(b) * conjugate(a)));
     const Quaternion<T> s = T(1.7) * a;  // non-unit on purpose
-    worst_inv = std::fmax(worst_inv, test::quaternion_error_eps(s * inverse(s),
-                                                                Quaternion<T>::identity()));
+    worst_inv =
+        std::fmax(worst_inv, test::quaternion_error_eps(s * inverse(s), Quaternion<T>::identity()));
   }
   REQUIRE(worst_assoc <= 4);
   REQUIRE(worst_conj <= 2);  // the two sides sum the same products in different orders
@@ -91,8 +91,8 @@ TEMPLATE_TEST_CASE("rotating by a quarter turn about z takes x to y", "[core][re
   REQUIRE(r.z == T(0));
 }
 
-TEMPLATE_TEST_CASE("angle_between is sign-insensitive and accurate for tiny angles", "[core]", float,
-                   double) {
+TEMPLATE_TEST_CASE("angle_between is sign-insensitive and accurate for tiny angles", "[core]",
+                   float, double) {
   using T = TestType;
   test::RandomRotations rng(24);
   long double worst_rel = 0;
@@ -107,14 +107,16 @@ TEMPLATE_TEST_CASE("angle_between is sign-insensitive and accurate for tiny angl
     REQUIRE(std::fabs(angle_between(b, a) - got) <= 4 * std::numeric_limits<T>::epsilon());
     // The composed b carries rounding of order ε in each component, so the angle is known to about
     // 2ε absolutely; for angles above 1e-3 compare relatively.
-    const long double err = std::fabs(static_cast<long double>(got) - static_cast<long double>(angle));
+    const long double err =
+        std::fabs(static_cast<long double>(got) - static_cast<long double>(angle));
     worst_rel = std::fmax(worst_rel, err / (test::eps<T>() * std::fmax(1.0L, angle)));
   }
   REQUIRE(worst_rel <= 8);
   REQUIRE(angle_between(Quaternion<T>::identity(), Quaternion<T>::identity()) == T(0));
 }
 
-TEMPLATE_TEST_CASE("nearest_sign and with_nonnegative_scalar pick the hemisphere", "[core]", float, double) {
+TEMPLATE_TEST_CASE("nearest_sign and with_nonnegative_scalar pick the hemisphere", "[core]", float,
+                   double) {
   using T = TestType;
   const Quaternion<T> prev{T(0.6), T(0.8), 0, 0};
   const Quaternion<T> q{T(-0.6), T(-0.79), T(0.1), 0};

@@ -74,27 +74,30 @@ void check_all_classes(T scale, bool delta_angles) {
     for (const T bad : {nan, inf, -inf}) {
       Vector3<T> s = ok;
       (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = bad;
-      check_rejection<T, Stepper>("non-finite component", Status::non_finite,
-                                  [&](auto& p) { return p.push(s, dt); }, scale);
+      check_rejection<T, Stepper>(
+          "non-finite component", Status::non_finite, [&](auto& p) { return p.push(s, dt); },
+          scale);
     }
     // Beyond the gyro's range on this axis (rate 36 rad/s > 35 rad/s; as a delta-angle over dt).
     for (const T sign : {T(1), T(-1)}) {
       Vector3<T> s = ok;
       const T over = sign * T(36) * (delta_angles ? dt : T(1));
       (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = over;
-      check_rejection<T, Stepper>("over range", Status::over_range,
-                                  [&](auto& p) { return p.push(s, dt); }, scale);
+      check_rejection<T, Stepper>(
+          "over range", Status::over_range, [&](auto& p) { return p.push(s, dt); }, scale);
     }
   }
   for (const T bad_dt : {T(0), T(-0.0), T(-1e-3), -std::numeric_limits<T>::denorm_min()}) {
-    check_rejection<T, Stepper>("non-positive step", Status::non_positive_step,
-                                [&](auto& p) { return p.push(ok, bad_dt); }, scale);
+    check_rejection<T, Stepper>(
+        "non-positive step", Status::non_positive_step, [&](auto& p) { return p.push(ok, bad_dt); },
+        scale);
   }
-  check_rejection<T, Stepper>("zero ticks", Status::non_positive_step,
-                              [&](auto& p) { return p.push(ok, Ticks{0}); }, scale);
+  check_rejection<T, Stepper>(
+      "zero ticks", Status::non_positive_step, [&](auto& p) { return p.push(ok, Ticks{0}); },
+      scale);
   for (const T bad_dt : {nan, inf, -inf}) {
-    check_rejection<T, Stepper>("non-finite step", Status::non_finite,
-                                [&](auto& p) { return p.push(ok, bad_dt); }, scale);
+    check_rejection<T, Stepper>(
+        "non-finite step", Status::non_finite, [&](auto& p) { return p.push(ok, bad_dt); }, scale);
   }
 }
 
@@ -103,10 +106,10 @@ void check_all_classes(T scale, bool delta_angles) {
 TEMPLATE_TEST_CASE("every bad-input class is rejected with its status and leaves state intact",
                    "[propagation]", float, double) {
   using T = TestType;
-  check_all_classes<T, Magnus4>(T(1), false);                           // rates, window of 3
-  check_all_classes<T, ExponentialMapHoldEnd>(T(1), false);                     // rates, window of 1
-  check_all_classes<T, test::SummedDeltaAngles<3>>(T(1e-3), true);      // delta-angles
-  check_all_classes<T, test::WithPreviousDeltaAngle>(T(1e-3), true);    // with history
+  check_all_classes<T, Magnus4>(T(1), false);                         // rates, window of 3
+  check_all_classes<T, ExponentialMapHoldEnd>(T(1), false);           // rates, window of 1
+  check_all_classes<T, test::SummedDeltaAngles<3>>(T(1e-3), true);    // delta-angles
+  check_all_classes<T, test::WithPreviousDeltaAngle>(T(1e-3), true);  // with history
 }
 
 TEMPLATE_TEST_CASE("a gap is rejected, then the history restarts", "[propagation]", float, double) {
@@ -116,10 +119,10 @@ TEMPLATE_TEST_CASE("a gap is rejected, then the history restarts", "[propagation
   Propagator<T, Magnus4> p(Quaternion<T>::identity(), limits<T>);
   p.push(w, dt);
   p.push(w, dt);
-  REQUIRE(p.push(w, dt) == Status::ok);                  // step 1 over samples 1–3
+  REQUIRE(p.push(w, dt) == Status::ok);                   // step 1 over samples 1–3
   REQUIRE(p.push(w, dt) == Status::waiting_for_samples);  // sample 4 waits
   const Quaternion<T> before = p.attitude();
-  REQUIRE(p.push(w, T(0.5)) == Status::step_too_long);    // 500 ms since the last sample
+  REQUIRE(p.push(w, T(0.5)) == Status::step_too_long);  // 500 ms since the last sample
   REQUIRE(same_bits(p.attitude(), before));
   REQUIRE(p.counters().rejected_step_too_long == 1);
   // After the gap the window starts again: sample 4 is discarded, three new samples make a step.

@@ -65,7 +65,7 @@ long double one_step_worst(std::uint64_t seed, int steps, T largest_angle) {
     batch->set_lane(i, random.quaternion<T>());
   }
   Propagator<T, Coning1Sample, FirstOrderRenormalization> scalar(Quaternion<T>::identity(),
-                                                                   wide_limits<T>);
+                                                                 wide_limits<T>);
   long double worst = 0;
   for (int k = 0; k < steps; ++k) {
     std::array<Quaternion<T>, N> before;
@@ -403,7 +403,7 @@ TEMPLATE_TEST_CASE("the copying step() overload and NoRenormalization", "[propag
   BatchPropagator<T, N> copied(Quaternion<T>::identity(), wide_limits<T>);
   BatchPropagator<T, N, NoRenormalization> plain(Quaternion<T>::identity(), wide_limits<T>);
   Propagator<T, Coning1Sample, NoRenormalization> scalar_plain(Quaternion<T>::identity(),
-                                                                 wide_limits<T>);
+                                                               wide_limits<T>);
   std::array<T, N> dx{}, dy{}, dz{}, dt{};
   for (int k = 0; k < 50; ++k) {
     for (std::size_t i = 0; i < N; ++i) {
@@ -458,7 +458,8 @@ TEMPLATE_TEST_CASE("the batch exponential series is accurate up to max_step_angl
     worst_c = std::max(worst_c, test::ulp_error(c, exact_c));
     worst_s = std::max(worst_s, test::ulp_error(s, exact_s));
   }
-  test::report_worst(std::string("batch series cos(θ/2) − 1, ulp, ") + test::type_name<T>(), worst_c);
+  test::report_worst(std::string("batch series cos(θ/2) − 1, ulp, ") + test::type_name<T>(),
+                     worst_c);
   test::report_worst(std::string("batch series sin(θ/2)/θ, ulp, ") + test::type_name<T>(), worst_s);
   CHECK(worst_c <= 2.0L);
   CHECK(worst_s <= 2.0L);

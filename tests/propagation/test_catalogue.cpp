@@ -30,7 +30,8 @@ std::string type_name() {
   return std::string(t);
 }
 
-// CamelCase with digit runs → snake_case: RungeKutta2MidpointSampled → runge_kutta_2_midpoint_sampled.
+// CamelCase with digit runs → snake_case: RungeKutta2MidpointSampled →
+// runge_kutta_2_midpoint_sampled.
 std::string snake_case(const std::string& camel) {
   std::string out;
   for (std::size_t i = 0; i < camel.size(); ++i) {
@@ -68,20 +69,26 @@ TEST_CASE("catalogue ids are stable: stored fuzz corpora keep their stepper", "[
   // The ids 0–15 are the selector values of the fuzz harness's corpora and regression inputs
   // written before the catalogue (fuzz/corpus/fuzz_propagator, fuzz/regressions); they must keep
   // naming the same steppers.
-  const char* const before_catalogue[16] = {
-      "exponential_map_hold_end",     "exponential_map_midpoint_mean",
-      "magnus_4",                     "munthe_kaas_4_sampled",
-      "munthe_kaas_4_rate_function",  "coning_2_sample",
-      "coning_4_sample",              "coning_1_sample_plus_previous",
-      "runge_kutta_4_sampled",        "runge_kutta_2_midpoint_interpolated",
-      "runge_kutta_3_kutta_sampled",  "runge_kutta_4_rate_function",
-      "bogacki_shampine_32_rate_function", "dormand_prince_54_rate_function",
-      "coning_1_sample",              "runge_kutta_2_midpoint_sampled"};
+  const char* const before_catalogue[16] = {"exponential_map_hold_end",
+                                            "exponential_map_midpoint_mean",
+                                            "magnus_4",
+                                            "munthe_kaas_4_sampled",
+                                            "munthe_kaas_4_rate_function",
+                                            "coning_2_sample",
+                                            "coning_4_sample",
+                                            "coning_1_sample_plus_previous",
+                                            "runge_kutta_4_sampled",
+                                            "runge_kutta_2_midpoint_interpolated",
+                                            "runge_kutta_3_kutta_sampled",
+                                            "runge_kutta_4_rate_function",
+                                            "bogacki_shampine_32_rate_function",
+                                            "dormand_prince_54_rate_function",
+                                            "coning_1_sample",
+                                            "runge_kutta_2_midpoint_sampled"};
   for (std::uint16_t id = 0; id < 16; ++id) {
     std::string name;
-    REQUIRE(StepperCatalogue::visit_id(id, [&](auto entry) {
-      name = decltype(entry)::stepper::name;
-    }));
+    REQUIRE(
+        StepperCatalogue::visit_id(id, [&](auto entry) { name = decltype(entry)::stepper::name; }));
     CHECK(name == before_catalogue[id]);
   }
   CHECK_FALSE(StepperCatalogue::visit_id(999, [](auto) {}));

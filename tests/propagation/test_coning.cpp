@@ -305,15 +305,14 @@ TEST_CASE("attitude error under pure coning falls as h^(2N) at a small cone angl
   const auto lam = step_ladder(0.8L, 5);
   CHECK(std::fabs(coning_order<Coning1Sample, double>(a, lam, horizon, "1 sample") - 2) < 0.2L);
   CHECK(std::fabs(coning_order<Coning1SamplePlusPrevious, double>(a, lam, horizon,
-                                                                    "1 sample + previous") -
+                                                                  "1 sample + previous") -
                   4) < 0.2L);
   CHECK(std::fabs(coning_order<Coning2Sample, double>(a, lam, horizon, "2 samples") - 4) < 0.2L);
-  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples") - 6) <
-        0.2L);
+  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples") - 6) < 0.2L);
   // The older set's next term (−13/560 λ⁷ against 3/80 λ⁵, ours) is a relative 0.6·λ²: its
   // truncation-dominated range starts lower, λ ∈ [0.1, 0.4].
   CHECK(std::fabs(coning_order<Coning3SampleMiller, double>(a, step_ladder(0.4L, 5), horizon,
-                                                               "3 samples older") -
+                                                            "3 samples older") -
                   4) < 0.2L);
   CHECK(std::fabs(coning_order<Coning4Sample, double>(a, lam, horizon, "4 samples") - 8) < 0.2L);
   // The declared constants say the same.
@@ -332,8 +331,8 @@ TEST_CASE("at a cone angle of 0.02 rad the second-order form's remainder caps N 
   // all) within 10 %: the remainder of the form, not the coefficients, is what is left.
   const L a = 0.02L, horizon = 20;
   const auto lam = step_ladder(0.2L, 5);
-  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples a=0.02") -
-                  4) < 0.2L);
+  CHECK(std::fabs(coning_order<Coning3Sample, double>(a, lam, horizon, "3 samples a=0.02") - 4) <
+        0.2L);
   CHECK(std::fabs(coning_order<Coning4Sample, double>(a, lam, horizon, "4 samples a=0.02") - 4) <
         0.2L);
   const ClassicalConingMotion<L> motion{a, L(1)};
@@ -492,8 +491,8 @@ TEST_CASE("coning steppers declare the stepper contract", "[coning]") {
   STATIC_REQUIRE(Coning1SamplePlusPrevious::window == 2);
   STATIC_REQUIRE(Coning1SamplePlusPrevious::new_samples == 1);
   STATIC_REQUIRE(periods_per_step(Coning4Sample::layout, Coning4Sample::window) == 4);
-  STATIC_REQUIRE(periods_per_step(Coning1SamplePlusPrevious::layout,
-                                  Coning1SamplePlusPrevious::window) == 1);
+  STATIC_REQUIRE(
+      periods_per_step(Coning1SamplePlusPrevious::layout, Coning1SamplePlusPrevious::window) == 1);
   // General-motion orders (header comment): 2, 3, then 4 for N ≥ 2.
   STATIC_REQUIRE(Coning1Sample::order == 2);
   STATIC_REQUIRE(Coning1SamplePlusPrevious::order == 3);

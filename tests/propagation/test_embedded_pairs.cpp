@@ -10,21 +10,21 @@
 #include <type_traits>
 #include <vector>
 
+#include "fixed_step_drivers.hpp"
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/truth/classical_coning.hpp"
-#include "fixed_step_drivers.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
 using test::fitted_order;
 using test::global_error;
 using test::GlobalError;
-using test::widen;
 using test::narrow;
+using test::widen;
 
 namespace {
 
@@ -39,9 +39,13 @@ L distance(const Quaternion<L>& a, const Quaternion<L>& b) {
 // The lower-order member of a pair as a stepper of its own: same stages, embedded weights.
 template <class Pair>
 struct LowerMember {
-  static constexpr ButcherTableau<Pair::value.stages> value{
-      Pair::value.a, Pair::value.b_embedded, Pair::value.c, {}, Pair::value.embedded_order, 0,
-      Pair::value.embedded_order};
+  static constexpr ButcherTableau<Pair::value.stages> value{Pair::value.a,
+                                                            Pair::value.b_embedded,
+                                                            Pair::value.c,
+                                                            {},
+                                                            Pair::value.embedded_order,
+                                                            0,
+                                                            Pair::value.embedded_order};
 };
 using BogackiShampine2 =
     ExplicitRungeKutta<LowerMember<BogackiShampine32Tableau>, SampleLayout::rate_function, 0>;

@@ -10,6 +10,7 @@
 #include <type_traits>
 #include <vector>
 
+#include "fixed_step_drivers.hpp"
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/exponential_map.hpp"
 #include "halfspin/core/scalar_traits.hpp"
@@ -19,15 +20,14 @@
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/two_gimbal.hpp"
-#include "fixed_step_drivers.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
 using test::fitted_order;
 using test::global_error;
 using test::GlobalError;
-using test::widen;
 using test::narrow;
+using test::widen;
 
 namespace {
 

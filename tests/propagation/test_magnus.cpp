@@ -42,7 +42,8 @@ TEST_CASE("Magnus 4: local error falls as h^5; a flipped commutator only as h^3"
   }
   const double p_good = test::log_log_slope(hs, good), p_flipped = test::log_log_slope(hs, flipped);
   test::report_worst("magnus_4 local order (expect 5)", test::ld(p_good));
-  test::report_worst("magnus_4 with flipped commutator local order (expect 3)", test::ld(p_flipped));
+  test::report_worst("magnus_4 with flipped commutator local order (expect 3)",
+                     test::ld(p_flipped));
   CHECK(std::fabs(p_good - 5.0) <= 0.2);
   CHECK(std::fabs(p_flipped - 3.0) <= 0.2);
 }
@@ -53,7 +54,8 @@ TEMPLATE_TEST_CASE("Magnus 4 step is q + q ⊗ (exp(φ/2) − 1) with the docume
   test::RandomRotations rng(311);
   for (int n = 0; n < 1000; ++n) {
     const Quaternion<T> q = rng.quaternion<T>();
-    const std::array<Vector3<T>, 3> w{rng.unit_vector<T>(), rng.unit_vector<T>(), rng.unit_vector<T>()};
+    const std::array<Vector3<T>, 3> w{rng.unit_vector<T>(), rng.unit_vector<T>(),
+                                      rng.unit_vector<T>()};
     const T dt = T(0.02);
     const Vector3<T> phi = Magnus4::rotation_vector(w, dt);
     REQUIRE(Magnus4::step(q, w, dt) == apply_increment(q, quaternion_exp_minus_one(phi)));

@@ -4,11 +4,11 @@
 // magnitude: the generic case). The observed order is the least-squares slope of log(error)
 // against log(step) over the finest 4 steps of a sweep (ratio √2) whose error stays above the
 // roundoff floor of the run, 3·ε·√(steps) (a random walk of ε-sized
-// rounding errors, with margin; measured floors in float are 1–2·ε·√(steps)); each must be within ±0.2 of the order the stepper
-// claims with its input. (The 2N coning orders of the N-sample coning algorithms under pure
-// coning at small cone angles are measured in test_coning.) The global error is the largest angle
-// between the propagated attitude and the truth at step ends over the horizon. With
-// HALFSPIN_REPORT_WORST set, the table of observed orders is printed.
+// rounding errors, with margin; measured floors in float are 1–2·ε·√(steps)); each must be within
+// ±0.2 of the order the stepper claims with its input. (The 2N coning orders of the N-sample coning
+// algorithms under pure coning at small cone angles are measured in test_coning.) The global error
+// is the largest angle between the propagated attitude and the truth at step ends over the horizon.
+// With HALFSPIN_REPORT_WORST set, the table of observed orders is printed.
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -28,10 +28,10 @@
 #include "test_support.hpp"
 
 using namespace halfspin;
-using test::widen;
-using test::narrow;
 using test::max_error;
+using test::narrow;
 using test::RunError;
+using test::widen;
 
 namespace {
 
@@ -90,8 +90,8 @@ double slope_over(const Sweep& s, const std::vector<std::size_t>& idx) {
 // The two motions (invented parameters). Coning: 0.2 rad half-angle at 2 Hz; body: a flattened
 // axisymmetric body tumbling at about 1.7 rad/s.
 const ClassicalConingMotion<LD> coning{0.2L, two_pi * 2};
-const AxisymmetricBodyMotion<LD> body{normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}),
-                                      1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
+const AxisymmetricBodyMotion<LD> body{
+    normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
 const TwoGimbalMotion<LD> gimbal{};
 
 // The order expected on a motion. Coning and the axisymmetric body keep |ω| constant; on them the
@@ -115,8 +115,10 @@ int expected_order(bool constant_rate_magnitude) {
 // be too; everywhere, the float error stays within 10 floors of the double error at the same step,
 // i.e. float runs the same method and adds only its rounding.
 template <class Stepper, class T>
-void check_orders_on(const char* motion_name, int want, const Sweep& s, const Sweep& reference_double) {
-  const std::string who = std::string(Stepper::name) + " " + test::type_name<T>() + " on " + motion_name;
+void check_orders_on(const char* motion_name, int want, const Sweep& s,
+                     const Sweep& reference_double) {
+  const std::string who =
+      std::string(Stepper::name) + " " + test::type_name<T>() + " on " + motion_name;
   const std::vector<std::size_t> idx = fit_points(s);
   const double p = slope_over(s, idx);
   test::report_worst("order (claims " + std::to_string(want) + ") " + who, test::ld(p));

@@ -115,7 +115,7 @@ TEST_CASE("elapsed seconds keep float resolution over long runs (compensated sum
   // (common practice, no source: spacing of float at 1000 is 6.1e-5); the compensated sum stays
   // within one float ulp of the exact sum of the float intervals.
   Propagator<float, ExponentialMapHoldEnd, NoRenormalization> p(Quaternion<float>::identity(),
-                                                        limits<float>);
+                                                                limits<float>);
   const float dt = 1e-3f;
   float naive = 0.0f;
   for (int n = 0; n < 1000000; ++n) {
@@ -155,8 +155,8 @@ TEMPLATE_TEST_CASE("rate-function steppers are driven by advance()", "[propagati
   REQUIRE(p.counters().steps == 1);
 }
 
-TEMPLATE_TEST_CASE("reset re-anchors the attitude and restarts the history", "[propagation]",
-                   float, double) {
+TEMPLATE_TEST_CASE("reset re-anchors the attitude and restarts the history", "[propagation]", float,
+                   double) {
   using T = TestType;
   Propagator<T, Magnus4> p(Quaternion<T>::identity(), limits<T>);
   const Vector3<T> w{T(0.3), 0, 0};
@@ -183,7 +183,8 @@ TEMPLATE_TEST_CASE("an embedded pair's estimate reaches the propagator through a
     const auto rate_at = [t0](T tau) {
       return Vector3<T>{std::cos(T(3) * (t0 + tau)), std::sin(T(3) * (t0 + tau)), T(0.5)};
     };
-    const StepOutcome<T> direct = DormandPrince54RateFunction::step_with_estimate(p.attitude(), rate_at, dt);
+    const StepOutcome<T> direct =
+        DormandPrince54RateFunction::step_with_estimate(p.attitude(), rate_at, dt);
     REQUIRE(p.advance(rate_at, dt) == Status::ok);
     REQUIRE(p.last_error_estimate() == direct.error_estimate);
     REQUIRE(p.last_error_estimate() > T(0));

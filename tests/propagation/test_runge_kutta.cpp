@@ -10,6 +10,7 @@
 #include <type_traits>
 #include <vector>
 
+#include "fixed_step_drivers.hpp"
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/exponential_map.hpp"
 #include "halfspin/core/scalar_traits.hpp"
@@ -17,15 +18,14 @@
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/truth/classical_coning.hpp"
-#include "fixed_step_drivers.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
 using test::fitted_order;
 using test::global_error;
 using test::GlobalError;
-using test::widen;
 using test::narrow;
+using test::widen;
 
 namespace {
 
@@ -238,8 +238,10 @@ TEST_CASE("a step from a rate function reading the samples equals the step from 
       return tau == 0.0 ? w[0] : (tau == dt ? w[2] : w[1]);
     };
     CHECK(RungeKutta4Sampled::step(q, w, dt) == RungeKutta4RateFunction::step(q, by_sample, dt));
-    CHECK(RungeKutta3KuttaSampled::step(q, w, dt) == RungeKutta3KuttaRateFunction::step(q, by_sample, dt));
-    CHECK(RungeKutta2MidpointSampled::step(q, w, dt) == RungeKutta2MidpointRateFunction::step(q, by_sample, dt));
+    CHECK(RungeKutta3KuttaSampled::step(q, w, dt) ==
+          RungeKutta3KuttaRateFunction::step(q, by_sample, dt));
+    CHECK(RungeKutta2MidpointSampled::step(q, w, dt) ==
+          RungeKutta2MidpointRateFunction::step(q, by_sample, dt));
     // Interpolated RK4 forms the mid-step rate ω₀ + ½(ω₁ − ω₀) and then proceeds as with samples.
     const Vector3<double> mid = w[0] + 0.5 * (w[2] - w[0]);
     const std::array<Vector3<double>, 2> ends{w[0], w[2]};

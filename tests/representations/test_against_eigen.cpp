@@ -42,7 +42,8 @@ TEMPLATE_TEST_CASE("quaternion product matches Eigen", "[reference][eigen]", flo
   long double worst = 0;
   for (int n = 0; n < test::property_samples; ++n) {
     const auto a = rng.quaternion<T>(), b = rng.quaternion<T>();
-    worst = std::fmax(worst, test::quaternion_error_eps(a * b, from_eigen<T>(to_eigen(a) * to_eigen(b))));
+    worst = std::fmax(worst,
+                      test::quaternion_error_eps(a * b, from_eigen<T>(to_eigen(a) * to_eigen(b))));
   }
   REQUIRE(worst <= 2);
 }
@@ -87,7 +88,8 @@ TEMPLATE_TEST_CASE("matrix → quaternion matches Eigen", "[reference][eigen]", 
   // Half turns, where the trace is −1 and the extraction must branch on the diagonal.
   for (int n = 0; n < 1000; ++n) {
     const auto axis = rng.unit_vector<T>();
-    check(Eigen::AngleAxis<T>(pi<T>, Eigen::Matrix<T, 3, 1>(axis.x, axis.y, axis.z)).toRotationMatrix());
+    check(Eigen::AngleAxis<T>(pi<T>, Eigen::Matrix<T, 3, 1>(axis.x, axis.y, axis.z))
+              .toRotationMatrix());
   }
   REQUIRE(worst <= 8);  // observed 3.5: we renormalize, Eigen does not
 }

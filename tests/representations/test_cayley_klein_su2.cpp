@@ -36,7 +36,8 @@ M2 widen(const Su2Matrix<T>& u) {
   M2 r;
   for (std::size_t i = 0; i < 2; ++i) {
     for (std::size_t j = 0; j < 2; ++j) {
-      r.a[i][j] = CL(static_cast<long double>(u(i, j).real()), static_cast<long double>(u(i, j).imag()));
+      r.a[i][j] =
+          CL(static_cast<long double>(u(i, j).real()), static_cast<long double>(u(i, j).imag()));
     }
   }
   return r;
@@ -125,8 +126,8 @@ static_assert(quaternion_from_cayley_klein(to_cayley_klein(kQ)) == kQ, "");
 // ---------------------------------------------------------------------------------------------
 // Euler parameters
 
-TEMPLATE_TEST_CASE("Euler parameters: exact round trip of the same four numbers", "[euler_parameters]",
-                   float, double) {
+TEMPLATE_TEST_CASE("Euler parameters: exact round trip of the same four numbers",
+                   "[euler_parameters]", float, double) {
   using T = TestType;
   RandomRotations rng(101);
   for (int n = 0; n < property_samples; ++n) {
@@ -155,16 +156,21 @@ TEMPLATE_TEST_CASE("Euler parameters: cos/sin of the half angle and the Euler-Ro
     const long double s = std::sin(h);
     const long double d = std::fmax(
         std::fabs(static_cast<long double>(e.eta) - c),
-        std::fmax(std::fabs(static_cast<long double>(e.epsilon.x) - s * static_cast<long double>(axis.x)),
-                  std::fmax(std::fabs(static_cast<long double>(e.epsilon.y) - s * static_cast<long double>(axis.y)),
-                            std::fabs(static_cast<long double>(e.epsilon.z) - s * static_cast<long double>(axis.z)))));
+        std::fmax(
+            std::fabs(static_cast<long double>(e.epsilon.x) - s * static_cast<long double>(axis.x)),
+            std::fmax(std::fabs(static_cast<long double>(e.epsilon.y) -
+                                s * static_cast<long double>(axis.y)),
+                      std::fabs(static_cast<long double>(e.epsilon.z) -
+                                s * static_cast<long double>(axis.z)))));
     worst_half_angle = std::fmax(worst_half_angle, d / eps<T>());
 
     // Euler–Rodrigues form of the body → reference matrix from (η, ε):
     // R = (η² − εᵀε) I + 2 ε εᵀ + 2 η [ε×] (Shuster 1993 gives the transpose, the
     // reference → body attitude matrix, with −2η[ε×]; from memory). Evaluated in long double.
-    const long double et = static_cast<long double>(e.eta), e1 = static_cast<long double>(e.epsilon.x),
-                      e2 = static_cast<long double>(e.epsilon.y), e3 = static_cast<long double>(e.epsilon.z);
+    const long double et = static_cast<long double>(e.eta),
+                      e1 = static_cast<long double>(e.epsilon.x),
+                      e2 = static_cast<long double>(e.epsilon.y),
+                      e3 = static_cast<long double>(e.epsilon.z);
     const long double k = et * et - (e1 * e1 + e2 * e2 + e3 * e3);
     const long double r[3][3] = {
         {k + 2 * e1 * e1, 2 * e1 * e2 - 2 * et * e3, 2 * e1 * e3 + 2 * et * e2},
@@ -183,7 +189,7 @@ TEMPLATE_TEST_CASE("Euler parameters: cos/sin of the half angle and the Euler-Ro
   report((std::string("Euler-Rodrigues matrix vs R ") + type_name<T>() + " [eps]").c_str(),
          worst_matrix);
   CHECK(worst_half_angle <= 1.5L);  // observed 0.49 ε (float and double)
-  CHECK(worst_matrix <= 8.0L);  // observed 2.8 ε float, 3.3 ε double
+  CHECK(worst_matrix <= 8.0L);      // observed 2.8 ε float, 3.3 ε double
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -199,8 +205,8 @@ TEMPLATE_TEST_CASE("SU(2): unitary, determinant 1, exact round trip, U(-q) = -U(
     const Quaternion<T> q = rng.quaternion<T>();
     const Su2Matrix<T> u = to_su2_matrix(q);
     const M2 w = widen(u);
-    worst_unitary = std::fmax(worst_unitary,
-                              max_abs_diff(mul(w, adjoint(w)), scaled_identity(1)) / eps<T>());
+    worst_unitary =
+        std::fmax(worst_unitary, max_abs_diff(mul(w, adjoint(w)), scaled_identity(1)) / eps<T>());
     const CL det = w.a[0][0] * w.a[1][1] - w.a[0][1] * w.a[1][0];
     worst_det = std::fmax(worst_det, std::abs(det - CL(1, 0)) / eps<T>());
     // Reading back averages two equal copies of each component: exact.
@@ -258,14 +264,22 @@ TEMPLATE_TEST_CASE("SU(2): U (v·σ) U^H = (R v)·σ with R = to_rotation_matrix
     const Quaternion<T> q = rng.quaternion<T>();
     const Vector3<T> v = rng.unit_vector<T>();
     const M2 u = widen(to_su2_matrix(q));
-    const M2 h = pauli_combination(static_cast<long double>(v.x), static_cast<long double>(v.y), static_cast<long double>(v.z));
+    const M2 h = pauli_combination(static_cast<long double>(v.x), static_cast<long double>(v.y),
+                                   static_cast<long double>(v.z));
     const M2 lhs = mul(mul(u, h), adjoint(u));
     const Matrix3<T> r = to_rotation_matrix(q);
     const Vector3<T> rv = r * v;
-    worst = std::fmax(worst, max_abs_diff(lhs, pauli_combination(static_cast<long double>(rv.x), static_cast<long double>(rv.y), static_cast<long double>(rv.z))) / eps<T>());
+    worst = std::fmax(worst, max_abs_diff(lhs, pauli_combination(static_cast<long double>(rv.x),
+                                                                 static_cast<long double>(rv.y),
+                                                                 static_cast<long double>(rv.z))) /
+                                 eps<T>());
     // The opposite sense (reference → body, Rᵀ v) must not pass.
     const Vector3<T> rtv = transpose(r) * v;
-    if (max_abs_diff(lhs, pauli_combination(static_cast<long double>(rtv.x), static_cast<long double>(rtv.y), static_cast<long double>(rtv.z))) / eps<T>() <= 8.0L) {
+    if (max_abs_diff(
+            lhs, pauli_combination(static_cast<long double>(rtv.x), static_cast<long double>(rtv.y),
+                                   static_cast<long double>(rtv.z))) /
+            eps<T>() <=
+        8.0L) {
       ++transpose_also_passes;
     }
   }
@@ -287,8 +301,10 @@ TEMPLATE_TEST_CASE("SU(2): a 2π rotation is -I and a 4π rotation is +I", "[su2
   constexpr int steps = 16;  // 2π as 16 rotations of π/8 about the same axis
   for (int n = 0; n < 1000; ++n) {
     const Vector3<T> axis = rng.unit_vector<T>();
-    const M2 u2pi = widen(to_su2_matrix(quaternion_from_axis_angle(AxisAngle<T>{axis, T(2) * pi<T>})));
-    const M2 u4pi = widen(to_su2_matrix(quaternion_from_axis_angle(AxisAngle<T>{axis, T(4) * pi<T>})));
+    const M2 u2pi =
+        widen(to_su2_matrix(quaternion_from_axis_angle(AxisAngle<T>{axis, T(2) * pi<T>})));
+    const M2 u4pi =
+        widen(to_su2_matrix(quaternion_from_axis_angle(AxisAngle<T>{axis, T(4) * pi<T>})));
     worst_direct = std::fmax(worst_direct, max_abs_diff(u2pi, scaled_identity(-1)) / eps<T>());
     worst_direct = std::fmax(worst_direct, max_abs_diff(u4pi, scaled_identity(1)) / eps<T>());
     const Matrix3<T> r2pi =

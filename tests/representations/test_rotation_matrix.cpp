@@ -18,9 +18,9 @@ TEMPLATE_TEST_CASE("R(q1 ⊗ q2) = R(q1)·R(q2) and R(−q) = R(q)", "[represent
   long double worst_hom = 0;
   for (int n = 0; n < test::property_samples; ++n) {
     const auto a = rng.quaternion<T>(), b = rng.quaternion<T>();
-    worst_hom = std::fmax(worst_hom, test::matrix_error_eps(to_rotation_matrix(a * b),
-                                                             to_rotation_matrix(a) *
-                                                                 to_rotation_matrix(b)));
+    worst_hom =
+        std::fmax(worst_hom, test::matrix_error_eps(to_rotation_matrix(a * b),
+                                                    to_rotation_matrix(a) * to_rotation_matrix(b)));
     const Matrix3<T> ra = to_rotation_matrix(a), rna = to_rotation_matrix(-a);
     REQUIRE(test::matrix_error_eps(ra, rna) == 0);  // every term is even in q: exact
   }
@@ -35,10 +35,10 @@ TEMPLATE_TEST_CASE("rotation matrices are orthonormal with determinant +1 and ro
   for (int n = 0; n < test::property_samples; ++n) {
     const auto q = rng.quaternion<T>();
     const Matrix3<T> r = to_rotation_matrix(q);
-    worst_orth = std::fmax(worst_orth,
-                           test::matrix_error_eps(r * transpose(r), Matrix3<T>::identity()));
-    worst_det = std::fmax(worst_det, std::fabs(static_cast<long double>(determinant(r)) - 1.0L) /
-                                         test::eps<T>());
+    worst_orth =
+        std::fmax(worst_orth, test::matrix_error_eps(r * transpose(r), Matrix3<T>::identity()));
+    worst_det = std::fmax(
+        worst_det, std::fabs(static_cast<long double>(determinant(r)) - 1.0L) / test::eps<T>());
     const auto v = rng.unit_vector<T>();
     worst_rot = std::fmax(worst_rot, test::vector_error_eps(r * v, rotate(q, v)));
   }
@@ -58,10 +58,9 @@ TEMPLATE_TEST_CASE("quaternion → matrix → quaternion round trip", "[represen
     REQUIRE(back.w >= T(0));
     worst = std::fmax(worst, test::quaternion_error_eps(back, q));
     const Matrix3<T> r = to_rotation_matrix(q);
-    worst_back = std::fmax(worst_back,
-                           test::matrix_error_eps(to_rotation_matrix(
-                                                      quaternion_from_rotation_matrix(r)),
-                                                  r));
+    worst_back = std::fmax(
+        worst_back,
+        test::matrix_error_eps(to_rotation_matrix(quaternion_from_rotation_matrix(r)), r));
   }
   REQUIRE(worst <= 4);
   REQUIRE(worst_back <= 8);
@@ -85,7 +84,8 @@ TEMPLATE_TEST_CASE("180° rotations about principal and skewed axes, and near 0 
     Matrix3<T> expect{};
     for (std::size_t i = 0; i < 3; ++i) {
       for (std::size_t j = 0; j < 3; ++j) {
-        expect(i, j) = T(2) * n[static_cast<int>(i)] * n[static_cast<int>(j)] - (i == j ? T(1) : T(0));
+        expect(i, j) =
+            T(2) * n[static_cast<int>(i)] * n[static_cast<int>(j)] - (i == j ? T(1) : T(0));
       }
     }
     const Quaternion<T> q = Quaternion<T>::from_parts(T(0), n);

@@ -23,7 +23,9 @@ namespace {
 
 using A4 = std::array<long double, 4>;  // coefficients of the basis units {1, i, j, k}
 
-void report_worst_storage(const std::string& what, long double worst) { test::report_worst(what, worst); }
+void report_worst_storage(const std::string& what, long double worst) {
+  test::report_worst(what, worst);
+}
 
 template <class T>
 std::string type_label() {
@@ -35,17 +37,13 @@ std::string type_label() {
 using Table = std::array<std::array<int, 4>, 4>;
 
 // Hamilton: i·j = k, j·k = i, k·i = j, i² = j² = k² = −1 (common practice, no source).
-constexpr Table hamilton_table = {{{{1, 2, 3, 4}},
-                                   {{2, -1, 4, -3}},
-                                   {{3, -4, -1, 2}},
-                                   {{4, 3, -2, -1}}}};
+constexpr Table hamilton_table = {
+    {{{1, 2, 3, 4}}, {{2, -1, 4, -3}}, {{3, -4, -1, 2}}, {{4, 3, -2, -1}}}};
 
 // Left-handed ("JPL"): i·j = −k, j·k = −i, k·i = −j, i² = j² = k² = −1, distinct units
 // anticommute (from memory; Shuster 1993 discusses the two product conventions).
-constexpr Table left_handed_table = {{{{1, 2, 3, 4}},
-                                      {{2, -1, -4, 3}},
-                                      {{3, 4, -1, -2}},
-                                      {{4, -3, 2, -1}}}};
+constexpr Table left_handed_table = {
+    {{{1, 2, 3, 4}}, {{2, -1, -4, 3}}, {{3, 4, -1, -2}}, {{4, -3, 2, -1}}}};
 
 A4 table_product(const Table& t, const A4& a, const A4& b) {
   A4 r{0, 0, 0, 0};
@@ -86,8 +84,8 @@ using M3 = std::array<std::array<long double, 3>, 3>;
 // maps reference vectors to body vectors (from memory; Shuster 1993).
 template <class T>
 M3 left_handed_attitude_matrix(const std::array<T, 4>& s) {
-  const long double q1 = static_cast<long double>(s[0]), q2 = static_cast<long double>(s[1]), q3 = static_cast<long double>(s[2]),
-                    q4 = static_cast<long double>(s[3]);
+  const long double q1 = static_cast<long double>(s[0]), q2 = static_cast<long double>(s[1]),
+                    q3 = static_cast<long double>(s[2]), q4 = static_cast<long double>(s[3]);
   const long double k = 2 * q4 * q4 - 1;
   return {{{{k + 2 * q1 * q1, 2 * q4 * q3 + 2 * q1 * q2, -2 * q4 * q2 + 2 * q1 * q3}},
            {{-2 * q4 * q3 + 2 * q2 * q1, k + 2 * q2 * q2, 2 * q4 * q1 + 2 * q2 * q3}},
@@ -129,7 +127,8 @@ M3 widen3(const Matrix3<T>& m) {
 constexpr Quaternion<double> kQ{0.5, 0.1, -0.7, 0.5};
 static_assert(to_scalar_last(kQ)[0] == 0.1 && to_scalar_last(kQ)[3] == 0.5, "");
 static_assert(quaternion_from_scalar_last(to_scalar_last(kQ)) == kQ, "");
-static_assert(to_left_handed_convention(kQ)[2] == 0.5 && to_left_handed_convention(kQ)[3] == 0.5, "");
+static_assert(to_left_handed_convention(kQ)[2] == 0.5 && to_left_handed_convention(kQ)[3] == 0.5,
+              "");
 static_assert(quaternion_from_left_handed_convention(to_left_handed_convention(kQ)) == kQ, "");
 static_assert(quaternion_from_reference_to_body(to_reference_to_body(kQ)) == kQ, "");
 static_assert(to_reference_to_body(kQ).x == -0.1 && to_reference_to_body(kQ).w == 0.5, "");
@@ -168,29 +167,32 @@ TEMPLATE_TEST_CASE("Left-handed convention: same numbers, product a ⊗_L b = ou
     const std::array<T, 4> lb = to_left_handed_convention(b);
     REQUIRE(quaternion_from_left_handed_convention(la) == a);
     REQUIRE(la == to_scalar_last(a));
-    const A4 table = table_product(left_handed_table, basis_from_scalar_last(la),
-                                   basis_from_scalar_last(lb));
+    const A4 table =
+        table_product(left_handed_table, basis_from_scalar_last(la), basis_from_scalar_last(lb));
     // The library's left-handed product against the table.
-    worst_library = std::fmax(
-        worst_library, max_diff(basis_from_scalar_last(left_handed_product(la, lb)), table) / eps<T>());
+    worst_library =
+        std::fmax(worst_library,
+                  max_diff(basis_from_scalar_last(left_handed_product(la, lb)), table) / eps<T>());
     // Our Hamilton b ⊗ a, stored left-handed, against the table.
     worst_reversed = std::fmax(
         worst_reversed,
         max_diff(basis_from_scalar_last(to_left_handed_convention(b * a)), table) / eps<T>());
     // The check can fail: the Hamilton table gives a different product.
-    const A4 hamilton = table_product(hamilton_table, basis_from_scalar_last(la),
-                                      basis_from_scalar_last(lb));
+    const A4 hamilton =
+        table_product(hamilton_table, basis_from_scalar_last(la), basis_from_scalar_last(lb));
     if (max_diff(hamilton, table) / eps<T>() <= 3.0L) {
       ++hamilton_table_passes;
     }
     // And the Hamilton table agrees with our operator* (a sanity check of the table code).
-    REQUIRE(max_diff(table_product(hamilton_table, basis_from_quaternion(a), basis_from_quaternion(b)),
-                     basis_from_quaternion(a * b)) /
-                eps<T>() <=
-            3.0L);
+    REQUIRE(
+        max_diff(table_product(hamilton_table, basis_from_quaternion(a), basis_from_quaternion(b)),
+                 basis_from_quaternion(a * b)) /
+            eps<T>() <=
+        3.0L);
   }
   report_worst_storage("left-handed product vs table" + type_label<T>() + " [eps]", worst_library);
-  report_worst_storage("our b*a stored left-handed vs table" + type_label<T>() + " [eps]", worst_reversed);
+  report_worst_storage("our b*a stored left-handed vs table" + type_label<T>() + " [eps]",
+                       worst_reversed);
   CHECK(worst_library <= 3.0L);   // observed 1.0 ε float, 0.93 ε double
   CHECK(worst_reversed <= 3.0L);  // observed 1.0 ε float, 0.93 ε double
   CHECK(hamilton_table_passes == 0);
@@ -214,18 +216,20 @@ TEMPLATE_TEST_CASE("Left-handed convention: C(q) maps reference to body and comp
     const Vector3<T> v_body = rng.unit_vector<T>();
     const Vector3<T> v_ref = rotate(a, v_body);
     for (std::size_t i = 0; i < 3; ++i) {
-      const long double back = ca[i][0] * static_cast<long double>(v_ref.x) + ca[i][1] * static_cast<long double>(v_ref.y) +
+      const long double back = ca[i][0] * static_cast<long double>(v_ref.x) +
+                               ca[i][1] * static_cast<long double>(v_ref.y) +
                                ca[i][2] * static_cast<long double>(v_ref.z);
-      worst_vector = std::fmax(worst_vector,
-                               std::fabs(back - static_cast<long double>(v_body[static_cast<int>(i)])) /
-                                   eps<T>());
+      worst_vector = std::fmax(
+          worst_vector,
+          std::fabs(back - static_cast<long double>(v_body[static_cast<int>(i)])) / eps<T>());
     }
     // C(a ⊗_L b) = C(a)·C(b) with the library's left-handed product.
     const M3 cab = left_handed_attitude_matrix(left_handed_product(la, lb));
     worst_compose = std::fmax(worst_compose,
                               max_diff3(cab, mul3(ca, left_handed_attitude_matrix(lb))) / eps<T>());
   }
-  report_worst_storage("C(q) vs transpose(to_rotation_matrix)" + type_label<T>() + " [eps]", worst_transpose);
+  report_worst_storage("C(q) vs transpose(to_rotation_matrix)" + type_label<T>() + " [eps]",
+                       worst_transpose);
   report_worst_storage("C(q) R v_body vs v_body" + type_label<T>() + " [eps]", worst_vector);
   report_worst_storage("C(a *_L b) vs C(a)C(b)" + type_label<T>() + " [eps]", worst_compose);
   // C(q) is evaluated for the given, unit-to-rounding q without normalizing, so |q|² − 1 enters.
@@ -255,19 +259,22 @@ TEMPLATE_TEST_CASE("Reference-to-body quaternions: the conjugate, rotating refer
     const A4 body = table_product(hamilton_table, table_product(hamilton_table, qb, v4), qb_conj);
     // The same body vector from our body → reference matrix, transposed.
     const Vector3<T> expected = transpose(to_rotation_matrix(q)) * v_ref;
-    worst_rotation = std::fmax(worst_rotation,
-                               std::fmax(std::fabs(body[1] - static_cast<long double>(expected.x)),
-                                         std::fmax(std::fabs(body[2] - static_cast<long double>(expected.y)),
-                                                   std::fabs(body[3] - static_cast<long double>(expected.z)))) /
-                                   eps<T>());
+    worst_rotation =
+        std::fmax(worst_rotation,
+                  std::fmax(std::fabs(body[1] - static_cast<long double>(expected.x)),
+                            std::fmax(std::fabs(body[2] - static_cast<long double>(expected.y)),
+                                      std::fabs(body[3] - static_cast<long double>(expected.z)))) /
+                      eps<T>());
     // Reference → body quaternions compose in the opposite order: (q1 ⊗ q2)_rb = q2_rb ⊗ q1_rb.
     const Quaternion<T> q2 = rng.quaternion<T>();
-    worst_compose = std::fmax(worst_compose,
-                              test::quaternion_error_eps(to_reference_to_body(q * q2),
-                                                         to_reference_to_body(q2) * q_rb));
+    worst_compose = std::fmax(
+        worst_compose,
+        test::quaternion_error_eps(to_reference_to_body(q * q2), to_reference_to_body(q2) * q_rb));
   }
-  report_worst_storage("reference->body rotation vs R^T v" + type_label<T>() + " [eps]", worst_rotation);
-  report_worst_storage("reference->body composition order" + type_label<T>() + " [eps]", worst_compose);
+  report_worst_storage("reference->body rotation vs R^T v" + type_label<T>() + " [eps]",
+                       worst_rotation);
+  report_worst_storage("reference->body composition order" + type_label<T>() + " [eps]",
+                       worst_compose);
   CHECK(worst_rotation <= 8.0L);  // observed 3.3 ε float, 3.2 ε double
   CHECK(worst_compose <= 3.0L);   // observed 1.0 ε (float and double)
 }

@@ -233,7 +233,8 @@ struct Lane {
 // time still carries the phase to ~1e-11 rad), and the phase-form truth against the time form.
 void check_generator(std::uint64_t total_samples) {
   const ConingDeltaAngles gen;
-  const LD omega = two_pi * static_cast<LD>(gyro_rate_hz) * static_cast<LD>(phase_numerator) * 0x1p-32L;
+  const LD omega =
+      two_pi * static_cast<LD>(gyro_rate_hz) * static_cast<LD>(phase_numerator) * 0x1p-32L;
   const ClassicalConingMotion<LD> motion{cone_half_angle, omega};
   const LD h = 1.0L / static_cast<LD>(gyro_rate_hz);
   LD worst_delta = 0.0L;
@@ -248,11 +249,14 @@ void check_generator(std::uint64_t total_samples) {
       worst_attitude = std::fmax(worst_attitude, angle_between(time_form, truth_after(k)));
     }
   }
-  std::printf("generator vs ClassicalConingMotion<long double>: delta-angle relative %.2Le, "
-              "truth attitude %.2Le rad\n", worst_delta, worst_attitude);
+  std::printf(
+      "generator vs ClassicalConingMotion<long double>: delta-angle relative %.2Le, "
+      "truth attitude %.2Le rad\n",
+      worst_delta, worst_attitude);
   // Double rounding of a sample (~1e-16) plus the time form's phase in long double (≤ ~1e-11
   // rad at 10⁵ s): both far below float's ε = 1.2e-7, the resolution the propagator sees.
-  check(worst_delta < 1e-9L, "delta-angle generator matches the closed-form truth to 1e-9 (relative)");
+  check(worst_delta < 1e-9L,
+        "delta-angle generator matches the closed-form truth to 1e-9 (relative)");
   check(worst_attitude < 1e-9L, "phase-form truth matches the time-form truth to 1e-9 rad");
 }
 
@@ -273,7 +277,8 @@ int main(int argc, char** argv) {
   const double dt = h * static_cast<double>(samples_per_step);
   const double frequency_hz = gyro_rate_hz * static_cast<double>(phase_numerator) * 0x1p-32;
 
-  std::printf("soak: %" PRIu64 " steps of %s, gyro %.0f Hz (dt %.4g s per step, %.1f h), classical "
+  std::printf("soak: %" PRIu64
+              " steps of %s, gyro %.0f Hz (dt %.4g s per step, %.1f h), classical "
               "coning %.3Lg rad at %.7f Hz about a fixed mean attitude\n",
               steps, Stepper::name, gyro_rate_hz, dt, static_cast<double>(steps) * dt / 3600.0,
               cone_half_angle, frequency_hz);
@@ -294,7 +299,8 @@ int main(int argc, char** argv) {
                                theta, static_cast<std::int64_t>(n)));
   };
   const auto double_bound = [&](std::uint64_t n) {
-    return truncation(n) + roundoff_floor_worst<Stepper, double>(theta_d, static_cast<std::int64_t>(n));
+    return truncation(n) +
+           roundoff_floor_worst<Stepper, double>(theta_d, static_cast<std::int64_t>(n));
   };
   const auto expected_float = [&](std::uint64_t n) {
     return truncation(n) + static_cast<double>(roundoff_floor_expected<Stepper, float>(
@@ -306,15 +312,18 @@ int main(int argc, char** argv) {
   MotionDescription<float> motion_f{};
   motion_f.coning = {static_cast<float>(cone_half_angle), static_cast<float>(frequency_hz)};
   const auto horizon_f = static_cast<float>(static_cast<double>(steps) * dt);
-  std::printf("attitude, float, %" PRIu64 " steps: truncation %.4e rad (rigorous) + roundoff worst case "
+  std::printf("attitude, float, %" PRIu64
+              " steps: truncation %.4e rad (rigorous) + roundoff worst case "
               "%.4e rad (rigorous; vacuous above pi) or expected %.4e rad (random-walk model)\n"
               "  horizon_error(float description): worst case %.4e rad, expected %.4e rad\n",
-              steps, truncation_all, float_bound(steps) - truncation_all, expected_all - truncation_all,
-              static_cast<double>(horizon_error<Stepper>(motion_f, static_cast<float>(dt), horizon_f,
-                                                         RoundoffModel::worst_case)),
-              static_cast<double>(horizon_error<Stepper>(motion_f, static_cast<float>(dt), horizon_f,
-                                                         RoundoffModel::expected)));
-  std::printf("attitude, double, %" PRIu64 " steps: truncation + worst-case roundoff %.6e rad (rigorous)\n",
+              steps, truncation_all, float_bound(steps) - truncation_all,
+              expected_all - truncation_all,
+              static_cast<double>(horizon_error<Stepper>(motion_f, static_cast<float>(dt),
+                                                         horizon_f, RoundoffModel::worst_case)),
+              static_cast<double>(horizon_error<Stepper>(motion_f, static_cast<float>(dt),
+                                                         horizon_f, RoundoffModel::expected)));
+  std::printf("attitude, double, %" PRIu64
+              " steps: truncation + worst-case roundoff %.6e rad (rigorous)\n",
               steps, double_bound(steps));
 
   // Norm bounds: per-step drift of the exponential-map step (|φ| ≤ 1.01 θ covers the coning term
@@ -335,8 +344,10 @@ int main(int argc, char** argv) {
   Lane<float, ExactRenormalization> exact("exact", initial, limits);
   Lane<float, FirstOrderRenormalization> first_order("first_order", initial, limits);
   Lane<float, PeriodicRenormalization<ExactRenormalization>> periodic("periodic", initial, limits);
-  Lane<float, ThresholdRenormalization<float, ExactRenormalization>> threshold("threshold", initial, limits);
-  Lane<double, FirstOrderRenormalization> in_double("first_order (double)", initial_d, {35.0, 1.5 * h});
+  Lane<float, ThresholdRenormalization<float, ExactRenormalization>> threshold("threshold", initial,
+                                                                               limits);
+  Lane<double, FirstOrderRenormalization> in_double("first_order (double)", initial_d,
+                                                    {35.0, 1.5 * h});
   std::printf("policies: periodic<exact> every %u steps, threshold<exact> at |‖q‖²−1| > %.0e\n",
               periodic.propagator.renormalization().period,
               static_cast<double>(threshold.propagator.renormalization().threshold));
@@ -378,15 +389,16 @@ int main(int argc, char** argv) {
     first_order.checkpoint(n, truth, bound_f, norm_bound(first_order, n), expected_f);
     periodic.checkpoint(n, truth, bound_f, norm_bound(periodic, n), expected_f);
     threshold.checkpoint(n, truth, bound_f, norm_bound(threshold, n), expected_f);
-    in_double.checkpoint(n, truth, double_bound(n),
-                         norm_error_bound(in_double.propagator.renormalization(), drift_d, b0_d, n));
+    in_double.checkpoint(
+        n, truth, double_bound(n),
+        norm_error_bound(in_double.propagator.renormalization(), drift_d, b0_d, n));
     if ((b + 1) % report_every == 0) {
-      std::printf("  %3.0f%%  %6.1f s  attitude error: float (exact) %.4Le rad, double %.4Le rad "
-                  "(truncation bound %.4e); none |‖q‖−1| %.3e\n",
-                  100.0 * static_cast<double>(b + 1) / static_cast<double>(blocks),
-                  std::chrono::duration<double>(Clock::now() - start).count(),
-                  exact.final_attitude_error, in_double.final_attitude_error, truncation(n),
-                  none.max_norm_error);
+      std::printf(
+          "  %3.0f%%  %6.1f s  attitude error: float (exact) %.4Le rad, double %.4Le rad "
+          "(truncation bound %.4e); none |‖q‖−1| %.3e\n",
+          100.0 * static_cast<double>(b + 1) / static_cast<double>(blocks),
+          std::chrono::duration<double>(Clock::now() - start).count(), exact.final_attitude_error,
+          in_double.final_attitude_error, truncation(n), none.max_norm_error);
       std::fflush(stdout);
     }
   }
@@ -398,10 +410,11 @@ int main(int argc, char** argv) {
               "max|‖q‖−1|", "(eps)", "norm bound", "(eps)", "final att", "max att", "att bound",
               "bound/max", "time");
   const auto row = [&](const auto& lane, double nb, double eps, double ab) {
-    std::printf("%-21s %10" PRIu64 " %11.4e %9.3f %11.4e %9.3g %10.4Le %10.4Le %11.4e %11.4g %5.1fs\n",
-                lane.name, lane.propagator.counters().steps, lane.max_norm_error, lane.max_norm_error / eps,
-                nb, nb / eps, lane.final_attitude_error, lane.max_attitude_error, ab,
-                ab / static_cast<double>(lane.max_attitude_error), lane.seconds);
+    std::printf(
+        "%-21s %10" PRIu64 " %11.4e %9.3f %11.4e %9.3g %10.4Le %10.4Le %11.4e %11.4g %5.1fs\n",
+        lane.name, lane.propagator.counters().steps, lane.max_norm_error, lane.max_norm_error / eps,
+        nb, nb / eps, lane.final_attitude_error, lane.max_attitude_error, ab,
+        ab / static_cast<double>(lane.max_attitude_error), lane.seconds);
   };
   const double eps_f = 2.0 * u;
   const double eps_d = 0x1p-52;
@@ -410,11 +423,11 @@ int main(int argc, char** argv) {
   row(first_order, norm_bound(first_order, steps), eps_f, float_bound(steps));
   row(periodic, norm_bound(periodic, steps), eps_f, float_bound(steps));
   row(threshold, norm_bound(threshold, steps), eps_f, float_bound(steps));
-  row(in_double,
-      norm_error_bound(in_double.propagator.renormalization(), drift_d, b0_d, steps), eps_d,
-      double_bound(steps));
-  std::printf("(norm and attitude bounds rigorous; the float attitude bound and none's norm bound "
-              "are vacuous at this length — see the informative checkpoints below)\n\n");
+  row(in_double, norm_error_bound(in_double.propagator.renormalization(), drift_d, b0_d, steps),
+      eps_d, double_bound(steps));
+  std::printf(
+      "(norm and attitude bounds rigorous; the float attitude bound and none's norm bound "
+      "are vacuous at this length — see the informative checkpoints below)\n\n");
 
   // ratio_limit: how close the attitude bound must come to the measured error — 1.01 where the
   // rigorous truncation part dominates (double), 100 where the worst-case roundoff term does.
@@ -423,15 +436,18 @@ int main(int argc, char** argv) {
     const std::string name = lane.name;
     check(lane.rejected == 0 && lane.propagator.counters().rejected() == 0,
           name + ": every sample accepted");
-    check(lane.propagator.counters().steps == steps, name + ": " + std::to_string(steps) + " steps taken");
-    check(lane.norm_violations == 0, name + ": max |‖q‖−1| within the policy's norm bound at every checkpoint");
+    check(lane.propagator.counters().steps == steps,
+          name + ": " + std::to_string(steps) + " steps taken");
+    check(lane.norm_violations == 0,
+          name + ": max |‖q‖−1| within the policy's norm bound at every checkpoint");
     if (norm_bound_informative_throughout) {
       check(lane.last_informative_norm_step == steps,
             name + ": the norm bound is informative (<= 1) through the whole run");
     } else {
       // Reported: the worst-case drift adds d every step, the measured drift is a random walk
       // (header comment), so their ratio grows as √n.
-      std::printf("  %s: norm bound informative (<= 1) through step %" PRIu64 ", bound/measured there %.3g\n",
+      std::printf("  %s: norm bound informative (<= 1) through step %" PRIu64
+                  ", bound/measured there %.3g\n",
                   lane.name, lane.last_informative_norm_step, lane.informative_norm_ratio);
       check(lane.last_informative_norm_step > 0,
             name + ": the norm bound is informative for a while (the first checkpoints)");
@@ -439,10 +455,11 @@ int main(int argc, char** argv) {
     check(lane.attitude_violations == 0,
           name + ": attitude error within truncation + worst-case roundoff at every checkpoint");
     if (attitude_bound_informative_throughout) {
-      check(lane.last_informative_attitude_step == steps && lane.informative_attitude_ratio <= ratio_limit,
+      check(lane.last_informative_attitude_step == steps &&
+                lane.informative_attitude_ratio <= ratio_limit,
             name + ": the attitude bound is informative through the whole run and bound/measured " +
-                std::to_string(lane.informative_attitude_ratio) + " <= " + std::to_string(ratio_limit) +
-                " at the end");
+                std::to_string(lane.informative_attitude_ratio) +
+                " <= " + std::to_string(ratio_limit) + " at the end");
     } else {
       // Reported, like the norm: N worst-case rounding terms against a √N random walk; how close
       // the errors are to the random-walk model is asserted below (expected_model_limit).
@@ -465,14 +482,18 @@ int main(int argc, char** argv) {
 
   // The random-walk model (header comment): every float lane within expected_model_limit of it
   // at every checkpoint.
-  std::printf("\nfloat attitude error vs truncation + expected (random-walk) roundoff (%.4e rad "
-              "at the end), largest ratio over the checkpoints:\n", expected_all);
+  std::printf(
+      "\nfloat attitude error vs truncation + expected (random-walk) roundoff (%.4e rad "
+      "at the end), largest ratio over the checkpoints:\n",
+      expected_all);
   const auto check_expected = [&](const auto& lane) {
     std::printf("  %-12s end %.4Le rad = %.2f x the model; largest ratio %.2f\n", lane.name,
                 lane.final_attitude_error,
-                static_cast<double>(lane.final_attitude_error) / expected_all, lane.max_expected_ratio);
+                static_cast<double>(lane.final_attitude_error) / expected_all,
+                lane.max_expected_ratio);
     check(lane.max_expected_ratio <= expected_model_limit,
-          std::string(lane.name) + ": attitude error within " + std::to_string(expected_model_limit) +
+          std::string(lane.name) + ": attitude error within " +
+              std::to_string(expected_model_limit) +
               " x truncation + expected roundoff at every checkpoint");
   };
   check_expected(none);
@@ -481,6 +502,7 @@ int main(int argc, char** argv) {
   check_expected(periodic);
   check_expected(threshold);
 
-  std::printf("\n%s: %d check(s) failed\n", failures == 0 ? "soak passed" : "SOAK FAILED", failures);
+  std::printf("\n%s: %d check(s) failed\n", failures == 0 ? "soak passed" : "SOAK FAILED",
+              failures);
   return failures == 0 ? 0 : 1;
 }

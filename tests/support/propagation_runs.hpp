@@ -24,11 +24,13 @@ struct RunError {
 // attitude error counts), sampling the motion every h seconds as the stepper's layout asks.
 template <class Stepper, class T, class Motion>
 RunError max_error(const Motion& m, LD h, LD horizon) {
-  Propagator<T, Stepper, ExactRenormalization> p(narrow<T>(m.attitude(0)), GyroLimits<T>{T(1e3), T(10)});
+  Propagator<T, Stepper, ExactRenormalization> p(narrow<T>(m.attitude(0)),
+                                                 GyroLimits<T>{T(1e3), T(10)});
   const long samples = std::lround(horizon / h);
   LD worst = 0;
   auto compare = [&](long k) {
-    worst = std::fmax(worst, angle_between(widen(p.attitude()), m.attitude(static_cast<LD>(k) * h)));
+    worst =
+        std::fmax(worst, angle_between(widen(p.attitude()), m.attitude(static_cast<LD>(k) * h)));
   };
   if constexpr (Stepper::layout == SampleLayout::rate_function) {
     for (long k = 0; k < samples; ++k) {

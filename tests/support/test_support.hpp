@@ -6,9 +6,9 @@
 #include <cstdint>
 #include <cstdio>
 #include <cstdlib>
-#include <string>
 #include <limits>
 #include <random>
+#include <string>
 #include <vector>
 
 #include "halfspin/core/angle_between.hpp"
@@ -61,7 +61,8 @@ class RandomRotations {
   // Uniform in [lo, hi).
   template <class T>
   T uniform(T lo, T hi) {
-    std::uniform_real_distribution<long double> u(static_cast<long double>(lo), static_cast<long double>(hi));
+    std::uniform_real_distribution<long double> u(static_cast<long double>(lo),
+                                                  static_cast<long double>(hi));
     return static_cast<T>(u(engine_));
   }
 
@@ -187,8 +188,8 @@ long double matrix_error_eps(const Matrix3<T>& a, const Matrix3<T>& b) {
   long double d = 0;
   for (std::size_t i = 0; i < 3; ++i) {
     for (std::size_t j = 0; j < 3; ++j) {
-      d = std::fmax(d, std::fabs(static_cast<long double>(a(i, j)) -
-                                 static_cast<long double>(b(i, j))));
+      d = std::fmax(
+          d, std::fabs(static_cast<long double>(a(i, j)) - static_cast<long double>(b(i, j))));
     }
   }
   return d / eps<T>();
@@ -197,10 +198,10 @@ long double matrix_error_eps(const Matrix3<T>& a, const Matrix3<T>& b) {
 // Largest absolute component difference of two vectors, in units of ε.
 template <class T>
 long double vector_error_eps(const Vector3<T>& a, const Vector3<T>& b) {
-  return std::fmax(std::fabs(static_cast<long double>(a.x) - static_cast<long double>(b.x)),
-                   std::fmax(std::fabs(static_cast<long double>(a.y) - static_cast<long double>(b.y)),
-                             std::fabs(static_cast<long double>(a.z) -
-                                       static_cast<long double>(b.z)))) /
+  return std::fmax(
+             std::fabs(static_cast<long double>(a.x) - static_cast<long double>(b.x)),
+             std::fmax(std::fabs(static_cast<long double>(a.y) - static_cast<long double>(b.y)),
+                       std::fabs(static_cast<long double>(a.z) - static_cast<long double>(b.z)))) /
          eps<T>();
 }
 

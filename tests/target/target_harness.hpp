@@ -36,4 +36,5 @@ inline int finish(const char* suite) {
 }  // namespace halfspin::target
 
 // File and line are what a macro is for; everything else is a function.
-#define HALFSPIN_CHECK(condition) ::halfspin::target::check((condition), #condition, __FILE__, __LINE__)
+#define HALFSPIN_CHECK(condition) \
+  ::halfspin::target::check((condition), #condition, __FILE__, __LINE__)

@@ -98,11 +98,11 @@ Vector3<T> narrow(const Vector3<double>& v) {
 template <class T>
 double quaternion_error_eps(const Quaternion<T>& a, const Quaternion<T>& b) {
   const Quaternion<T> bb = nearest_sign(b, a);
-  const double d = std::fmax(
-      std::fmax(std::fabs(static_cast<double>(a.w) - static_cast<double>(bb.w)),
-                std::fabs(static_cast<double>(a.x) - static_cast<double>(bb.x))),
-      std::fmax(std::fabs(static_cast<double>(a.y) - static_cast<double>(bb.y)),
-                std::fabs(static_cast<double>(a.z) - static_cast<double>(bb.z))));
+  const double d =
+      std::fmax(std::fmax(std::fabs(static_cast<double>(a.w) - static_cast<double>(bb.w)),
+                          std::fabs(static_cast<double>(a.x) - static_cast<double>(bb.x))),
+                std::fmax(std::fabs(static_cast<double>(a.y) - static_cast<double>(bb.y)),
+                          std::fabs(static_cast<double>(a.z) - static_cast<double>(bb.z))));
   return d / epsilon_of<T>();
 }
 
@@ -148,7 +148,7 @@ template <class T, class Stepper>
 double constant_rate_error(long steps) {
   const Quaternion<T> q0 = normalized(Quaternion<T>{T(0.9), T(0.1), T(-0.3), T(0.2)});
   const Vector3<T> rate{T(0.3), T(-0.2), T(0.5)};  // rad/s
-  const T dt = T(1e-3);                             // s
+  const T dt = T(1e-3);                            // s
   Propagator<T, Stepper, ExactRenormalization> p(q0, GyroLimits<T>{T(35), T(0.01)});
   constexpr bool deltas = carries_delta_angles(Stepper::layout);
   const Vector3<T> input = deltas ? rate * dt : rate;
@@ -162,11 +162,10 @@ double constant_rate_error(long steps) {
     HALFSPIN_CHECK(s == Status::ok || s == Status::waiting_for_samples);
   }
   HALFSPIN_CHECK(ok == steps);
-  const double periods =
-      static_cast<double>(steps) *
-      static_cast<double>(periods_per_step(Stepper::layout, Stepper::window));
-  const Vector3<double> phi = deltas ? widen(input) * periods
-                                     : widen(input) * (periods * static_cast<double>(dt));
+  const double periods = static_cast<double>(steps) *
+                         static_cast<double>(periods_per_step(Stepper::layout, Stepper::window));
+  const Vector3<double> phi =
+      deltas ? widen(input) * periods : widen(input) * (periods * static_cast<double>(dt));
   const Quaternion<double> truth = widen(q0) * quaternion_exp(phi);
   return angle_between(widen(p.attitude()), truth);
 }
@@ -189,10 +188,11 @@ void constant_rate_is_exact() {
   const double d_hold = constant_rate_error<double, ExponentialMapHoldEnd>(nd) / sd;
   const double d_magnus = constant_rate_error<double, Magnus4>(nd) / sd;
   const double d_coning = constant_rate_error<double, Coning2Sample>(nd) / sd;
-  std::printf("constant rate [error/(steps*eps)]: float 1e4 steps hold_end %.4f magnus_4 %.4f "
-              "coning2 %.4f (limit 0.25); double 1e3 steps hold_end %.4f magnus_4 %.4f coning2 "
-              "%.4f (limit 0.2)\n",
-              f_hold, f_magnus, f_coning, d_hold, d_magnus, d_coning);
+  std::printf(
+      "constant rate [error/(steps*eps)]: float 1e4 steps hold_end %.4f magnus_4 %.4f "
+      "coning2 %.4f (limit 0.25); double 1e3 steps hold_end %.4f magnus_4 %.4f coning2 "
+      "%.4f (limit 0.2)\n",
+      f_hold, f_magnus, f_coning, d_hold, d_magnus, d_coning);
   HALFSPIN_CHECK(f_hold <= 0.25);
   HALFSPIN_CHECK(f_magnus <= 0.25);
   HALFSPIN_CHECK(f_coning <= 0.25);
@@ -254,11 +254,12 @@ void order_on_coning(const char* name, int order, int first_f, int last_f, int f
     ed[i] = coning_error<double, Stepper>(first_d + i);
   }
   const double slope_d = log_log_slope(hs, ed, nd);
-  std::printf("order on coning, %s (expect %d): float h=2^-%d..2^-%d slope %.3f "
-              "(errors %.3e..%.3e rad, float/double differ <= %.2f%%); double h=2^-%d..2^-%d "
-              "slope %.3f (errors %.3e..%.3e rad)\n",
-              name, order, first_f, last_f, slope_f, ef[0], ef[nf - 1], 100.0 * worst_gap, first_d,
-              last_d, slope_d, ed[0], ed[nd - 1]);
+  std::printf(
+      "order on coning, %s (expect %d): float h=2^-%d..2^-%d slope %.3f "
+      "(errors %.3e..%.3e rad, float/double differ <= %.2f%%); double h=2^-%d..2^-%d "
+      "slope %.3f (errors %.3e..%.3e rad)\n",
+      name, order, first_f, last_f, slope_f, ef[0], ef[nf - 1], 100.0 * worst_gap, first_d, last_d,
+      slope_d, ed[0], ed[nd - 1]);
   HALFSPIN_CHECK(std::fabs(slope_f - order) <= 0.2);
   HALFSPIN_CHECK(std::fabs(slope_d - order) <= 0.2);
   HALFSPIN_CHECK(worst_gap <= 0.01);
@@ -286,12 +287,17 @@ void orders_on_classical_coning() {
 template <class T>
 std::uint64_t counter_for(const PropagationCounters& c, Status s) {
   switch (s) {
-    case Status::non_finite: return c.rejected_non_finite;
-    case Status::non_positive_step: return c.rejected_non_positive_step;
-    case Status::step_too_long: return c.rejected_step_too_long;
-    case Status::over_range: return c.rejected_over_range;
+    case Status::non_finite:
+      return c.rejected_non_finite;
+    case Status::non_positive_step:
+      return c.rejected_non_positive_step;
+    case Status::step_too_long:
+      return c.rejected_step_too_long;
+    case Status::over_range:
+      return c.rejected_over_range;
     case Status::ok:
-    case Status::waiting_for_samples: break;
+    case Status::waiting_for_samples:
+      break;
   }
   return 0;
 }
@@ -416,9 +422,9 @@ bool gap_restarts_history(T scale) {
 void bad_input_is_rejected() {
   // The propagator's contract (DESIGN.md, "Bad input never corrupts state").
   RejectionTally f, d;
-  check_all_classes<float, Magnus4>(f, 1.0f);               // rates, window of 3
-  check_all_classes<float, Coning2Sample>(f, 1e-3f);      // delta-angles, window of 2
-  check_all_classes<float, ExponentialMapHoldEnd>(f, 1.0f);         // rates, window of 1
+  check_all_classes<float, Magnus4>(f, 1.0f);                // rates, window of 3
+  check_all_classes<float, Coning2Sample>(f, 1e-3f);         // delta-angles, window of 2
+  check_all_classes<float, ExponentialMapHoldEnd>(f, 1.0f);  // rates, window of 1
   check_all_classes<double, Magnus4>(d, 1.0);
   check_all_classes<double, Coning2Sample>(d, 1e-3);
   const bool gaps = gap_restarts_history<float, Magnus4>(1.0f) &&
@@ -426,9 +432,10 @@ void bad_input_is_rejected() {
                     gap_restarts_history<double, Magnus4>(1.0) &&
                     gap_restarts_history<double, Coning2Sample>(1e-3);
   HALFSPIN_CHECK(gaps);
-  std::printf("bad input: float %d/%d and double %d/%d offers rejected with the right status, "
-              "attitude bit-identical, one counter moved; gap restarts the window: %s\n",
-              f.rejected_right, f.offered, d.rejected_right, d.offered, gaps ? "yes" : "NO");
+  std::printf(
+      "bad input: float %d/%d and double %d/%d offers rejected with the right status, "
+      "attitude bit-identical, one counter moved; gap restarts the window: %s\n",
+      f.rejected_right, f.offered, d.rejected_right, d.offered, gaps ? "yes" : "NO");
   HALFSPIN_CHECK(f.offered == 3 * 25 && f.rejected_right == f.offered);
   HALFSPIN_CHECK(d.offered == 2 * 25 && d.rejected_right == d.offered);
 }
@@ -437,12 +444,12 @@ void bad_input_is_rejected() {
 // 4. Representation round trips over seeded random rotations
 
 struct RoundTrips {
-  double euler321 = 0;    // q → 3-2-1 angles → q, ε
-  double euler313 = 0;    // q → 3-1-3 angles → q, ε
-  double matrix_q = 0;    // q → R → q, ε
-  double matrix_r = 0;    // R(q) → q → R, ε
-  double rotvec = 0;      // q → φ → q, ε
-  bool in_range = true;   // angles in their documented ranges, |φ| ≤ π, w ≥ 0 from the matrix
+  double euler321 = 0;   // q → 3-2-1 angles → q, ε
+  double euler313 = 0;   // q → 3-1-3 angles → q, ε
+  double matrix_q = 0;   // q → R → q, ε
+  double matrix_r = 0;   // R(q) → q → R, ε
+  double rotvec = 0;     // q → φ → q, ε
+  bool in_range = true;  // angles in their documented ranges, |φ| ≤ π, w ≥ 0 from the matrix
 };
 
 template <class T>
@@ -461,8 +468,10 @@ RoundTrips round_trips(int count, std::uint32_t seed) {
     const Quaternion<T> q = rng.rotation<T>();
     const EulerDecomposition<T> e1 = to_euler_angles(q, EulerSequence::zyx);
     const EulerDecomposition<T> e2 = to_euler_angles(q, EulerSequence::zxz);
-    r.euler321 = std::fmax(r.euler321, quaternion_error_eps(q, quaternion_from_euler_angles(e1.angles)));
-    r.euler313 = std::fmax(r.euler313, quaternion_error_eps(q, quaternion_from_euler_angles(e2.angles)));
+    r.euler321 =
+        std::fmax(r.euler321, quaternion_error_eps(q, quaternion_from_euler_angles(e1.angles)));
+    r.euler313 =
+        std::fmax(r.euler313, quaternion_error_eps(q, quaternion_from_euler_angles(e2.angles)));
     r.in_range = r.in_range && euler_in_range(e1.angles, false) && euler_in_range(e2.angles, true);
     const Matrix3<T> m = to_rotation_matrix(q);
     const Quaternion<T> back = quaternion_from_rotation_matrix(m);
@@ -470,7 +479,8 @@ RoundTrips round_trips(int count, std::uint32_t seed) {
     r.matrix_q = std::fmax(r.matrix_q, quaternion_error_eps(back, q));
     r.matrix_r = std::fmax(r.matrix_r, matrix_error_eps(to_rotation_matrix(back), m));
     const Vector3<T> phi = to_rotation_vector(q);
-    r.in_range = r.in_range && norm(phi) <= pi<T> * (T(1) + T(4) * std::numeric_limits<T>::epsilon());
+    r.in_range =
+        r.in_range && norm(phi) <= pi<T> * (T(1) + T(4) * std::numeric_limits<T>::epsilon());
     r.rotvec = std::fmax(r.rotvec, quaternion_error_eps(quaternion_from_rotation_vector(phi), q));
   }
   return r;
@@ -482,10 +492,11 @@ void check_round_trips(int count, std::uint32_t seed) {
   // 2006 sequences), matrix q → R → q ≤ 4 ε and R → q → R ≤ 8 ε (Shepperd 1978), rotation vector
   // q → φ → q ≤ 4 ε; ranges as documented in the headers.
   const RoundTrips r = round_trips<T>(count, seed);
-  std::printf("round trips, %d %s rotations [eps]: euler 3-2-1 %.2f, 3-1-3 %.2f, matrix q %.2f, "
-              "matrix R %.2f, rotation vector %.2f (limits 8, 8, 4, 8, 4); ranges %s\n",
-              count, type_name<T>(), r.euler321, r.euler313, r.matrix_q, r.matrix_r, r.rotvec,
-              r.in_range ? "ok" : "VIOLATED");
+  std::printf(
+      "round trips, %d %s rotations [eps]: euler 3-2-1 %.2f, 3-1-3 %.2f, matrix q %.2f, "
+      "matrix R %.2f, rotation vector %.2f (limits 8, 8, 4, 8, 4); ranges %s\n",
+      count, type_name<T>(), r.euler321, r.euler313, r.matrix_q, r.matrix_r, r.rotvec,
+      r.in_range ? "ok" : "VIOLATED");
   HALFSPIN_CHECK(r.euler321 <= 8);
   HALFSPIN_CHECK(r.euler313 <= 8);
   HALFSPIN_CHECK(r.matrix_q <= 4);

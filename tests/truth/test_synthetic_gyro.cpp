@@ -9,9 +9,9 @@
 #include <limits>
 #include <vector>
 
-#include <catch2/catch.hpp>
 #include <gsl/gsl_cdf.h>
 #include <gsl/gsl_integration.h>
+#include <catch2/catch.hpp>
 
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
@@ -41,8 +41,10 @@ struct RateOnlyBody {
   Vector3<T> rate(T t) const noexcept { return motion.rate(t); }
 };
 
-static_assert(halfspin::has_closed_form_delta_angle<ClassicalConingMotion<double>, double>::value, "");
-static_assert(halfspin::has_closed_form_delta_angle<AxisymmetricBodyMotion<float>, float>::value, "");
+static_assert(halfspin::has_closed_form_delta_angle<ClassicalConingMotion<double>, double>::value,
+              "");
+static_assert(halfspin::has_closed_form_delta_angle<AxisymmetricBodyMotion<float>, float>::value,
+              "");
 static_assert(!halfspin::has_closed_form_delta_angle<RateOnlyBody<double>, double>::value, "");
 
 template <class T>
@@ -89,13 +91,14 @@ TEST_CASE("Gauss-Legendre nodes and weights match GSL's fixed-order table", "[tr
     CHECK(std::fabs(ld(gsl_sum) - got) <= 8 * halfspin::test::eps<double>());
   }
   // Degree 16 is the first the rule misses: its error is the known Gauss–Legendre remainder
-  // (n!)⁴ 2^(2n+1) / ((2n+1) ((2n)!)³) f^(2n) with n = 8, f^(16) = 16! (common practice, no source).
+  // (n!)⁴ 2^(2n+1) / ((2n+1) ((2n)!)³) f^(2n) with n = 8, f^(16) = 16! (common practice, no
+  // source).
   const LD got16 = halfspin::gauss_legendre_delta_angle(Monomial{16}, LD(-1), LD(1)).x;
   LD factorial8 = 1, factorial16 = 1;
   for (int i = 2; i <= 8; ++i) factorial8 *= i;
   for (int i = 2; i <= 16; ++i) factorial16 *= i;
-  const LD remainder = std::pow(factorial8, 4) * std::pow(LD(2), 17) /
-                       (17 * std::pow(factorial16, 3)) * factorial16;
+  const LD remainder =
+      std::pow(factorial8, 4) * std::pow(LD(2), 17) / (17 * std::pow(factorial16, 3)) * factorial16;
   CHECK(std::fabs((LD(2) / 17 - got16) - remainder) <= 1e-15L);
 }
 
@@ -106,7 +109,8 @@ TEST_CASE("quadrature delta-angles of rate-only motions match the closed form an
   // GSL accepts).
   const RateOnlyBody<double> rate_only{body<double>()};
   const double dt = 1.0 / 256;
-  SyntheticGyro<double, RateOnlyBody<double>> gyro(rate_only, GyroOutputForm::delta_angle, dt, {}, 1);
+  SyntheticGyro<double, RateOnlyBody<double>> gyro(rate_only, GyroOutputForm::delta_angle, dt, {},
+                                                   1);
   gsl_integration_workspace* ws = gsl_integration_workspace_alloc(100);
   LD worst_closed = 0, worst_gsl = 0;
   for (int k = 1; k <= 2048; ++k) {
@@ -127,8 +131,8 @@ TEST_CASE("quadrature delta-angles of rate-only motions match the closed form an
         };
         f.params = &p;
         double result = 0, err = 0;
-        REQUIRE(gsl_integration_qag(&f, (k - 1) * dt, k * dt, 0.0, 2e-14, 100, GSL_INTEG_GAUSS61, ws,
-                                    &result, &err) == 0);
+        REQUIRE(gsl_integration_qag(&f, (k - 1) * dt, k * dt, 0.0, 2e-14, 100, GSL_INTEG_GAUSS61,
+                                    ws, &result, &err) == 0);
         worst_gsl = std::max(worst_gsl, std::fabs(ld(d[axis]) - ld(result)) / scale);
       }
     }
@@ -145,10 +149,10 @@ TEST_CASE("without errors the gyro reproduces the truth exactly", "[truth]") {
   // Sample k at t = k·dt from the integer k: equal to the motion's own values (compared by value:
   // adding the zero bias and zero noise turns a −0 component into +0, which is the same number).
   const double dt = 1.0 / 400;
-  SyntheticGyro<double, ClassicalConingMotion<double>> rates(coning<double>(), GyroOutputForm::rate, dt,
-                                                             {}, 7);
-  SyntheticGyro<double, ClassicalConingMotion<double>> deltas(coning<double>(),
-                                                              GyroOutputForm::delta_angle, dt, {}, 7);
+  SyntheticGyro<double, ClassicalConingMotion<double>> rates(coning<double>(), GyroOutputForm::rate,
+                                                             dt, {}, 7);
+  SyntheticGyro<double, ClassicalConingMotion<double>> deltas(
+      coning<double>(), GyroOutputForm::delta_angle, dt, {}, 7);
   CHECK(rates.next_index() == 0);
   CHECK(deltas.next_index() == 1);
   int mismatches = 0;
@@ -163,8 +167,10 @@ TEST_CASE("without errors the gyro reproduces the truth exactly", "[truth]") {
   CHECK(rates.sample_time(rates.next_index()) == 100000.0 * dt);
 
   // The same in float, on a motion with an axis-aligned oscillation.
-  const SingleAxisOscillation<float> osc{{0.0f, 0.0f, 1.0f}, 0.25f, 3.0f, 0.5f, Quaternion<float>::identity()};
-  SyntheticGyro<float, SingleAxisOscillation<float>> frates(osc, GyroOutputForm::rate, 0.01f, {}, 7);
+  const SingleAxisOscillation<float> osc{
+      {0.0f, 0.0f, 1.0f}, 0.25f, 3.0f, 0.5f, Quaternion<float>::identity()};
+  SyntheticGyro<float, SingleAxisOscillation<float>> frates(osc, GyroOutputForm::rate, 0.01f, {},
+                                                            7);
   for (std::int64_t k = 0; k < 1000; ++k) {
     const Vector3<float> a = frates.next();
     const Vector3<float> b = osc.rate(static_cast<float>(k) * 0.01f);
@@ -176,22 +182,24 @@ TEST_CASE("a constant bias shows as a constant offset", "[truth]") {
   const double dt = 1.0 / 200;
   GyroErrorModel<double> model;
   model.bias = {1e-3, -2.5e-3, 4e-4};  // rad/s
-  SyntheticGyro<double, AxisymmetricBodyMotion<double>> rates(body<double>(), GyroOutputForm::rate, dt,
-                                                              model, 3);
-  SyntheticGyro<double, AxisymmetricBodyMotion<double>> deltas(body<double>(),
-                                                               GyroOutputForm::delta_angle, dt, model, 3);
+  SyntheticGyro<double, AxisymmetricBodyMotion<double>> rates(body<double>(), GyroOutputForm::rate,
+                                                              dt, model, 3);
+  SyntheticGyro<double, AxisymmetricBodyMotion<double>> deltas(
+      body<double>(), GyroOutputForm::delta_angle, dt, model, 3);
   LD worst_rate = 0, worst_delta = 0;  // in ulps of the larger of truth and bias term
   for (std::int64_t k = 0; k < 10000; ++k) {
     const Vector3<double> r = rates.next();
     const Vector3<double> d = deltas.next();
     for (int i = 0; i < 3; ++i) {
       const LD offset = ld(r[i]) - ld(rates.truth_rate(k)[i]);
-      const LD rate_size = std::max(std::fabs(ld(rates.truth_rate(k)[i])), std::fabs(ld(model.bias[i])));
+      const LD rate_size =
+          std::max(std::fabs(ld(rates.truth_rate(k)[i])), std::fabs(ld(model.bias[i])));
       worst_rate = std::max(worst_rate, std::fabs(offset - ld(model.bias[i])) /
                                             halfspin::test::ulp_at<double>(rate_size));
       const Vector3<double> truth = deltas.truth_delta_angle_sample(k + 1);
       const LD doff = ld(d[i]) - ld(truth[i]);
-      const LD delta_size = std::max(std::fabs(ld(truth[i])), std::fabs(ld(model.bias[i]) * ld(dt)));
+      const LD delta_size =
+          std::max(std::fabs(ld(truth[i])), std::fabs(ld(model.bias[i]) * ld(dt)));
       worst_delta = std::max(worst_delta, std::fabs(doff - ld(model.bias[i]) * ld(dt)) /
                                               halfspin::test::ulp_at<double>(delta_size));
     }
@@ -260,9 +268,9 @@ void check_noise(const NoiseStatistics& st, LD sigma, std::size_t n, const char*
   // practice, no source).
   const LD root_n = std::sqrt(LD(n));
   for (int a = 0; a < 3; ++a) {
-    INFO(what << " axis " << a << ": mean " << double(st.mean[a]) << " sigma " << double(st.sigma[a])
-              << " lag1 " << double(st.lag1[a]) << " cross " << double(st.cross[a]) << " ks "
-              << double(st.ks[a]));
+    INFO(what << " axis " << a << ": mean " << double(st.mean[a]) << " sigma "
+              << double(st.sigma[a]) << " lag1 " << double(st.lag1[a]) << " cross "
+              << double(st.cross[a]) << " ks " << double(st.ks[a]));
     CHECK(std::fabs(st.mean[a]) < 4.5L * sigma / root_n);
     CHECK(std::fabs(st.sigma[a] / sigma - 1) < 4.5L / std::sqrt(2 * LD(n)));
     CHECK(std::fabs(st.lag1[a]) < 4.5L / root_n);
@@ -284,7 +292,8 @@ TEST_CASE("white noise: zero mean, the specified sigma, no correlation, Gaussian
   model.noise_density = density;
   const ConstantRateMotion<double> still{Quaternion<double>::identity(), {0, 0, 0}};
   SECTION("rate samples") {
-    SyntheticGyro<double, ConstantRateMotion<double>> gyro(still, GyroOutputForm::rate, dt, model, 2024);
+    SyntheticGyro<double, ConstantRateMotion<double>> gyro(still, GyroOutputForm::rate, dt, model,
+                                                           2024);
     const LD sigma = ld(density) * std::sqrt(1 / ld(dt));
     CHECK(std::fabs(ld(gyro.noise_sigma()) - sigma) <= 2 * halfspin::test::eps<double>() * sigma);
     std::vector<Vector3<double>> s(n);
@@ -292,8 +301,8 @@ TEST_CASE("white noise: zero mean, the specified sigma, no correlation, Gaussian
     check_noise(statistics(s, sigma), sigma, n, "rate");
   }
   SECTION("delta-angle samples") {
-    SyntheticGyro<double, ConstantRateMotion<double>> gyro(still, GyroOutputForm::delta_angle, dt, model,
-                                                           99);
+    SyntheticGyro<double, ConstantRateMotion<double>> gyro(still, GyroOutputForm::delta_angle, dt,
+                                                           model, 99);
     const LD sigma = ld(density) * std::sqrt(ld(dt));
     CHECK(std::fabs(ld(gyro.noise_sigma()) - sigma) <= 2 * halfspin::test::eps<double>() * sigma);
     std::vector<Vector3<double>> s(n);
@@ -304,7 +313,8 @@ TEST_CASE("white noise: zero mean, the specified sigma, no correlation, Gaussian
     GyroErrorModel<float> fmodel;
     fmodel.noise_density = 0.005f;
     const ConstantRateMotion<float> fstill{Quaternion<float>::identity(), {0, 0, 0}};
-    SyntheticGyro<float, ConstantRateMotion<float>> gyro(fstill, GyroOutputForm::rate, 0.0025f, fmodel, 5);
+    SyntheticGyro<float, ConstantRateMotion<float>> gyro(fstill, GyroOutputForm::rate, 0.0025f,
+                                                         fmodel, 5);
     const LD sigma = ld(0.005f) / std::sqrt(ld(0.0025f));
     std::vector<Vector3<double>> s(n);
     for (auto& v : s) {
@@ -331,12 +341,12 @@ TEST_CASE("the same seed gives the same sequence; another seed another", "[truth
   model.bias = {1e-3, 0, -1e-3};
   model.angle_quantum = std::ldexp(1.0, -20);
   const double dt = 1.0 / 1000;
-  SyntheticGyro<double, ClassicalConingMotion<double>> a(coning<double>(), GyroOutputForm::delta_angle, dt,
-                                                         model, 42);
-  SyntheticGyro<double, ClassicalConingMotion<double>> b(coning<double>(), GyroOutputForm::delta_angle, dt,
-                                                         model, 42);
-  SyntheticGyro<double, ClassicalConingMotion<double>> c(coning<double>(), GyroOutputForm::delta_angle, dt,
-                                                         model, 43);
+  SyntheticGyro<double, ClassicalConingMotion<double>> a(
+      coning<double>(), GyroOutputForm::delta_angle, dt, model, 42);
+  SyntheticGyro<double, ClassicalConingMotion<double>> b(
+      coning<double>(), GyroOutputForm::delta_angle, dt, model, 42);
+  SyntheticGyro<double, ClassicalConingMotion<double>> c(
+      coning<double>(), GyroOutputForm::delta_angle, dt, model, 43);
   int same_ab = 0, same_ac = 0;
   const int n = 10000;
   for (int k = 0; k < n; ++k) {
@@ -353,21 +363,23 @@ TEST_CASE("the same seed gives the same sequence; another seed another", "[truth
   CHECK(first != second);
 }
 
-TEST_CASE("quantization: within LSB/2 per sample; with residual carry the accumulated angle "
-          "stays within one LSB of truth over 10^6 samples",
-          "[truth]") {
+TEST_CASE(
+    "quantization: within LSB/2 per sample; with residual carry the accumulated angle "
+    "stays within one LSB of truth over 10^6 samples",
+    "[truth]") {
   const double dt = 1.0 / 1000;
   const std::int64_t n = 1000000;
   GyroErrorModel<double> exact_model;
   exact_model.noise_density = 2e-3;
   exact_model.bias = {3e-4, -1e-4, 2e-4};
-  const SingleAxisOscillation<double> osc{halfspin::normalized(Vector3<double>{1, -2, 0.5}), 0.5, 1.25, 0.25,
-                                          Quaternion<double>::identity()};
+  const SingleAxisOscillation<double> osc{halfspin::normalized(Vector3<double>{1, -2, 0.5}), 0.5,
+                                          1.25, 0.25, Quaternion<double>::identity()};
 
   SECTION("rates, LSB 2^-12 rad/s: every sample within LSB/2 of its unquantized value") {
     GyroErrorModel<double> q = exact_model;
     q.rate_quantum = std::ldexp(1.0, -12);
-    SyntheticGyro<double, SingleAxisOscillation<double>> exact(osc, GyroOutputForm::rate, dt, exact_model, 6);
+    SyntheticGyro<double, SingleAxisOscillation<double>> exact(osc, GyroOutputForm::rate, dt,
+                                                               exact_model, 6);
     SyntheticGyro<double, SingleAxisOscillation<double>> quant(osc, GyroOutputForm::rate, dt, q, 6);
     LD worst = 0;
     bool on_grid = true;
@@ -392,10 +404,10 @@ TEST_CASE("quantization: within LSB/2 per sample; with residual carry the accumu
     plain.carry_angle_residual = false;
     SyntheticGyro<double, SingleAxisOscillation<double>> exact(osc, GyroOutputForm::delta_angle, dt,
                                                                exact_model, 77);
-    SyntheticGyro<double, SingleAxisOscillation<double>> with_carry(osc, GyroOutputForm::delta_angle, dt,
-                                                                    carry, 77);
-    SyntheticGyro<double, SingleAxisOscillation<double>> without(osc, GyroOutputForm::delta_angle, dt, plain,
-                                                                 77);
+    SyntheticGyro<double, SingleAxisOscillation<double>> with_carry(
+        osc, GyroOutputForm::delta_angle, dt, carry, 77);
+    SyntheticGyro<double, SingleAxisOscillation<double>> without(osc, GyroOutputForm::delta_angle,
+                                                                 dt, plain, 77);
     const LD lsb = ld(carry.angle_quantum);
     LD sum_exact[3] = {0, 0, 0}, sum_carry[3] = {0, 0, 0}, sum_plain[3] = {0, 0, 0};
     LD worst_sample_carry = 0, worst_sample_plain = 0, worst_accumulated_carry = 0, final_plain = 0;
@@ -410,16 +422,20 @@ TEST_CASE("quantization: within LSB/2 per sample; with residual carry the accumu
         worst_sample_plain = std::max(worst_sample_plain, std::fabs(ld(p[i]) - ld(e[i])) / lsb);
         worst_accumulated_carry =
             std::max(worst_accumulated_carry, std::fabs(sum_carry[i] - sum_exact[i]) / lsb);
-        worst_residual = std::max(worst_residual, std::fabs(ld(with_carry.carried_residual()[i])) / lsb);
+        worst_residual =
+            std::max(worst_residual, std::fabs(ld(with_carry.carried_residual()[i])) / lsb);
       }
     }
     for (int i = 0; i < 3; ++i) {
       final_plain = std::max(final_plain, std::fabs(sum_plain[i] - sum_exact[i]) / lsb);
     }
-    halfspin::test::report_worst("delta quantization, no carry, per sample (LSB)", worst_sample_plain);
+    halfspin::test::report_worst("delta quantization, no carry, per sample (LSB)",
+                                 worst_sample_plain);
     halfspin::test::report_worst("delta quantization, carry, per sample (LSB)", worst_sample_carry);
-    halfspin::test::report_worst("delta quantization, carry, accumulated 1e6 (LSB)", worst_accumulated_carry);
-    halfspin::test::report_worst("delta quantization, no carry, accumulated 1e6 (LSB)", final_plain);
+    halfspin::test::report_worst("delta quantization, carry, accumulated 1e6 (LSB)",
+                                 worst_accumulated_carry);
+    halfspin::test::report_worst("delta quantization, no carry, accumulated 1e6 (LSB)",
+                                 final_plain);
     CHECK(worst_sample_plain <= 0.5L);
     CHECK(worst_sample_carry <= 1.0L);
     CHECK(worst_residual <= 0.5L);
@@ -437,22 +453,27 @@ TEST_CASE("float gyro: delta-angles by closed form and by quadrature, quantized 
           "[truth]") {
   // The float instantiation of every path (closed form, quadrature, noise, carry) builds without
   // promotion to double, and keeps the carry bound: over 10^5 samples the accumulated output stays
-  // within LSB/2 (+ the float roundoff of carrying, ~√n·ε·LSB) of the accumulated unquantized input.
+  // within LSB/2 (+ the float roundoff of carrying, ~√n·ε·LSB) of the accumulated unquantized
+  // input.
   const float dt = 1.0f / 512;
   GyroErrorModel<float> exact_model;
   exact_model.noise_density = 1e-3f;
   GyroErrorModel<float> q = exact_model;
   q.angle_quantum = std::ldexp(1.0f, -16);
   const RateOnlyBody<float> rate_only{body<float>()};
-  SyntheticGyro<float, RateOnlyBody<float>> exact(rate_only, GyroOutputForm::delta_angle, dt, exact_model, 3);
+  SyntheticGyro<float, RateOnlyBody<float>> exact(rate_only, GyroOutputForm::delta_angle, dt,
+                                                  exact_model, 3);
   SyntheticGyro<float, RateOnlyBody<float>> quant(rate_only, GyroOutputForm::delta_angle, dt, q, 3);
-  LD sum_exact[3] = {0, 0, 0}, sum_quant[3] = {0, 0, 0}, worst_accumulated = 0, worst_quadrature = 0;
+  LD sum_exact[3] = {0, 0, 0}, sum_quant[3] = {0, 0, 0}, worst_accumulated = 0,
+     worst_quadrature = 0;
   for (std::int64_t k = 1; k <= 100000; ++k) {
     const Vector3<float> e = exact.next(), v = quant.next();
-    const Vector3<float> closed = body<float>().delta_angle(exact.sample_time(k - 1), exact.sample_time(k));
+    const Vector3<float> closed =
+        body<float>().delta_angle(exact.sample_time(k - 1), exact.sample_time(k));
     const Vector3<float> by_quadrature = exact.truth_delta_angle_sample(k);
-    worst_quadrature = std::max(worst_quadrature, halfspin::test::vector_error_eps(closed, by_quadrature) /
-                                                      ld(halfspin::norm(closed)));
+    worst_quadrature =
+        std::max(worst_quadrature, halfspin::test::vector_error_eps(closed, by_quadrature) /
+                                       ld(halfspin::norm(closed)));
     for (int i = 0; i < 3; ++i) {
       sum_exact[i] += ld(e[i]);
       sum_quant[i] += ld(v[i]);
@@ -460,8 +481,10 @@ TEST_CASE("float gyro: delta-angles by closed form and by quadrature, quantized 
           std::max(worst_accumulated, std::fabs(sum_quant[i] - sum_exact[i]) / ld(q.angle_quantum));
     }
   }
-  halfspin::test::report_worst("float quadrature vs closed form (eps of |delta|)", worst_quadrature);
-  halfspin::test::report_worst("float delta quantization, carry, accumulated 1e5 (LSB)", worst_accumulated);
+  halfspin::test::report_worst("float quadrature vs closed form (eps of |delta|)",
+                               worst_quadrature);
+  halfspin::test::report_worst("float delta quantization, carry, accumulated 1e5 (LSB)",
+                               worst_accumulated);
   CHECK(worst_quadrature < 4.0L);
   CHECK(worst_accumulated <= 0.5L + 1e-3L);
 }

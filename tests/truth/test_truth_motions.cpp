@@ -14,9 +14,9 @@
 #include <string>
 #include <type_traits>
 
+#include <gsl/gsl_integration.h>
 #include <boost/numeric/odeint.hpp>
 #include <catch2/catch.hpp>
-#include <gsl/gsl_integration.h>
 
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/quaternion.hpp"
@@ -47,7 +47,8 @@ using LD = long double;
 // rotation that angle_between compares.
 template <class T>
 Quaternion<T> widen_or_narrow(const Quaternion<float>& q) {
-  const Quaternion<T> w{static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y), static_cast<T>(q.z)};
+  const Quaternion<T> w{static_cast<T>(q.w), static_cast<T>(q.x), static_cast<T>(q.y),
+                        static_cast<T>(q.z)};
   return std::is_same<T, float>::value ? w : halfspin::normalized(w);
 }
 template <class T>
@@ -72,7 +73,8 @@ ClassicalConingMotion<T> coning_motion() {
 template <class T>
 SingleAxisOscillation<T> oscillation_motion() {
   const halfspin::Vector3<float> n = halfspin::normalized(Vector3<float>{1.0f, 2.0f, -0.5f});
-  return {widen_or_narrow<T>(n), T(0.4375), T(1.75), T(0.3125), widen_or_narrow<T>(start_attitude(12))};
+  return {widen_or_narrow<T>(n), T(0.4375), T(1.75), T(0.3125),
+          widen_or_narrow<T>(start_attitude(12))};
 }
 // Flattened body (I3 > It: λ > 0) and elongated body (I3 < It: λ < 0).
 template <class T>
@@ -115,7 +117,12 @@ struct EulerEquations {
   void operator()(const State7& x, State7& dxdt, LD /*t*/) const {
     const LD w1 = x[4], w2 = x[5], w3 = x[6];
     const Quaternion<LD> d = LD(0.5) * (as_quaternion(x.data()) * Quaternion<LD>{0, w1, w2, w3});
-    dxdt = {d.w, d.x, d.y, d.z, (i2 - i3) * w2 * w3 / i1, (i3 - i1) * w3 * w1 / i2,
+    dxdt = {d.w,
+            d.x,
+            d.y,
+            d.z,
+            (i2 - i3) * w2 * w3 / i1,
+            (i3 - i1) * w3 * w1 / i2,
             (i1 - i2) * w1 * w2 / i3};
   }
 };
@@ -138,11 +145,12 @@ template <class Motion>
 LD worst_attitude_vs_odeint(const Motion& motion, int checkpoints, LD spacing) {
   const Quaternion<LD> q0 = motion.attitude(0);
   LD worst = halfspin::angle_between(q0, motion.attitude(0));
-  integrate_with_checkpoints(Kinematics<Motion>{&motion}, State4{q0.w, q0.x, q0.y, q0.z}, checkpoints,
-                             spacing, [&](LD t, const State4& x) {
-                               worst = std::max(worst, halfspin::angle_between(motion.attitude(t),
-                                                                               as_quaternion(x.data())));
-                             });
+  integrate_with_checkpoints(
+      Kinematics<Motion>{&motion}, State4{q0.w, q0.x, q0.y, q0.z}, checkpoints, spacing,
+      [&](LD t, const State4& x) {
+        worst =
+            std::max(worst, halfspin::angle_between(motion.attitude(t), as_quaternion(x.data())));
+      });
   return worst;
 }
 
@@ -286,12 +294,12 @@ TEST_CASE("axisymmetric body: rate and attitude match Euler's equations integrat
         State7{q0.w, q0.x, q0.y, q0.z, w0.x, w0.y, w0.z}, 80, LD(0.5), [&](LD t, const State7& x) {
           const Vector3<LD> w{x[4], x[5], x[6]};
           worst_rate = std::max(worst_rate, halfspin::norm(w - m.rate(t)));
-          worst_attitude =
-              std::max(worst_attitude, halfspin::angle_between(m.attitude(t), as_quaternion(x.data())));
+          worst_attitude = std::max(
+              worst_attitude, halfspin::angle_between(m.attitude(t), as_quaternion(x.data())));
           // The opposite sign of λ must disagree: this check can tell the two apart.
           const LD a = -lambda * t + m.transverse_phase;
-          const Vector3<LD> flipped{m.transverse_rate * std::cos(a), m.transverse_rate * std::sin(a),
-                                    m.axial_rate};
+          const Vector3<LD> flipped{m.transverse_rate * std::cos(a),
+                                    m.transverse_rate * std::sin(a), m.axial_rate};
           worst_flipped = std::max(worst_flipped, halfspin::norm(w - flipped));
           // Torque-free: the inertial angular momentum R(q) I ω is constant (common practice, no
           // source; Markley and Crassidis 2014, torque-free motion, from memory).
@@ -360,7 +368,8 @@ TEST_CASE("closed-form delta-angles match GSL Gauss-Kronrod quadrature of the ra
   CHECK(e < tol);
 }
 
-TEST_CASE("axisymmetric delta-angle stays accurate when the rate does not turn (λ = 0)", "[truth]") {
+TEST_CASE("axisymmetric delta-angle stays accurate when the rate does not turn (λ = 0)",
+          "[truth]") {
   // A sphere (I3 = It) and a body without axial spin have λ = 0: the transverse rate is constant,
   // so the delta-angle is ω·(t1 − t0) exactly; the sinc form must not divide by λ.
   AxisymmetricBodyMotion<double> sphere{Quaternion<double>::identity(), 2, 2, 0.75, 0.5, 1.5};
@@ -415,17 +424,24 @@ void check_precision(const char* type, LD attitude_tol, LD rate_tol, LD delta_to
     std::array<LD, 3> worst;
   };
   const Row rows[] = {
-      {"constant rate", precision_in_eps<T>(constant_rate_motion<T>(), constant_rate_motion<LD>(), 32)},
+      {"constant rate",
+       precision_in_eps<T>(constant_rate_motion<T>(), constant_rate_motion<LD>(), 32)},
       {"coning", precision_in_eps<T>(coning_motion<T>(), coning_motion<LD>(), 8)},
       {"oscillation", precision_in_eps<T>(oscillation_motion<T>(), oscillation_motion<LD>(), 8)},
-      {"axisymmetric flattened", precision_in_eps<T>(flattened_body<T>(), flattened_body<LD>(), 32)},
-      {"axisymmetric elongated", precision_in_eps<T>(elongated_body<T>(), elongated_body<LD>(), 32)}};
+      {"axisymmetric flattened",
+       precision_in_eps<T>(flattened_body<T>(), flattened_body<LD>(), 32)},
+      {"axisymmetric elongated",
+       precision_in_eps<T>(elongated_body<T>(), elongated_body<LD>(), 32)}};
   for (const Row& r : rows) {
-    INFO(type << " " << r.name << ": attitude " << double(r.worst[0]) << ", rate " << double(r.worst[1])
-              << ", delta-angle " << double(r.worst[2]) << " (units of eps x phase)");
-    halfspin::test::report_worst(std::string(type) + " " + r.name + " attitude (eps*phase)", r.worst[0]);
-    halfspin::test::report_worst(std::string(type) + " " + r.name + " rate (eps*phase)", r.worst[1]);
-    halfspin::test::report_worst(std::string(type) + " " + r.name + " delta (eps*phase)", r.worst[2]);
+    INFO(type << " " << r.name << ": attitude " << double(r.worst[0]) << ", rate "
+              << double(r.worst[1]) << ", delta-angle " << double(r.worst[2])
+              << " (units of eps x phase)");
+    halfspin::test::report_worst(std::string(type) + " " + r.name + " attitude (eps*phase)",
+                                 r.worst[0]);
+    halfspin::test::report_worst(std::string(type) + " " + r.name + " rate (eps*phase)",
+                                 r.worst[1]);
+    halfspin::test::report_worst(std::string(type) + " " + r.name + " delta (eps*phase)",
+                                 r.worst[2]);
     CHECK(r.worst[0] < attitude_tol);
     CHECK(r.worst[1] < rate_tol);
     CHECK(r.worst[2] < delta_tol);

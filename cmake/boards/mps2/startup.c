@@ -20,13 +20,23 @@ static void halfspin_fault_handler(void) { exit(70); }
  * example's simulated IMU interrupt); without one, a SysTick exception is a fault. */
 void SysTick_Handler(void) __attribute__((weak, alias("halfspin_fault_handler")));
 
-__attribute__((section(".vectors"), used)) const void* const halfspin_vectors[16] = {
-    &__stack_top, (const void*)halfspin_reset_handler,
-    (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler,
-    (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler,
-    (const void*)halfspin_fault_handler, 0, 0, 0, 0,
-    (const void*)halfspin_fault_handler, (const void*)halfspin_fault_handler, 0,
-    (const void*)halfspin_fault_handler, (const void*)SysTick_Handler};
+__attribute__((section(".vectors"), used))
+const void* const halfspin_vectors[16] = {&__stack_top,
+                                          (const void*)halfspin_reset_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          0,
+                                          0,
+                                          0,
+                                          0,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)halfspin_fault_handler,
+                                          0,
+                                          (const void*)halfspin_fault_handler,
+                                          (const void*)SysTick_Handler};
 
 void halfspin_reset_handler(void) {
 #if defined(__ARM_FP)

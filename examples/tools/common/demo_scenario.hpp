@@ -58,12 +58,11 @@ template <class T>
 Motion<T> motion() noexcept {
   const Vector3<double> c = turn_body_rate();
   const T half_bank = static_cast<T>(0.5 * bank_deg * degree);
-  const ConstantRateMotion<T> turn{Quaternion<T>{std::cos(half_bank), std::sin(half_bank), T(0), T(0)},
-                                   Vector3<T>{static_cast<T>(c.x), static_cast<T>(c.y),
-                                              static_cast<T>(c.z)}};
-  const ClassicalConingMotion<T> vibration{
-      static_cast<T>(vibration_half_angle_deg * degree),
-      static_cast<T>(2.0 * pi * vibration_frequency_hz)};
+  const ConstantRateMotion<T> turn{
+      Quaternion<T>{std::cos(half_bank), std::sin(half_bank), T(0), T(0)},
+      Vector3<T>{static_cast<T>(c.x), static_cast<T>(c.y), static_cast<T>(c.z)}};
+  const ClassicalConingMotion<T> vibration{static_cast<T>(vibration_half_angle_deg * degree),
+                                           static_cast<T>(2.0 * pi * vibration_frequency_hz)};
   return compose<T>(turn, vibration);
 }
 

@@ -58,11 +58,15 @@ enum class LineProblem {
 // Stable short names of the classes ("malformed", "non_numeric", ...), used in summaries.
 inline const char* line_problem_name(LineProblem p) noexcept {
   switch (p) {
-    case LineProblem::none: return "none";
+    case LineProblem::none:
+      return "none";
     case LineProblem::too_long:
-    case LineProblem::wrong_field_count: return "malformed";
-    case LineProblem::non_numeric: return "non_numeric";
-    case LineProblem::non_finite: return "non_finite";
+    case LineProblem::wrong_field_count:
+      return "malformed";
+    case LineProblem::non_numeric:
+      return "non_numeric";
+    case LineProblem::non_finite:
+      return "non_finite";
   }
   return "unknown";
 }
@@ -121,9 +125,9 @@ class NumericCsvReader {
         } else {
           values[field] = v;
           if (!(v - v == 0.0) && !first_problem) {
-            first_problem.emplace(LineProblem::non_finite,
-                                  "field " + std::to_string(field + 1) + " (" + names[field] +
-                                      ") is not finite: '" + owned + "'");
+            first_problem.emplace(LineProblem::non_finite, "field " + std::to_string(field + 1) +
+                                                               " (" + names[field] +
+                                                               ") is not finite: '" + owned + "'");
           }
         }
       }
@@ -134,9 +138,9 @@ class NumericCsvReader {
       start = comma + 1;
     }
     if (field != N) {
-      return fail(LineProblem::wrong_field_count,
-                  "malformed line: expected " + std::to_string(N) +
-                      " comma-separated fields, found " + std::to_string(field));
+      return fail(LineProblem::wrong_field_count, "malformed line: expected " + std::to_string(N) +
+                                                      " comma-separated fields, found " +
+                                                      std::to_string(field));
     }
     if (first_problem) {
       return fail(first_problem->first, first_problem->second);

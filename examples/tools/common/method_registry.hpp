@@ -42,13 +42,15 @@ struct AsTuple<TypeList<S...>> {
 };
 }  // namespace detail
 
-// Every stepper, in the library catalogue's order (include/halfspin/propagation/stepper_catalogue.hpp).
+// Every stepper, in the library catalogue's order
+// (include/halfspin/propagation/stepper_catalogue.hpp).
 using AllMethods = detail::AsTuple<StepperCatalogue::steppers>::type;
 
 inline constexpr std::size_t method_count = StepperCatalogue::size;
 
 // One line per stepper (what it does, what it takes); same order as AllMethods.
-inline constexpr std::array<const char*, method_count> method_descriptions = StepperCatalogue::descriptions;
+inline constexpr std::array<const char*, method_count> method_descriptions =
+    StepperCatalogue::descriptions;
 
 // The run-time names of the previous release, accepted for one release as documented aliases of
 // the catalogue's names (README "Desktop tools"). Each maps to exactly one catalogued name.

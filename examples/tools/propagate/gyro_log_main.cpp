@@ -1,5 +1,6 @@
-// halfspin-gyro-log: writes the exact gyro log (rates or delta-angles) of one of the library's truth
-// motions, and optionally its truth attitude, for halfspin-propagate. `--help` documents it all.
+// halfspin-gyro-log: writes the exact gyro log (rates or delta-angles) of one of the library's
+// truth motions, and optionally its truth attitude, for halfspin-propagate. `--help` documents it
+// all.
 #include <array>
 #include <cerrno>
 #include <cmath>
@@ -31,7 +32,8 @@ constexpr int exit_ok = 0;
 constexpr int exit_usage = 1;
 constexpr int exit_failure = 2;
 
-constexpr const char* help_text = R"(halfspin-gyro-log: write the exact gyro log of a truth motion (invented parameters).
+constexpr const char* help_text =
+    R"(halfspin-gyro-log: write the exact gyro log of a truth motion (invented parameters).
 
 Usage: halfspin-gyro-log --motion M --output FILE [options]
 
@@ -96,7 +98,8 @@ struct Settings {
 
 template <class Motion>
 bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FILE* truth) {
-  std::fprintf(log, "%s\n", gyro_log_header(s.delta ? GyroLogForm::delta_angle : GyroLogForm::rate));
+  std::fprintf(log, "%s\n",
+               gyro_log_header(s.delta ? GyroLogForm::delta_angle : GyroLogForm::rate));
   if (truth != nullptr) std::fprintf(truth, "%s\n", attitude_csv_header);
   // Last index: the largest k with k/rate <= duration (a relative 1e-12 slack absorbs the
   // rounding of duration*rate, e.g. 0.3 s at 10 Hz).
@@ -150,9 +153,12 @@ int main(int argc, char** argv) {
       motion = value();
     } else if (a == "--form") {
       const std::string f = value();
-      if (f == "rate") s.delta = false;
-      else if (f == "delta") s.delta = true;
-      else usage_error("--form must be rate or delta");
+      if (f == "rate")
+        s.delta = false;
+      else if (f == "delta")
+        s.delta = true;
+      else
+        usage_error("--form must be rate or delta");
     } else if (a == "--rate") {
       if (!parse_positive(value(), s.rate_hz)) usage_error("--rate needs a number > 0 (Hz)");
     } else if (a == "--duration") {

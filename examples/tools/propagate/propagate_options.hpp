@@ -43,8 +43,10 @@ Options:
   --output FILE         required. CSV written through a temporary file in the same directory and
                         renamed at the end: on any error nothing is written (an existing FILE is
                         left as it was).
-  --method NAME         stepper (default exponential_map_midpoint_mean for rate logs, coning_2_sample for
-                        delta-angle logs); --list-methods prints them.
+  --method NAME         stepper (default exponential_map_midpoint_mean for rate logs,
+                        coning_2_sample for delta-angle logs); --list-methods prints them. The
+                        previous release's names (expmap_*, magnus4, rk4_*, rkmk4_*, …) are
+                        accepted as aliases for one release.
   --list-methods        print every method, its input ([rate], [delta] or [rate-function: not
                         usable on a log]) and one line of description, then exit.
   --renormalize P       none | exact | first_order (default) | periodic | threshold

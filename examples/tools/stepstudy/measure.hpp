@@ -34,10 +34,10 @@
 namespace halfspin::tools::stepstudy {
 
 struct MeasuredRun {
-  bool ok = false;            // every sample accepted and every step taken
-  double max_error_rad = 0;   // max over step ends of angle_between(propagated, truth)
-  std::int64_t steps = 0;     // steps taken
-  double ns_per_step = 0;     // steady_clock time of the propagator calls / steps
+  bool ok = false;           // every sample accepted and every step taken
+  double max_error_rad = 0;  // max over step ends of angle_between(propagated, truth)
+  std::int64_t steps = 0;    // steps taken
+  double ns_per_step = 0;    // steady_clock time of the propagator calls / steps
 };
 
 namespace detail {
@@ -80,7 +80,8 @@ MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t ste
   auto compare_chunk = [&]() {
     for (std::size_t i = 0; i < ends.size(); ++i) {
       const LD t = static_cast<LD>(done + 1) * dt;
-      worst = std::fmax(worst, angle_between(detail::widen_quaternion(ends[i]), motion.attitude(t)));
+      worst =
+          std::fmax(worst, angle_between(detail::widen_quaternion(ends[i]), motion.attitude(t)));
       ++done;
     }
     ends.clear();
@@ -94,7 +95,9 @@ MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t ste
       for (std::int64_t k = begin; k < end; ++k) {
         const double t0 = static_cast<double>(k) * dt_s;
         const Status s = propagator.advance(
-            [&](T tau) { return detail::narrow_vector<T>(motion.rate_double(t0 + static_cast<double>(tau))); },
+            [&](T tau) {
+              return detail::narrow_vector<T>(motion.rate_double(t0 + static_cast<double>(tau)));
+            },
             dt_t);
         if (s != Status::ok) {
           return run;
@@ -139,10 +142,11 @@ MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t ste
   run.steps = static_cast<std::int64_t>(propagator.counters().steps);
   run.ok = run.steps == steps && done == steps;
   run.max_error_rad = static_cast<double>(worst);
-  run.ns_per_step =
-      steps > 0 ? static_cast<double>(std::chrono::duration_cast<std::chrono::nanoseconds>(spent).count()) /
-                      static_cast<double>(steps)
-                : 0.0;
+  run.ns_per_step = steps > 0
+                        ? static_cast<double>(
+                              std::chrono::duration_cast<std::chrono::nanoseconds>(spent).count()) /
+                              static_cast<double>(steps)
+                        : 0.0;
   return run;
 }
 

@@ -11,119 +11,159 @@
 
 namespace halfspin::tools::stepstudy {
 
-inline constexpr std::array<const char*, 8> default_methods{
-    "exponential_map_midpoint_mean", "magnus_4",        "coning_1_sample",  "coning_2_sample",
-    "coning_3_sample",      "runge_kutta_4_sampled",    "munthe_kaas_4_sampled",    "dormand_prince_54_rate_function"};
+inline constexpr std::array<const char*, 8> default_methods{"exponential_map_midpoint_mean",
+                                                            "magnus_4",
+                                                            "coning_1_sample",
+                                                            "coning_2_sample",
+                                                            "coning_3_sample",
+                                                            "runge_kutta_4_sampled",
+                                                            "munthe_kaas_4_sampled",
+                                                            "dormand_prince_54_rate_function"};
 
 // Grouped by meaning, not packed: read once from the command line.
 struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool help = false;
-  std::string motion;                 // truth motion name ("" in bounds-only mode)
-  bool bounds_only = false;           // --envelope and/or --coning
-  std::vector<double> envelope;       // D0..D5 (rad/s^(k+1))
+  std::string motion;            // truth motion name ("" in bounds-only mode)
+  bool bounds_only = false;      // --envelope and/or --coning
+  std::vector<double> envelope;  // D0..D5 (rad/s^(k+1))
   bool has_coning = false;
-  double coning_deg = 0;              // half-angle (deg)
-  double coning_hz = 0;               // frequency (Hz)
-  std::vector<std::string> methods;   // empty: the default set
+  double coning_deg = 0;             // half-angle (deg)
+  double coning_hz = 0;              // frequency (Hz)
+  std::vector<std::string> methods;  // empty: the default set
   bool all_methods = false;
-  double step_min = 0;                // s (0: the motion's default)
-  double step_max = 0;                // s
+  double step_min = 0;  // s (0: the motion's default)
+  double step_max = 0;  // s
   int steps = 8;
   bool steps_given = false;
   bool want_float = true;
   bool want_double = true;
-  double duration = 5.0;              // s
+  double duration = 5.0;  // s
   std::string csv;
   std::string svg;
   bool has_budget = false;
-  double budget = 0;                  // rad
-  double horizon = 0;                 // s
-  double gyro_rate = 1000.0;          // Hz
+  double budget = 0;          // rad
+  double horizon = 0;         // s
+  double gyro_rate = 1000.0;  // Hz
   std::string recommendation_file;
 };
 
 inline const char* help_text() {
-  return
-      "halfspin-stepstudy: sweep halfspin steppers x steps x scalar types against the exact truth\n"
-      "of a motion and the library's a-priori error bounds; recommend a method and step for a budget.\n"
-      "\n"
-      "Usage:\n"
-      "  halfspin-stepstudy [--motion NAME | --envelope D0,D1,D2[,...] | --coning DEG,HZ] [options]\n"
-      "\n"
-      "What to study (one of):\n"
-      "  --motion NAME        a truth motion with exact attitude (default: demo):\n"
-      "                         constant     constant body rate (0.9, -0.6, 1.3) rad/s;\n"
-      "                                      bounds: RateEnvelope::constant_rate(|w|)\n"
-      "                         oscillation  0.15 rad single-axis oscillation at 2.5 Hz about (2,3,6)/7;\n"
-      "                                      bounds: VibrationSpec (2.356 rad/s sinusoid at 2.5 Hz)\n"
-      "                         coning       classical coning, half-angle 0.04 rad at 5 Hz;\n"
-      "                                      bounds: ConingSpec (pure coning: exact per-step error)\n"
-      "                         body         torque-free axisymmetric body (It = 1, I3 = 1.8 kg m^2,\n"
-      "                                      w_perp = 0.6 rad/s, w3 = 2.5 rad/s); bounds: envelope\n"
-      "                                      D0 = |w| = 2.571 rad/s, Dk = w_perp*|lambda|^k, lambda = 2 rad/s\n"
-      "                         demo         the invented survey drone: banked turn carrying 0.02 deg\n"
-      "                                      coning at 85 Hz; bounds: its rate envelope\n"
-      "  --envelope D0,D1,D2[,D3,D4,D5]\n"
-      "                       a motion known only by bounds on |w| (rad/s), |w'| (rad/s^2), |w''|\n"
-      "                       (rad/s^3), ...; derivatives not given are unknown (+inf)\n"
-      "  --coning DEG,HZ      classical coning of half-angle DEG (deg) at HZ (Hz); alone it is pure\n"
-      "                       coning, with --envelope it is added to the envelope\n"
-      "                       With --envelope/--coning only bounds are shown (no measured error,\n"
-      "                       no timing) and rate-function steppers are left out.\n"
-      "\n"
-      "Sweep:\n"
-      "  --methods LIST       comma-separated stepper names, or 'all' (default: exponential_map_midpoint_mean,\n"
-      "                       magnus_4, coning_1_sample, coning_2_sample, coning_3_sample, runge_kutta_4_sampled,\n"
-      "                       munthe_kaas_4_sampled, dormand_prince_54_rate_function); --methods list prints\n"
-      "                       every stepper with its order and cost\n"
-      "  --step-min S         smallest step (s): the attitude update interval; a step spans the\n"
-      "                       method's gyro periods per step (default: per motion, e.g. 1e-4 demo)\n"
-      "  --step-max S         largest step (s) (default: per motion, e.g. 4e-3 demo)\n"
-      "  --steps N            number of log-spaced steps from min to max (default 8; N = 1 needs\n"
-      "                       min = max)\n"
-      "  --step S             a single step (s): same as --step-min S --step-max S --steps 1\n"
-      "  --scalar LIST        float, double or float,double (default: both)\n"
-      "  --duration S         length of every truth run (s) (default 5); the bound column is the\n"
-      "                       horizon bound over the same duration\n"
-      "\n"
-      "Output:\n"
-      "  stdout               a table: method, scalar, step (s), steps run, max error (rad: max over\n"
-      "                       step ends of the angle between propagated and true attitude), bound\n"
-      "                       (rad), observed order (log-log slope to the next smaller step of the\n"
-      "                       same method and scalar, '-' where undefined), ns per step (wall clock\n"
-      "                       around the propagator calls; rate-function rows include the motion's\n"
-      "                       rate evaluations)\n"
-      "  --csv FILE           the table as CSV: method,scalar,step_s,max_error_rad,bound_rad,\n"
-      "                       ns_per_step (empty fields where not measured)\n"
-      "  --svg FILE           two log-log charts: max error (rad) against step (s) with the bounds\n"
-      "                       dashed and the budget line; max error (rad) against cost (ns/step)\n"
-      "\n"
-      "Recommendation:\n"
-      "  --budget RAD         attitude-error budget (rad) over --horizon (needs --horizon)\n"
-      "  --horizon S          flight time the budget covers (s)\n"
-      "  --gyro-rate HZ       gyro sample rate (Hz) (default 1000)\n"
-      "  --recommendation-file FILE\n"
-      "                       writes key=value lines: method, form (rate|delta), step_s,\n"
-      "                       gyro_rate_hz, bound_rad (needs --budget)\n"
-      "                       The recommendation is the cheapest sample-driven stepper (flops x steps\n"
-      "                       per second) whose worst-case bound meets the budget at the gyro rate,\n"
-      "                       printed for each studied scalar; the file holds double's when double\n"
-      "                       is studied, else float's. Also printed: the largest step meeting the\n"
-      "                       budget for each studied method (select_step).\n"
-      "\n"
-      "  --help               this text\n"
-      "\n"
-      "Runs use the library's Propagator with exact renormalization, fed exact samples (long double\n"
-      "truth rounded to the scalar); progress goes to stderr when it is a terminal.\n"
-      "\n"
-      "Exit codes: 0 ok; 1 bad usage; 2 an output file could not be written or a run failed;\n"
-      "3 a recommendation file was asked for but no sample-driven stepper meets the budget at the\n"
-      "gyro rate (nothing written).\n"
-      "\n"
-      "Caution: attitude errors can crash vehicles and hurt people. These bounds and measurements\n"
-      "support engineering judgement; they do not replace it. Validate any attitude solution in\n"
-      "hardware-in-the-loop and flight test; local airworthiness rules and licensed engineering\n"
-      "practice govern what may fly.\n";
+  return "halfspin-stepstudy: sweep halfspin steppers x steps x scalar types against the exact "
+         "truth\n"
+         "of a motion and the library's a-priori error bounds; recommend a method and step for a "
+         "budget.\n"
+         "\n"
+         "Usage:\n"
+         "  halfspin-stepstudy [--motion NAME | --envelope D0,D1,D2[,...] | --coning DEG,HZ] "
+         "[options]\n"
+         "\n"
+         "What to study (one of):\n"
+         "  --motion NAME        a truth motion with exact attitude (default: demo):\n"
+         "                         constant     constant body rate (0.9, -0.6, 1.3) rad/s;\n"
+         "                                      bounds: RateEnvelope::constant_rate(|w|)\n"
+         "                         oscillation  0.15 rad single-axis oscillation at 2.5 Hz about "
+         "(2,3,6)/7;\n"
+         "                                      bounds: VibrationSpec (2.356 rad/s sinusoid at 2.5 "
+         "Hz)\n"
+         "                         coning       classical coning, half-angle 0.04 rad at 5 Hz;\n"
+         "                                      bounds: ConingSpec (pure coning: exact per-step "
+         "error)\n"
+         "                         body         torque-free axisymmetric body (It = 1, I3 = 1.8 kg "
+         "m^2,\n"
+         "                                      w_perp = 0.6 rad/s, w3 = 2.5 rad/s); bounds: "
+         "envelope\n"
+         "                                      D0 = |w| = 2.571 rad/s, Dk = w_perp*|lambda|^k, "
+         "lambda = 2 rad/s\n"
+         "                         demo         the invented survey drone: banked turn carrying "
+         "0.02 deg\n"
+         "                                      coning at 85 Hz; bounds: its rate envelope\n"
+         "  --envelope D0,D1,D2[,D3,D4,D5]\n"
+         "                       a motion known only by bounds on |w| (rad/s), |w'| (rad/s^2), "
+         "|w''|\n"
+         "                       (rad/s^3), ...; derivatives not given are unknown (+inf)\n"
+         "  --coning DEG,HZ      classical coning of half-angle DEG (deg) at HZ (Hz); alone it is "
+         "pure\n"
+         "                       coning, with --envelope it is added to the envelope\n"
+         "                       With --envelope/--coning only bounds are shown (no measured "
+         "error,\n"
+         "                       no timing) and rate-function steppers are left out.\n"
+         "\n"
+         "Sweep:\n"
+         "  --methods LIST       comma-separated stepper names, or 'all' (default: "
+         "exponential_map_midpoint_mean,\n"
+         "                       magnus_4, coning_1_sample, coning_2_sample, coning_3_sample, "
+         "runge_kutta_4_sampled,\n"
+         "                       munthe_kaas_4_sampled, dormand_prince_54_rate_function); "
+         "--methods list prints\n"
+         "                       every stepper with its order and cost\n"
+         "  --step-min S         smallest step (s): the attitude update interval; a step spans "
+         "the\n"
+         "                       method's gyro periods per step (default: per motion, e.g. 1e-4 "
+         "demo)\n"
+         "  --step-max S         largest step (s) (default: per motion, e.g. 4e-3 demo)\n"
+         "  --steps N            number of log-spaced steps from min to max (default 8; N = 1 "
+         "needs\n"
+         "                       min = max)\n"
+         "  --step S             a single step (s): same as --step-min S --step-max S --steps 1\n"
+         "  --scalar LIST        float, double or float,double (default: both)\n"
+         "  --duration S         length of every truth run (s) (default 5); the bound column is "
+         "the\n"
+         "                       horizon bound over the same duration\n"
+         "\n"
+         "Output:\n"
+         "  stdout               a table: method, scalar, step (s), steps run, max error (rad: max "
+         "over\n"
+         "                       step ends of the angle between propagated and true attitude), "
+         "bound\n"
+         "                       (rad), observed order (log-log slope to the next smaller step of "
+         "the\n"
+         "                       same method and scalar, '-' where undefined), ns per step (wall "
+         "clock\n"
+         "                       around the propagator calls; rate-function rows include the "
+         "motion's\n"
+         "                       rate evaluations)\n"
+         "  --csv FILE           the table as CSV: method,scalar,step_s,max_error_rad,bound_rad,\n"
+         "                       ns_per_step (empty fields where not measured)\n"
+         "  --svg FILE           two log-log charts: max error (rad) against step (s) with the "
+         "bounds\n"
+         "                       dashed and the budget line; max error (rad) against cost "
+         "(ns/step)\n"
+         "\n"
+         "Recommendation:\n"
+         "  --budget RAD         attitude-error budget (rad) over --horizon (needs --horizon)\n"
+         "  --horizon S          flight time the budget covers (s)\n"
+         "  --gyro-rate HZ       gyro sample rate (Hz) (default 1000)\n"
+         "  --recommendation-file FILE\n"
+         "                       writes key=value lines: method, form (rate|delta), step_s,\n"
+         "                       gyro_rate_hz, bound_rad (needs --budget)\n"
+         "                       The recommendation is the cheapest sample-driven stepper (flops x "
+         "steps\n"
+         "                       per second) whose worst-case bound meets the budget at the gyro "
+         "rate,\n"
+         "                       printed for each studied scalar; the file holds double's when "
+         "double\n"
+         "                       is studied, else float's. Also printed: the largest step meeting "
+         "the\n"
+         "                       budget for each studied method (select_step).\n"
+         "\n"
+         "  --help               this text\n"
+         "\n"
+         "Runs use the library's Propagator with exact renormalization, fed exact samples (long "
+         "double\n"
+         "truth rounded to the scalar); progress goes to stderr when it is a terminal.\n"
+         "\n"
+         "Exit codes: 0 ok; 1 bad usage; 2 an output file could not be written or a run failed;\n"
+         "3 a recommendation file was asked for but no sample-driven stepper meets the budget at "
+         "the\n"
+         "gyro rate (nothing written).\n"
+         "\n"
+         "Caution: attitude errors can crash vehicles and hurt people. These bounds and "
+         "measurements\n"
+         "support engineering judgement; they do not replace it. Validate any attitude solution "
+         "in\n"
+         "hardware-in-the-loop and flight test; local airworthiness rules and licensed "
+         "engineering\n"
+         "practice govern what may fly.\n";
 }
 
 namespace detail {
@@ -214,8 +254,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       }
       const std::vector<std::string> parts = detail::split(v);
       if (parts.size() != 2 || !detail::parse_number(parts[0], o.coning_deg) ||
-          !detail::parse_number(parts[1], o.coning_hz) || !(o.coning_deg > 0) || !(o.coning_hz > 0) ||
-          !(o.coning_deg < 90)) {
+          !detail::parse_number(parts[1], o.coning_hz) || !(o.coning_deg > 0) ||
+          !(o.coning_hz > 0) || !(o.coning_deg < 90)) {
         error = "--coning takes DEG,HZ: a half-angle in (0, 90) deg and a positive frequency in Hz";
         return false;
       }

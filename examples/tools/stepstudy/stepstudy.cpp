@@ -87,7 +87,9 @@ std::string format(const char* fmt, double v) {
   std::snprintf(buffer.data(), buffer.size(), fmt, v);
   return buffer.data();
 }
-std::string sci(double v) { return std::isfinite(v) ? format("%.3e", v) : (std::isnan(v) ? "-" : "inf"); }
+std::string sci(double v) {
+  return std::isfinite(v) ? format("%.3e", v) : (std::isnan(v) ? "-" : "inf");
+}
 
 std::vector<double> step_grid(double lo, double hi, int n) {
   std::vector<double> steps;
@@ -165,8 +167,8 @@ void fill_orders(std::vector<Row>& rows) {
 
 void print_table(const std::vector<Row>& rows, bool bounds_only) {
   std::printf("%-34s %-6s %10s %10s %11s %11s %6s %10s\n", "method", "scalar", "step (s)",
-              bounds_only ? "steps" : "steps run",
-              "max err rad", "bound (rad)", "order", "ns/step");
+              bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order",
+              "ns/step");
   for (const Row& r : rows) {
     const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
     const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
@@ -184,8 +186,9 @@ bool write_csv(const std::string& path, const std::vector<Row>& rows) {
   out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step\n";
   auto field = [](double v) { return std::isnan(v) ? std::string() : format("%.17g", v); };
   for (const Row& r : rows) {
-    out << r.method << ',' << r.scalar << ',' << format("%.17g", r.step_s) << ',' << field(r.max_error_rad)
-        << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step) << '\n';
+    out << r.method << ',' << r.scalar << ',' << format("%.17g", r.step_s) << ','
+        << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step)
+        << '\n';
   }
   return static_cast<bool>(out.flush());
 }
@@ -194,9 +197,11 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
                const std::vector<std::string>& methods, const std::vector<Row>& rows) {
   svg::Figure fig;
   fig.title = "halfspin step study: " + motion.name;
-  fig.subtitle = motion.summary + (o.bounds_only ? "; bounds only" : "; runs of " + format("%g s", o.duration));
+  fig.subtitle = motion.summary +
+                 (o.bounds_only ? "; bounds only" : "; runs of " + format("%g s", o.duration));
   svg::Chart error_chart;
-  error_chart.title = o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
+  error_chart.title =
+      o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
   error_chart.x_label = "step (s)";
   error_chart.y_label = "attitude error (rad)";
   svg::Chart cost_chart;
@@ -213,11 +218,16 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
     fig.legend.push_back({methods[m], m});
     for (const char* scalar : {"double", "float"}) {
       const bool is_double = std::string(scalar) == "double";
-      svg::Series measured{m, svg::LineStyle::solid,
-                           is_double ? svg::Marker::filled_circle : svg::Marker::open_square, {}};
-      svg::Series bound{m, is_double ? svg::LineStyle::dashed : svg::LineStyle::dotted, svg::Marker::none, {}};
-      svg::Series cost{m, svg::LineStyle::solid,
-                       is_double ? svg::Marker::filled_circle : svg::Marker::open_square, {}};
+      svg::Series measured{m,
+                           svg::LineStyle::solid,
+                           is_double ? svg::Marker::filled_circle : svg::Marker::open_square,
+                           {}};
+      svg::Series bound{
+          m, is_double ? svg::LineStyle::dashed : svg::LineStyle::dotted, svg::Marker::none, {}};
+      svg::Series cost{m,
+                       svg::LineStyle::solid,
+                       is_double ? svg::Marker::filled_circle : svg::Marker::open_square,
+                       {}};
       for (const Row& r : rows) {
         if (r.method != methods[m] || r.scalar != scalar) {
           continue;
@@ -242,10 +252,12 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
   }
   if (!o.bounds_only) {
     if (o.want_double) {
-      fig.keys.push_back({svg::LineStyle::solid, svg::Marker::filled_circle, "double, measured (chart 2: points)"});
+      fig.keys.push_back({svg::LineStyle::solid, svg::Marker::filled_circle,
+                          "double, measured (chart 2: points)"});
     }
     if (o.want_float) {
-      fig.keys.push_back({svg::LineStyle::solid, svg::Marker::open_square, "float, measured (chart 2: points)"});
+      fig.keys.push_back(
+          {svg::LineStyle::solid, svg::Marker::open_square, "float, measured (chart 2: points)"});
     }
   }
   if (o.has_budget) {
@@ -271,9 +283,12 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
 
 const char* outcome_text(CandidateOutcome c) {
   switch (c) {
-    case CandidateOutcome::meets_budget: return "meets the budget";
-    case CandidateOutcome::over_budget: return "over budget";
-    case CandidateOutcome::no_bound: return "no finite bound";
+    case CandidateOutcome::meets_budget:
+      return "meets the budget";
+    case CandidateOutcome::over_budget:
+      return "over budget";
+    case CandidateOutcome::no_bound:
+      return "no finite bound";
   }
   return "";
 }
@@ -289,16 +304,18 @@ struct Chosen {
 // With RoundoffModel::expected every figure carries the random-walk rounding term instead of the
 // worst case: a typical size, not a bound (bounds/horizon_bound.hpp); the output says so.
 template <class T>
-Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<std::string>& methods,
-                 const char* scalar, RoundoffModel model = RoundoffModel::worst_case) {
+Chosen recommend(const Options& o, const StudyMotion& motion,
+                 const std::vector<std::string>& methods, const char* scalar,
+                 RoundoffModel model = RoundoffModel::worst_case) {
   const MotionDescription<T> d = description_in<T>(motion.description);
   const bool expected = model == RoundoffModel::expected;
   const char* figure = expected ? "expected" : "bound";
   const auto r = recommend_stepper(SampleDrivenList{}, d, static_cast<T>(o.budget),
                                    static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate), model);
-  std::printf("\nRecommendation in %s%s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
-              expected ? " with the expected (random-walk) rounding: typical sizes, NOT bounds" : "",
-              o.budget, o.budget / degree, o.horizon, o.gyro_rate);
+  std::printf(
+      "\nRecommendation in %s%s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
+      expected ? " with the expected (random-walk) rounding: typical sizes, NOT bounds" : "",
+      o.budget, o.budget / degree, o.horizon, o.gyro_rate);
   Chosen chosen;
   auto candidates = r.candidates;
   std::stable_sort(candidates.begin(), candidates.end(), [](const auto& a, const auto& b) {
@@ -311,14 +328,15 @@ Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<
     chosen.delta = info != nullptr && carries_delta_angles(info->layout);
     chosen.step_s = static_cast<double>(r.candidates[r.index].step_s);
     chosen.bound_rad = static_cast<double>(r.bound_rad);
-    std::printf("  recommended: %s, step %.4e s (%.1f Hz updates, %s log), %s %.3e rad "
-                "(%.4f deg), %.0f flop/s\n",
-                r.name, chosen.step_s, 1.0 / chosen.step_s, chosen.delta ? "delta-angle" : "rate",
-                figure, chosen.bound_rad, chosen.bound_rad / degree,
-                static_cast<double>(r.cost_flops_per_s));
-    std::printf("  why: the cheapest sample-driven stepper (flops per step x steps per second) whose\n"
-                "  %s at this gyro rate meets the budget; the cheaper ones:\n",
-                expected ? "expected horizon error" : "worst-case horizon bound");
+    std::printf(
+        "  recommended: %s, step %.4e s (%.1f Hz updates, %s log), %s %.3e rad "
+        "(%.4f deg), %.0f flop/s\n",
+        r.name, chosen.step_s, 1.0 / chosen.step_s, chosen.delta ? "delta-angle" : "rate", figure,
+        chosen.bound_rad, chosen.bound_rad / degree, static_cast<double>(r.cost_flops_per_s));
+    std::printf(
+        "  why: the cheapest sample-driven stepper (flops per step x steps per second) whose\n"
+        "  %s at this gyro rate meets the budget; the cheaper ones:\n",
+        expected ? "expected horizon error" : "worst-case horizon bound");
   } else {
     std::printf("  no sample-driven stepper meets the budget at this gyro rate; candidates:\n");
   }
@@ -348,9 +366,10 @@ Chosen recommend(const Options& o, const StudyMotion& motion, const std::vector<
       const double step = static_cast<double>(s.step_s);
       switch (s.status) {
         case StepSelectionStatus::ok:
-          std::printf("    %-34s step %.4e s (%9.1f Hz updates, %9.1f Hz gyro)  %s %.3e rad\n", S::name,
-                      step, static_cast<double>(s.update_rate_hz), static_cast<double>(s.sample_rate_hz),
-                      figure, static_cast<double>(s.bound_rad));
+          std::printf("    %-34s step %.4e s (%9.1f Hz updates, %9.1f Hz gyro)  %s %.3e rad\n",
+                      S::name, step, static_cast<double>(s.update_rate_hz),
+                      static_cast<double>(s.sample_rate_hz), figure,
+                      static_cast<double>(s.bound_rad));
           break;
         case StepSelectionStatus::budget_unreachable:
           std::printf("    %-34s no step meets the budget (least %s %.3e rad at %.4e s)\n", S::name,
@@ -375,7 +394,8 @@ int main(int argc, char** argv) {
   Options o;
   std::string error;
   if (!parse_options(argc, argv, o, error)) {
-    std::fprintf(stderr, "halfspin-stepstudy: %s\n(see halfspin-stepstudy --help)\n", error.c_str());
+    std::fprintf(stderr, "halfspin-stepstudy: %s\n(see halfspin-stepstudy --help)\n",
+                 error.c_str());
     return exit_usage;
   }
   if (o.help) {
@@ -386,8 +406,8 @@ int main(int argc, char** argv) {
     std::printf("%-34s %-10s %5s %6s  %s\n", "method", "input", "order", "flops", "description");
     for (const MethodInfo& m : method_catalogue()) {
       const char* input = m.layout == SampleLayout::rate_function ? "function"
-                          : carries_delta_angles(m.layout)      ? "delta"
-                                                                : "rate";
+                          : carries_delta_angles(m.layout)        ? "delta"
+                                                                  : "rate";
       std::printf("%-34s %-10s %5d %6d  %s\n", m.name, input, m.order, m.flops, m.description);
     }
     return exit_ok;
@@ -414,18 +434,23 @@ int main(int argc, char** argv) {
     motion.default_step_min = 1e-4;
     motion.default_step_max = 1e-2;
   } else if (!make_study_motion(o.motion, motion)) {
-    std::fprintf(stderr, "halfspin-stepstudy: unknown motion '%s' (constant, oscillation, coning, body, demo)\n",
-                 o.motion.c_str());
+    std::fprintf(
+        stderr,
+        "halfspin-stepstudy: unknown motion '%s' (constant, oscillation, coning, body, demo)\n",
+        o.motion.c_str());
     return exit_usage;
   }
   const double step_min = o.step_min > 0 ? o.step_min : motion.default_step_min;
   const double step_max = o.step_max > 0 ? o.step_max : motion.default_step_max;
-  if (step_max < step_min || (o.steps == 1 && step_max != step_min) || (o.steps > 1 && step_max == step_min)) {
-    std::fprintf(stderr, "halfspin-stepstudy: need --step-min < --step-max for --steps > 1, equal for 1\n");
+  if (step_max < step_min || (o.steps == 1 && step_max != step_min) ||
+      (o.steps > 1 && step_max == step_min)) {
+    std::fprintf(stderr,
+                 "halfspin-stepstudy: need --step-min < --step-max for --steps > 1, equal for 1\n");
     return exit_usage;
   }
   if (step_max > o.duration) {
-    std::fprintf(stderr, "halfspin-stepstudy: the largest step (%g s) is longer than --duration (%g s)\n",
+    std::fprintf(stderr,
+                 "halfspin-stepstudy: the largest step (%g s) is longer than --duration (%g s)\n",
                  step_max, o.duration);
     return exit_usage;
   }
@@ -441,7 +466,8 @@ int main(int argc, char** argv) {
   } else {
     for (const std::string& name : o.methods) {
       if (find_method(name) == nullptr) {
-        std::fprintf(stderr, "halfspin-stepstudy: unknown method '%s' (--methods list shows them)\n",
+        std::fprintf(stderr,
+                     "halfspin-stepstudy: unknown method '%s' (--methods list shows them)\n",
                      name.c_str());
         return exit_usage;
       }
@@ -454,7 +480,8 @@ int main(int argc, char** argv) {
     std::vector<std::string> kept;
     for (const std::string& name : methods) {
       if (find_method(name)->layout == SampleLayout::rate_function) {
-        std::printf("note: %s left out (rate-function steppers need a truth motion)\n", name.c_str());
+        std::printf("note: %s left out (rate-function steppers need a truth motion)\n",
+                    name.c_str());
       } else {
         kept.push_back(name);
       }
@@ -476,10 +503,12 @@ int main(int argc, char** argv) {
   }
 
   std::printf("halfspin step study\n");
-  std::printf("  motion:      %s%s\n", o.bounds_only ? "" : (motion.name + ": ").c_str(), motion.summary.c_str());
+  std::printf("  motion:      %s%s\n", o.bounds_only ? "" : (motion.name + ": ").c_str(),
+              motion.summary.c_str());
   std::printf("  bounds from: %s\n", motion.description_summary.c_str());
   std::printf("  %s %g s; steps %.3e .. %.3e s (%d, log-spaced)\n\n",
-              o.bounds_only ? "bound horizon:" : "each run:     ", o.duration, step_min, step_max, o.steps);
+              o.bounds_only ? "bound horizon:" : "each run:     ", o.duration, step_min, step_max,
+              o.steps);
 
   std::vector<Row> rows;
   Progress progress(methods.size() * scalars.size() * steps.size());
@@ -534,8 +563,8 @@ int main(int argc, char** argv) {
       file_choice = recommend<double>(o, motion, methods, "double");
     }
     if (!o.recommendation_file.empty()) {
-      std::printf("\nRecommendation file %s: the %s recommendation\n", o.recommendation_file.c_str(),
-                  o.want_double ? "double" : "float");
+      std::printf("\nRecommendation file %s: the %s recommendation\n",
+                  o.recommendation_file.c_str(), o.want_double ? "double" : "float");
     }
     if (!o.recommendation_file.empty()) {
       if (!file_choice.found) {
@@ -552,13 +581,16 @@ int main(int argc, char** argv) {
             << "gyro_rate_hz=" << format("%.17g", o.gyro_rate) << '\n'
             << "bound_rad=" << format("%.17g", file_choice.bound_rad) << '\n';
         if (!out.flush()) {
-          std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.recommendation_file.c_str());
+          std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n",
+                       o.recommendation_file.c_str());
           status = exit_failure;
         }
       }
     }
   }
-  std::printf("\nCaution: bounds and measurements support engineering judgement. Validate in\n"
-              "hardware-in-the-loop and flight test, under local airworthiness rules and licensed practice.\n");
+  std::printf(
+      "\nCaution: bounds and measurements support engineering judgement. Validate in\n"
+      "hardware-in-the-loop and flight test, under local airworthiness rules and licensed "
+      "practice.\n");
   return status;
 }

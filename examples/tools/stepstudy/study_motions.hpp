@@ -44,24 +44,24 @@ using LD = long double;
 // to the scalar under test); rate-function steppers call the double copy (a desktop dynamics
 // model), which is what their ns/step then includes.
 struct TruthMotion {
-  std::function<Quaternion<LD>(LD)> attitude;               // body → reference at t (s)
-  std::function<Vector3<LD>(LD)> rate;                      // body rate (rad/s) at t (s)
-  std::function<Vector3<LD>(LD, LD)> delta_angle;           // ∫ω over (t0, t1] (rad)
-  std::function<Vector3<double>(double)> rate_double;       // body rate (rad/s), in double
+  std::function<Quaternion<LD>(LD)> attitude;          // body → reference at t (s)
+  std::function<Vector3<LD>(LD)> rate;                 // body rate (rad/s) at t (s)
+  std::function<Vector3<LD>(LD, LD)> delta_angle;      // ∫ω over (t0, t1] (rad)
+  std::function<Vector3<double>(double)> rate_double;  // body rate (rad/s), in double
 };
 
 struct StudyMotion {
   std::string name;
-  std::string summary;                   // one line: what it is, its parameters
-  std::string description_summary;       // one line: how the bounds see it
+  std::string summary;              // one line: what it is, its parameters
+  std::string description_summary;  // one line: how the bounds see it
   TruthMotion truth;
   MotionDescription<double> description;
-  double default_step_min = 1e-3;        // s
-  double default_step_max = 1e-1;        // s
+  double default_step_min = 1e-3;  // s
+  double default_step_max = 1e-1;  // s
 };
 
-inline constexpr std::array<const char*, 5> motion_names{{"constant", "oscillation", "coning", "body",
-                                                          "demo"}};
+inline constexpr std::array<const char*, 5> motion_names{
+    {"constant", "oscillation", "coning", "body", "demo"}};
 
 namespace detail {
 
@@ -77,7 +77,8 @@ TruthMotion erase(const Motion& ld, std::function<Vector3<double>(double)> rate_
 
 template <class T>
 ConstantRateMotion<T> constant_motion() {
-  return {Quaternion<T>{T(0.8L), T(0.2L), T(-0.4L), T(0.4L)}, Vector3<T>{T(0.9L), T(-0.6L), T(1.3L)}};
+  return {Quaternion<T>{T(0.8L), T(0.2L), T(-0.4L), T(0.4L)},
+          Vector3<T>{T(0.9L), T(-0.6L), T(1.3L)}};
 }
 template <class T>
 SingleAxisOscillation<T> oscillation_motion() {
@@ -90,7 +91,8 @@ ClassicalConingMotion<T> coning_motion() {
 }
 template <class T>
 AxisymmetricBodyMotion<T> body_motion() {
-  return {Quaternion<T>{T(0.7L), T(0.1L), T(0.5L), T(-0.5L)}, T(1), T(1.8L), T(0.6L), T(0.4L), T(2.5L)};
+  return {
+      Quaternion<T>{T(0.7L), T(0.1L), T(0.5L), T(-0.5L)}, T(1), T(1.8L), T(0.6L), T(0.4L), T(2.5L)};
 }
 
 inline std::string format(const char* fmt, double a, double b = 0, double c = 0) {
@@ -138,17 +140,17 @@ inline bool make_study_motion(std::string_view name, StudyMotion& out) {
     const auto d = body_motion<double>();
     s.truth = erase(body_motion<LD>(), [d](double t) { return d.rate(t); });
     const double lambda = std::fabs(d.body_turning_rate());
-    s.summary = "torque-free axisymmetric body: It = 1, I3 = 1.8 kg m^2, w_perp = 0.6 rad/s, "
-                "w3 = 2.5 rad/s";
+    s.summary =
+        "torque-free axisymmetric body: It = 1, I3 = 1.8 kg m^2, w_perp = 0.6 rad/s, "
+        "w3 = 2.5 rad/s";
     double p = d.transverse_rate;
     s.description.maneuver.derivative[0] = std::hypot(d.transverse_rate, d.axial_rate);
     for (std::size_t k = 1; k < 6; ++k) {
       p *= lambda;
       s.description.maneuver.derivative[k] = p;
     }
-    s.description_summary = "envelope D0 = " +
-                            format("%.4f rad/s, Dk = 0.6*%.1f^k rad/s^(k+1)",
-                                   s.description.maneuver.derivative[0], lambda);
+    s.description_summary = "envelope D0 = " + format("%.4f rad/s, Dk = 0.6*%.1f^k rad/s^(k+1)",
+                                                      s.description.maneuver.derivative[0], lambda);
     s.default_step_min = 1e-3;
     s.default_step_max = 1e-1;
   } else if (name == "demo") {
@@ -177,7 +179,8 @@ MotionDescription<T> description_in(const MotionDescription<double>& d) {
   r.vibration.count = d.vibration.count;
   for (std::size_t i = 0; i < d.vibration.component.size(); ++i) {
     const auto& c = d.vibration.component[i];
-    r.vibration.component[i].amplitude = {static_cast<T>(c.amplitude.x), static_cast<T>(c.amplitude.y),
+    r.vibration.component[i].amplitude = {static_cast<T>(c.amplitude.x),
+                                          static_cast<T>(c.amplitude.y),
                                           static_cast<T>(c.amplitude.z)};
     r.vibration.component[i].frequency_hz = static_cast<T>(c.frequency_hz);
   }

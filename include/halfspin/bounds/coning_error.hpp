@@ -84,7 +84,8 @@ Quaternion<long double> coning_step_end(const detail::ConingClosedForm& m, long 
                                         bool zero_previous = false) noexcept {
   const Quaternion<long double> start = m.attitude(0.0L);
   if constexpr (Stepper::layout == SampleLayout::rate_function) {
-    return Stepper::step(start, [&m](long double tau) noexcept { return m.rate(tau); }, dt);
+    return Stepper::step(
+        start, [&m](long double tau) noexcept { return m.rate(tau); }, dt);
   } else {
     constexpr std::size_t window = Stepper::window;
     constexpr std::size_t periods = periods_per_step(Stepper::layout, window);
@@ -93,16 +94,23 @@ Quaternion<long double> coning_step_end(const detail::ConingClosedForm& m, long 
     for (std::size_t i = 0; i < window; ++i) {
       const long double k = static_cast<long double>(i);
       switch (Stepper::layout) {
-        case SampleLayout::rate_at_end: input[i] = m.rate(dt); break;
-        case SampleLayout::rates_spanning: input[i] = m.rate(k * h); break;
-        case SampleLayout::delta_angles: input[i] = m.delta_angle(k * h, (k + 1.0L) * h); break;
+        case SampleLayout::rate_at_end:
+          input[i] = m.rate(dt);
+          break;
+        case SampleLayout::rates_spanning:
+          input[i] = m.rate(k * h);
+          break;
+        case SampleLayout::delta_angles:
+          input[i] = m.delta_angle(k * h, (k + 1.0L) * h);
+          break;
         case SampleLayout::delta_angles_with_previous:
           // [0] the previous step's last delta-angle, over (−h, 0] (zero for the propagator's
           // very first step, which has no previous sample).
           input[i] = (i == 0 && zero_previous) ? Vector3<long double>{0.0L, 0.0L, 0.0L}
                                                : m.delta_angle((k - 1.0L) * h, k * h);
           break;
-        case SampleLayout::rate_function: break;
+        case SampleLayout::rate_function:
+          break;
       }
     }
     return Stepper::step(start, input, dt);
@@ -115,8 +123,8 @@ Quaternion<long double> coning_step_end(const detail::ConingClosedForm& m, long 
 template <class Stepper>
 long double coning_step_error(long double half_angle, long double frequency_hz,
                               long double dt) noexcept {
-  const detail::ConingClosedForm m{half_angle, 2.0L * 3.141592653589793238462643383279502884L *
-                                                   frequency_hz};
+  const detail::ConingClosedForm m{half_angle,
+                                   2.0L * 3.141592653589793238462643383279502884L * frequency_hz};
   return angle_between(coning_step_end<Stepper>(m, dt), m.attitude(dt));
 }
 
@@ -135,8 +143,8 @@ template <class Stepper>
 long double coning_startup_error(long double half_angle, long double frequency_hz,
                                  long double dt) noexcept {
   if constexpr (Stepper::layout == SampleLayout::delta_angles_with_previous) {
-    const detail::ConingClosedForm m{half_angle, 2.0L * 3.141592653589793238462643383279502884L *
-                                                     frequency_hz};
+    const detail::ConingClosedForm m{half_angle,
+                                     2.0L * 3.141592653589793238462643383279502884L * frequency_hz};
     return angle_between(coning_step_end<Stepper>(m, dt, true), coning_step_end<Stepper>(m, dt));
   } else {
     return 0.0L;

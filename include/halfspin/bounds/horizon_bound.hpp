@@ -8,10 +8,11 @@
 //
 // The local term: for pure classical coning the exact per-step error (coning_error.hpp), whose
 // sum over a horizon is then replaced by the smaller exact-structure form where the error turns
-// with the cone (truncation_bound below); for any other motion LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step
-// bound over every rate with those derivative bounds. A stepper without a LocalErrorBound
-// specialization gets +∞ for non-coning motions ("no bound known": we do not guess), so the
-// recommendation can list it as unbounded instead of failing to compile.
+// with the cone (truncation_bound below); for any other motion
+// LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step bound over
+// every rate with those derivative bounds. A stepper without a LocalErrorBound specialization gets
+// +∞ for non-coning motions ("no bound known": we do not guess), so the recommendation can list it
+// as unbounded instead of failing to compile.
 //
 // The expected form replaces the worst-case roundoff floor with the random-walk one; the
 // truncation part stays worst case (truncation errors of a smooth motion do not cancel at
@@ -78,7 +79,8 @@ T truncation_bound(const MotionDescription<T>& description, T dt, std::int64_t s
 // The linear-accumulation form alone, steps × local bound, for every motion (pure coning
 // included): the textbook worst case the tighter coning form is measured against.
 template <class Stepper, class T>
-T truncation_bound_linear(const MotionDescription<T>& description, T dt, std::int64_t steps) noexcept {
+T truncation_bound_linear(const MotionDescription<T>& description, T dt,
+                          std::int64_t steps) noexcept {
   return static_cast<T>(steps) * local_truncation_bound<Stepper>(description, dt);
 }
 
@@ -114,7 +116,8 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
 template <class Stepper, class T>
 T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return truncation_bound<Stepper>(description, dt, steps) + startup_bound<Stepper>(description, dt) +
+  return truncation_bound<Stepper>(description, dt, steps) +
+         startup_bound<Stepper>(description, dt) +
          roundoff_floor_worst<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
@@ -123,7 +126,8 @@ T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s
 template <class Stepper, class T>
 T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return truncation_bound<Stepper>(description, dt, steps) + startup_bound<Stepper>(description, dt) +
+  return truncation_bound<Stepper>(description, dt, steps) +
+         startup_bound<Stepper>(description, dt) +
          roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
 }
 
@@ -141,8 +145,9 @@ enum class RoundoffModel : std::uint8_t {
 template <class Stepper, class T>
 T horizon_error(const MotionDescription<T>& description, T dt, T horizon_s,
                 RoundoffModel model) noexcept {
-  return model == RoundoffModel::expected ? horizon_error_expected<Stepper>(description, dt, horizon_s)
-                                          : horizon_error_bound<Stepper>(description, dt, horizon_s);
+  return model == RoundoffModel::expected
+             ? horizon_error_expected<Stepper>(description, dt, horizon_s)
+             : horizon_error_bound<Stepper>(description, dt, horizon_s);
 }
 
 }  // namespace halfspin

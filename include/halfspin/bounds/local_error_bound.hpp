@@ -23,17 +23,17 @@ template <class Stepper, class = void>
 struct LocalErrorBound {};  // no bound: the family has none
 
 template <class Stepper>
-struct LocalErrorBound<Stepper,
-                       std::void_t<decltype(sizeof(FamilyLocalErrorBound<typename Stepper::family>))>>
+struct LocalErrorBound<
+    Stepper, std::void_t<decltype(sizeof(FamilyLocalErrorBound<typename Stepper::family>))>>
     : FamilyLocalErrorBound<typename Stepper::family> {};
 
 // Whether LocalErrorBound<Stepper> has a `local` for scalar T.
 template <class Stepper, class T, class = void>
 struct has_local_error_bound : std::false_type {};
 template <class Stepper, class T>
-struct has_local_error_bound<
-    Stepper, T,
-    std::void_t<decltype(LocalErrorBound<Stepper>::template local<T>(
-        std::declval<const RateEnvelope<T>&>(), std::declval<T>()))>> : std::true_type {};
+struct has_local_error_bound<Stepper, T,
+                             std::void_t<decltype(LocalErrorBound<Stepper>::template local<T>(
+                                 std::declval<const RateEnvelope<T>&>(), std::declval<T>()))>>
+    : std::true_type {};
 
 }  // namespace halfspin

@@ -123,7 +123,8 @@ constexpr T power(T x, int n) noexcept {
 // Upper bound of e^y for 0 ≤ y < 5: Taylor to y³ plus the tail bound y⁴/(24(1 − y/5)).
 template <class T>
 constexpr T exp_upper(T y) noexcept {
-  return T(1) + y * (T(1) + y * (T(0.5) + y * T(1.0L / 6))) + y * y * y * y / (T(24) * (T(1) - y / T(5)));
+  return T(1) + y * (T(1) + y * (T(0.5) + y * T(1.0L / 6))) +
+         y * y * y * y / (T(24) * (T(1) - y / T(5)));
 }
 
 using detail::interval_moments;
@@ -175,7 +176,8 @@ constexpr ConingTermTiers<T> coning_term_tiers(const std::array<SampleMoments<T>
   const T consistency = product(absolute(to_scalar<T>(kp)) * h3, d0, d1);
   const T squared_d2 = product((T(1.0L / 2304) + r22) * h6, d2, d2);
   const T through_d3 = consistency + product(absolute(to_scalar<T>(kq)) * h4, d0, d2) +
-                       smaller(with_d4, with_d3) + product(absolute(to_scalar<T>(kpq)) * h5, d1, d2) +
+                       smaller(with_d4, with_d3) +
+                       product(absolute(to_scalar<T>(kpq)) * h5, d1, d2) +
                        product((T(1.0L / 1536) + r13) * h6, d1, d3) + squared_d2;
   // The expansion stopped at p (remainder with D2): exact side H⁴/4·D0·D2 and H⁵/6·D1·D2.
   const T through_d2 = consistency + product((T(1.0L / 64) + r02) * h4, d0, d2) +
@@ -236,14 +238,18 @@ constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
   const T z4 = product(T(5.0L / 24) * d0, d3) + product(T(5.0L / 12) * d1, d2);
   const T kk = product(T(2.0L / 3) * d0, d2) + T(0.5) * d1 * d1;
   const T n5 = product(d0 * d1 / T(16), d2) + product(d0 * d0 / T(96), d3) +
-               (d0 * z4 + product(d0 * d1 / T(4), d2)) / T(12) + (d0 * d0 * d1 * d1 + d0 * d0 * kk) / T(96);
-  const T n6 = product(d0 / T(288), d2, d2) + (product(d0 / T(12), d2, d2) + d1 * z4 / T(2)) / T(12);
+               (d0 * z4 + product(d0 * d1 / T(4), d2)) / T(12) +
+               (d0 * d0 * d1 * d1 + d0 * d0 * kk) / T(96);
+  const T n6 =
+      product(d0 / T(288), d2, d2) + (product(d0 / T(12), d2, d2) + d1 * z4 / T(2)) / T(12);
   const T n7 = product(d1 / T(288), d2, d2);
-  const T leading = d0 * d1 * d1 / T(240) + product(d0 * d0 / T(720), d2) + d0 * d0 * d0 * d1 / T(720);
+  const T leading =
+      d0 * d1 * d1 / T(240) + product(d0 * d0 / T(720), d2) + d0 * d0 * d0 * d1 / T(720);
   const T others = g * d0 * d0 * d1 * d1 * h6 / T(144) + g * g * d1 * d0cube_d1_h5 * h * h / T(84) +
                    x * (T(0.5) + g * x) / T(4200) * d0cube_d1_h5;
-  const T magnus_terms = exp_upper(T(0.5) * x + x * x / T(24)) *
-                         (leading * h5 + n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8) + others);
+  const T magnus_terms =
+      exp_upper(T(0.5) * x + x * x / T(24)) *
+      (leading * h5 + n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8) + others);
   return smaller(crude, smaller(start_expansion, magnus_terms));
 }
 
@@ -308,9 +314,10 @@ template <std::size_t W>
 constexpr Rational peano_top(const RotationVectorRule<W>& r, int d) noexcept {
   Rational sum{0, 1};
   for (std::size_t i = 0; i < W; ++i) {
-    const Rational x = r.layout == SampleLayout::rate_at_end
-                           ? Rational{1, 1}
-                           : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
+    const Rational x =
+        r.layout == SampleLayout::rate_at_end
+            ? Rational{1, 1}
+            : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
     Rational xk{1, 1};
     for (int j = 0; j <= d; ++j) {
       xk = xk * x;
@@ -329,7 +336,8 @@ constexpr Rational peano_top(const RotationVectorRule<W>& r, int d) noexcept {
 // |α̂ − α| bound (rad) of a rate rule (section 2 with its constants derived from the weights):
 // the smaller of the degree-0 and degree-d Peano forms; 0 for delta-angles (α exact).
 template <class T, std::size_t W>
-constexpr T quadrature_error(const RotationVectorRule<W>& r, const RateEnvelope<T>& e, T h) noexcept {
+constexpr T quadrature_error(const RotationVectorRule<W>& r, const RateEnvelope<T>& e,
+                             T h) noexcept {
   if (!detail::carries_rates(r.layout)) {
     return T(0);
   }
@@ -352,9 +360,9 @@ template <class T, std::size_t W>
 constexpr T rotation_vector_step(const RotationVectorRule<W>& r, const RateEnvelope<T>& given,
                                  T h) noexcept {
   const RateEnvelope<T> e = implied(given);
-  const T beta = detail::has_commutator(r)
-                     ? coning_term_error(detail::rule_sample_moments<T>(r), detail::rule_pairs(r), e, h)
-                     : dropped_coning_term(e, h);
+  const T beta = detail::has_commutator(r) ? coning_term_error(detail::rule_sample_moments<T>(r),
+                                                               detail::rule_pairs(r), e, h)
+                                           : dropped_coning_term(e, h);
   return finish(e, h, quadrature_error(r, e, h) + beta + bortz_remainder(e, h));
 }
 

@@ -30,9 +30,10 @@ namespace halfspin {
 template <class T>
 struct RateEnvelope {
   // D_k for k = 0..5 (rad/s^(k+1)); +∞ where unknown.
-  std::array<T, 6> derivative{std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity(),
-                              std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity(),
-                              std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity()};
+  std::array<T, 6> derivative{
+      std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity(),
+      std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity(),
+      std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity()};
 
   // From max ‖ω‖ (rad/s), max ‖ω̇‖ (rad/s²), max ‖ω̈‖ (rad/s³); higher derivatives unknown.
   static constexpr RateEnvelope from_rate_bounds(T max_rate, T max_rate_derivative,

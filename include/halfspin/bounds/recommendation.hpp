@@ -45,10 +45,10 @@ struct CandidateReport {
 template <class T, std::size_t N>
 struct Recommendation {
   bool found = false;
-  std::size_t index = N;             // position of the chosen stepper in the list (N if none)
-  const char* name = "";             // its name ("" if none)
-  T bound_rad = T(0);                // its bound (rad)
-  T cost_flops_per_s = T(0);         // its cost (flop/s)
+  std::size_t index = N;      // position of the chosen stepper in the list (N if none)
+  const char* name = "";      // its name ("" if none)
+  T bound_rad = T(0);         // its bound (rad)
+  T cost_flops_per_s = T(0);  // its cost (flop/s)
   std::array<CandidateReport<T>, N> candidates{};  // every candidate, in list order
 };
 
@@ -56,7 +56,8 @@ namespace detail {
 
 template <class Stepper, class T>
 CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T budget_rad,
-                                    T horizon_s, T sample_rate_hz, RoundoffModel roundoff) noexcept {
+                                    T horizon_s, T sample_rate_hz,
+                                    RoundoffModel roundoff) noexcept {
   CandidateReport<T> c{};
   const T periods = static_cast<T>(periods_per_step(Stepper::layout, Stepper::window));
   c.name = Stepper::name;
@@ -66,8 +67,8 @@ CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T b
   if (!std::isfinite(c.bound_rad)) {
     c.outcome = CandidateOutcome::no_bound;
   } else {
-    c.outcome = c.bound_rad <= budget_rad ? CandidateOutcome::meets_budget
-                                          : CandidateOutcome::over_budget;
+    c.outcome =
+        c.bound_rad <= budget_rad ? CandidateOutcome::meets_budget : CandidateOutcome::over_budget;
   }
   return c;
 }
@@ -88,7 +89,7 @@ Recommendation<T, sizeof...(Steppers)> recommend_stepper(
     return r;
   }
   r.candidates = {{detail::assess_candidate<Steppers, T>(description, budget_rad, horizon_s,
-                                                          sample_rate_hz, roundoff)...}};
+                                                         sample_rate_hz, roundoff)...}};
   for (std::size_t i = 0; i < n; ++i) {
     const CandidateReport<T>& c = r.candidates[i];
     if (c.outcome != CandidateOutcome::meets_budget) {

@@ -155,8 +155,8 @@ constexpr T roundoff_per_step(T theta) noexcept {
   constexpr std::size_t stages = detail::stage_count<Stepper>::value;
   const detail::StageGrowth<T> stage = detail::stage_growth<Stepper, T>::of(theta);
   const T growth = stage.growth;
-  const T renormalization = detail::angle_of_relative_perturbation(
-      std::numeric_limits<T>::epsilon() / T(2));
+  const T renormalization =
+      detail::angle_of_relative_perturbation(std::numeric_limits<T>::epsilon() / T(2));
   const T increment =
       detail::gamma_rounding<T>(static_cast<std::int64_t>(Stepper::flops) + 2) * theta * growth;
   if constexpr (is_additive_quaternion_stepper<Stepper>) {

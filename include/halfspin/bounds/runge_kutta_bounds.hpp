@@ -144,8 +144,8 @@ constexpr StageInterval<T> stage_interval(C c_i, const Positions& pos, const Fra
     return {static_cast<T>(c_i), T(0), T(0)};
   }
   const T periods = T(static_cast<int>(Window - 1));
-  return {T(static_cast<int>(pos.lower[i])) / periods, T(static_cast<int>(pos.lower[i] + 1)) / periods,
-          fraction[i]};
+  return {T(static_cast<int>(pos.lower[i])) / periods,
+          T(static_cast<int>(pos.lower[i] + 1)) / periods, fraction[i]};
 }
 
 // The local bound of section 2–3 above for tableau `Tableau`, Window rate samples spanning the
@@ -305,8 +305,8 @@ struct FamilyLocalErrorBound<ExplicitRungeKutta<Tableau, Layout, Window>> {
   // Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
-    return detail::runge_kutta_local_bound<Tableau, Window,
-                                           ExplicitRungeKutta<Tableau, Layout, Window>::state_order>(e, dt);
+    return detail::runge_kutta_local_bound<
+        Tableau, Window, ExplicitRungeKutta<Tableau, Layout, Window>::state_order>(e, dt);
   }
 };
 
@@ -508,7 +508,8 @@ struct FamilyLocalErrorBound<MuntheKaasRungeKutta<Tableau, Layout, Window>> {
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
     return detail::munthe_kaas_local_bound<Tableau, Window,
-                                           MuntheKaasRungeKutta<Tableau, Layout, Window>::order>(e, dt);
+                                           MuntheKaasRungeKutta<Tableau, Layout, Window>::order>(
+        e, dt);
   }
 };
 

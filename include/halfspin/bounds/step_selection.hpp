@@ -39,12 +39,12 @@ enum class StepSelectionStatus : std::uint8_t {
 template <class T>
 struct StepSelection {
   StepSelectionStatus status = StepSelectionStatus::invalid_arguments;
-  T step_s = T(0);            // chosen step (s); the minimizer when the budget is unreachable
-  T bound_rad = T(0);         // horizon bound at step_s (rad)
-  T update_rate_hz = T(0);    // 1/step_s (Hz): attitude updates per second
-  T sample_rate_hz = T(0);    // gyro samples per second = update rate × periods per step (Hz)
-  T minimizing_step_s = T(0); // grid step of least bound (s)
-  T minimum_bound_rad = T(0); // the least bound (rad)
+  T step_s = T(0);             // chosen step (s); the minimizer when the budget is unreachable
+  T bound_rad = T(0);          // horizon bound at step_s (rad)
+  T update_rate_hz = T(0);     // 1/step_s (Hz): attitude updates per second
+  T sample_rate_hz = T(0);     // gyro samples per second = update rate × periods per step (Hz)
+  T minimizing_step_s = T(0);  // grid step of least bound (s)
+  T minimum_bound_rad = T(0);  // the least bound (rad)
 };
 
 // Search settings: the step range (s), the grid and the bisection tolerance (relative, in dt).

@@ -19,7 +19,8 @@ inline constexpr int quaternion_exp_series_flops = 20;
 // ScalarTraits the series of cos(θ/2) and sin(θ/2)/θ are used, which need only θ² (no square root,
 // no trigonometry) and stay exact for denormal-sized φ. Valid for |φ|² below the type's maximum.
 namespace detail {
-// Below ScalarTraits::exp_series_angle_squared, from t = θ²: cos(θ/2) − 1 = −θ²/8 + θ⁴/384 − θ⁶/46080
+// Below ScalarTraits::exp_series_angle_squared, from t = θ²: cos(θ/2) − 1 = −θ²/8 + θ⁴/384 −
+// θ⁶/46080
 // + … and sin(θ/2)/θ = 1/2 − θ²/48 + θ⁴/3840 − θ⁶/645120. The θ⁶ terms are below half an ulp at the
 // threshold but always of one sign: dropping them would bias every step the same way and the norm
 // would drift linearly over a long run.
@@ -54,9 +55,9 @@ inline constexpr int quaternion_exp_minus_one_series_flops = 19;
 
 // Rotation vector φ (rad) → exp(φ/2) − 1 = (cos(θ/2) − 1, sin(θ/2)·φ/θ), θ = |φ|: the increment of
 // a step, formed without cancellation so that it is accurate relative to its own size however
-// small the step (cos(θ/2) − 1 is never formed as a difference: the series −θ²/8 + θ⁴/384 − θ⁶/46080
-// below the threshold of quaternion_exp, −2·sin²(θ/4) above it). Adding 1 to the scalar part
-// gives quaternion_exp(φ) up to one rounding.
+// small the step (cos(θ/2) − 1 is never formed as a difference: the series −θ²/8 + θ⁴/384 −
+// θ⁶/46080 below the threshold of quaternion_exp, −2·sin²(θ/4) above it). Adding 1 to the scalar
+// part gives quaternion_exp(φ) up to one rounding.
 template <class T>
 Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
   const T t = squared_norm(phi);

@@ -32,10 +32,9 @@ inline constexpr int quaternion_product_flops = 28;
 // q_ref←body = q_ref←mid ⊗ q_mid←body).
 template <class T>
 constexpr Quaternion<T> operator*(const Quaternion<T>& a, const Quaternion<T>& b) noexcept {
-  return {a.w * b.w - a.x * b.x - a.y * b.y - a.z * b.z,
-          a.w * b.x + a.x * b.w + a.y * b.z - a.z * b.y,
-          a.w * b.y - a.x * b.z + a.y * b.w + a.z * b.x,
-          a.w * b.z + a.x * b.y - a.y * b.x + a.z * b.w};
+  return {
+      a.w * b.w - a.x * b.x - a.y * b.y - a.z * b.z, a.w * b.x + a.x * b.w + a.y * b.z - a.z * b.y,
+      a.w * b.y - a.x * b.z + a.y * b.w + a.z * b.x, a.w * b.z + a.x * b.y - a.y * b.x + a.z * b.w};
 }
 
 // Component-wise scaling s·q (not a rotation by itself; used by integrators and series).

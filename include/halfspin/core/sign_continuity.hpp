@@ -8,7 +8,8 @@ namespace halfspin {
 
 // Returns q or −q, whichever has the non-negative four-dimensional dot product with previous.
 template <class T>
-constexpr Quaternion<T> nearest_sign(const Quaternion<T>& q, const Quaternion<T>& previous) noexcept {
+constexpr Quaternion<T> nearest_sign(const Quaternion<T>& q,
+                                     const Quaternion<T>& previous) noexcept {
   return dot(q, previous) < T(0) ? -q : q;
 }
 

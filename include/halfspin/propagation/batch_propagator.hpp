@@ -4,11 +4,12 @@
 // one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of Coning1Sample) and a
 // renormalization. The stepper contract is the scalar path's (stepper_traits.hpp): each lane forms
 // the increment δ = exp(Δθ/2) − 1 without cancellation (the series of cos(θ/2) − 1 has no
-// constant term) and applies it with apply_increment, q + q ⊗ δ. Input per call, also structure-of-arrays (BatchSamples, written in place through
-// samples() or copied in by step(dx, dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame,
-// integral of ω over the lane's sample interval) and a per-lane interval dt (s). dt is per lane so
-// that lanes may run with jittered or different sample timing; it is used for validation and
-// elapsed time only (delta-angles already carry time).
+// constant term) and applies it with apply_increment, q + q ⊗ δ. Input per call, also
+// structure-of-arrays (BatchSamples, written in place through samples() or copied in by step(dx,
+// dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame, integral of ω over the lane's sample
+// interval) and a per-lane interval dt (s). dt is per lane so that lanes may run with jittered or
+// different sample timing; it is used for validation and elapsed time only (delta-angles already
+// carry time).
 //
 // Why a separate class and not N Propagators: the lane loop is written so that g++ and clang++
 // vectorize it at -O2/-O3 on the default x86-64 target (SSE2: 4 float or 2 double lanes per
@@ -59,11 +60,12 @@
 // set_lane.)
 //
 // Cost per lane-step (flops, + − ×): validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15,
-// scaling Δθ 3, plain application 32, first-order renormalization 13, elapsed-time (Kahan) sum 4, finiteness
-// of the result 6: 80, plus 8 comparisons and 7 selects. Memory, all inside the object (no heap):
-// 12·N scalars of state (w, x, y, z, elapsed-time sum and carry, double-buffered), 4·N of input,
-// N accept flags and N 64-bit rejection counters: 17·N·sizeof(T) + 8·N bytes, about 144 kB for
-// 1024 double lanes (allocate a large batch statically or on the heap, not on a small stack).
+// scaling Δθ 3, plain application 32, first-order renormalization 13, elapsed-time (Kahan) sum 4,
+// finiteness of the result 6: 80, plus 8 comparisons and 7 selects. Memory, all inside the object
+// (no heap): 12·N scalars of state (w, x, y, z, elapsed-time sum and carry, double-buffered), 4·N
+// of input, N accept flags and N 64-bit rejection counters: 17·N·sizeof(T) + 8·N bytes, about 144
+// kB for 1024 double lanes (allocate a large batch statically or on the heap, not on a small
+// stack).
 
 #include <array>
 #include <cmath>

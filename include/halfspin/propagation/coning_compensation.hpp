@@ -79,7 +79,8 @@ inline constexpr ConingCoefficientSet<2> three_sample_miller{{57, 33}, 80};  // 
 namespace rotation_vector_rules {
 // N delta-angles tiling the step, coefficient set `set` (unit quadrature weights).
 template <std::size_t N>
-constexpr RotationVectorRule<N> coning(const ConingCoefficientSet<(N > 0 ? N - 1 : 0)>& set) noexcept {
+constexpr RotationVectorRule<N> coning(
+    const ConingCoefficientSet<(N > 0 ? N - 1 : 0)>& set) noexcept {
   RotationVectorRule<N> r{SampleLayout::delta_angles, {}, 1, set};
   for (std::size_t i = 0; i < N; ++i) {
     r.quadrature[i] = 1;
@@ -96,7 +97,8 @@ struct Coning3Sample {
   static constexpr RotationVectorRule<3> value = coning<3>(coning_coefficients::three_sample);
 };
 struct Coning3SampleMiller {
-  static constexpr RotationVectorRule<3> value = coning<3>(coning_coefficients::three_sample_miller);
+  static constexpr RotationVectorRule<3> value =
+      coning<3>(coning_coefficients::three_sample_miller);
 };
 struct Coning4Sample {
   static constexpr RotationVectorRule<4> value = coning<4>(coning_coefficients::four_sample);

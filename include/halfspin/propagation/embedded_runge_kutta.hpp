@@ -21,9 +21,9 @@
 //
 // Cost (counted as in explicit_runge_kutta.hpp, sqrt one flop): the explicit stepper's cost plus
 // the weighted sum of the b_i − b̂_i (5 per nonzero weight, 4 per addition) plus 9 for the
-// estimate (|δ|² 7, √ 1, × 2 1); `flops` computes the totals from the tableau. The last stage of each pair is the
-// first of the next step (first-same-as-last); these steppers are stateless and recompute it.
-// Memory: S slopes and S rates on the stack.
+// estimate (|δ|² 7, √ 1, × 2 1); `flops` computes the totals from the tableau. The last stage of
+// each pair is the first of the next step (first-same-as-last); these steppers are stateless and
+// recompute it. Memory: S slopes and S rates on the stack.
 
 #include <array>
 #include <cmath>

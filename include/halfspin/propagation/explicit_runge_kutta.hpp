@@ -9,8 +9,9 @@
 // the stepper returns the increment δ = P − 1 = dt Σ b_i m_i (stepper_traits.hpp), formed from
 // the stage increments D_i = dt Σ_j a_ij m_j as m_i = ½(0, ω_i) + ½ D_i ⊗ (0, ω_i), so nothing
 // is ever added to 1 inside the step and δ is accurate relative to its own size. Nothing
-// renormalizes inside the step: the norm drifts (for RK4 at constant rate by a factor √(1 − θ⁶/4608 + θ⁸/147456) per step,
-// θ = |ω| dt; see test_runge_kutta.cpp), and renormalization is the propagator's policy.
+// renormalizes inside the step: the norm drifts (for RK4 at constant rate by a factor √(1 − θ⁶/4608
+// + θ⁸/147456) per step, θ = |ω| dt; see test_runge_kutta.cpp), and renormalization is the
+// propagator's policy.
 //
 // Where the stage rates come from decides the order reached (Butcher's order conditions assume
 // exact stage values of ω):
@@ -154,8 +155,8 @@ constexpr std::array<Vector3<T>, sizeof...(I)> stage_rates_from_samples(
 template <class Tableau, std::size_t Window, class T>
 constexpr std::array<Vector3<T>, Tableau::value.stages> stage_rates_from_samples(
     const std::array<Vector3<T>, Window>& rate) noexcept {
-  return stage_rates_from_samples<Tableau, Window>(rate,
-                                                   std::make_index_sequence<Tableau::value.stages>{});
+  return stage_rates_from_samples<Tableau, Window>(
+      rate, std::make_index_sequence<Tableau::value.stages>{});
 }
 
 // Rates at the stage times from a rate function of τ ∈ [0, dt] (rad/s); one call per distinct node.
@@ -191,7 +192,8 @@ constexpr Quaternion<T> times_pure(const Quaternion<T>& q, const Vector3<T>& w) 
 // (a stage increment), b (the solution) or b − b̂ (the embedded pair's estimate).
 template <class Tableau, class T, std::size_t Row>
 struct StageWeights {
-  static constexpr std::array<T, Tableau::value.stages> value = TableauCoefficients<Tableau, T>::a[Row];
+  static constexpr std::array<T, Tableau::value.stages> value =
+      TableauCoefficients<Tableau, T>::a[Row];
 };
 template <class Tableau, class T>
 struct SolutionWeights {
@@ -238,8 +240,8 @@ constexpr void stage_slope(std::array<Quaternion<T>, S>& k, const std::array<Vec
                            T half_dt) noexcept {
   const Quaternion<T> pure{T(0), rate[I].x, rate[I].y, rate[I].z};
   if constexpr (any_nonzero(Tableau::value.a[I])) {
-    const Quaternion<T> d = weighted_slopes<StageWeights<Tableau, T, I>>(
-        k, half_dt, std::make_index_sequence<I>{});
+    const Quaternion<T> d =
+        weighted_slopes<StageWeights<Tableau, T, I>>(k, half_dt, std::make_index_sequence<I>{});
     k[I] = pure + times_pure(d, rate[I]);
   } else {
     k[I] = pure;
@@ -247,9 +249,9 @@ constexpr void stage_slope(std::array<Quaternion<T>, S>& k, const std::array<Vec
 }
 
 template <class Tableau, class T, std::size_t S, std::size_t... I>
-constexpr std::array<Quaternion<T>, S> increment_stage_slopes(const std::array<Vector3<T>, S>& rate,
-                                                              T half_dt,
-                                                              std::index_sequence<I...> /*stages*/) noexcept {
+constexpr std::array<Quaternion<T>, S> increment_stage_slopes(
+    const std::array<Vector3<T>, S>& rate, T half_dt,
+    std::index_sequence<I...> /*stages*/) noexcept {
   std::array<Quaternion<T>, S> k{};
   (stage_slope<Tableau, I>(k, rate, half_dt), ...);
   return k;
@@ -303,9 +305,9 @@ struct ExplicitRungeKutta {
       Layout == SampleLayout::rate_function || detail::all_nodes_on_grid(Tableau::value, Window);
   // Order of the quaternion state (attitude and norm). Interpolated stage rates cap it at 2 (see
   // the header comment).
-  static constexpr int state_order =
-      exact_stage_rates ? Tableau::value.order
-                        : (Tableau::value.order < 2 ? Tableau::value.order : 2);
+  static constexpr int state_order = exact_stage_rates
+                                         ? Tableau::value.order
+                                         : (Tableau::value.order < 2 ? Tableau::value.order : 2);
   // Order of the attitude (the angle error once the norm is restored): the tableau's attitude
   // order with exact stage rates, else the state order.
   static constexpr int order = exact_stage_rates ? Tableau::value.attitude_order : state_order;
@@ -316,14 +318,17 @@ struct ExplicitRungeKutta {
   // δ = P − 1 from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
-  static constexpr Increment<T> increment(const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
-    return {increment_from_stage_rates(detail::stage_rates_from_samples<Tableau, Window>(rate), dt), T(0)};
+  static constexpr Increment<T> increment(const std::array<Vector3<T>, Window>& rate,
+                                          T dt) noexcept {
+    return {increment_from_stage_rates(detail::stage_rates_from_samples<Tableau, Window>(rate), dt),
+            T(0)};
   }
   // δ = P − 1 from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
   static Increment<T> increment(const RateFunction& rate_at, T dt) noexcept {
-    return {increment_from_stage_rates(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt), T(0)};
+    return {increment_from_stage_rates(detail::stage_rates_from_function<Tableau>(rate_at, dt), dt),
+            T(0)};
   }
 
   // q + q ⊗ δ from rate samples (the plain application; q body → reference).
@@ -357,7 +362,8 @@ struct ExplicitRungeKutta {
 // step, mid-step rates by linear interpolation. "RateFunction": a callable gives ω at any τ.
 
 // RK2 midpoint, samples at start/middle/end (only the middle one read): order 2.
-struct RungeKutta2MidpointSampled : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 3> {
+struct RungeKutta2MidpointSampled
+    : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 3> {
   static constexpr const char* name = "runge_kutta_2_midpoint_sampled";
   static constexpr const char* description =
       "classic RK2 (midpoint) on the quaternion, stages at samples; 2 rates/step, order 2";
@@ -384,7 +390,8 @@ struct RungeKutta2MidpointRateFunction
 // has rotation angle θ + O(θ⁵). Measured: attitude order 4.0 on classical coning, the
 // axisymmetric body and the two-gimbal motion, state order 3.0 (test_lie_group, test_orders).
 // With a renormalization policy the attitude error is what remains.
-struct RungeKutta3KuttaSampled : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 3> {
+struct RungeKutta3KuttaSampled
+    : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 3> {
   static constexpr const char* name = "runge_kutta_3_kutta_sampled";
   static constexpr const char* description =
       "Kutta's RK3, stages at samples; 2 rates/step, attitude order 4";
@@ -397,7 +404,8 @@ struct RungeKutta3KuttaInterpolated
       "Kutta's RK3, stage rates interpolated linearly; 1 rate/step, order 2";
 };
 // RK3 Kutta, rate function: state order 3, attitude order 4 (see RungeKutta3KuttaSampled).
-struct RungeKutta3KuttaRateFunction : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rate_function, 0> {
+struct RungeKutta3KuttaRateFunction
+    : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rate_function, 0> {
   static constexpr const char* name = "runge_kutta_3_kutta_rate_function";
   static constexpr const char* description =
       "Kutta's RK3 on a rate function (truth motions only); attitude order 4";

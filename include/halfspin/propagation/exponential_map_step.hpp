@@ -36,7 +36,8 @@ struct MidpointMean {
 };
 // A real sample at mid-step: midpoint rule, degree 1; the step spans two sample periods.
 struct MidpointSample {
-  static constexpr RotationVectorRule<3> value{SampleLayout::rates_spanning, {{0, 1, 0}}, 1, {{0, 0}, 1}};
+  static constexpr RotationVectorRule<3> value{
+      SampleLayout::rates_spanning, {{0, 1, 0}}, 1, {{0, 0}, 1}};
 };
 }  // namespace rotation_vector_rules
 

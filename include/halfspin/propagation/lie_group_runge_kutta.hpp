@@ -33,8 +33,8 @@
 // 2–4: θ_i 7 per nonzero a_ij (a·dt 1, 3 ×, 3 +), dexp⁻¹ 30 (two cross products 18, 6 ×, 6 +);
 // θ(dt) 7 per nonzero b_i; exp(θ/2) − 1 19 on its series branch (|θ|² below
 // ScalarTraits::exp_series_angle_squared; above, add √, ÷ and two sines, each counted 1); the
-// plain application 32. The increment (stepper_traits.hpp) is exp(θ(dt)/2) − 1. Memory: four rate vectors and four algebra slopes on the stack; nothing between
-// steps.
+// plain application 32. The increment (stepper_traits.hpp) is exp(θ(dt)/2) − 1. Memory: four rate
+// vectors and four algebra slopes on the stack; nothing between steps.
 
 #include <array>
 #include <cstddef>
@@ -69,7 +69,8 @@ struct MuntheKaasRungeKutta {
   static_assert(Tableau::value.order <= 4, "the dexp⁻¹ truncation supports order ≤ 4");
   using Explicit = ExplicitRungeKutta<Tableau, Layout, Window>;  // same inputs
   using tableau = Tableau;
-  using family = MuntheKaasRungeKutta<Tableau, Layout, Window>;  // the bounds layer dispatches on it
+  using family =
+      MuntheKaasRungeKutta<Tableau, Layout, Window>;  // the bounds layer dispatches on it
   static constexpr SampleLayout layout = Layout;
   static constexpr std::size_t window = Window;
   static constexpr std::size_t new_samples = Explicit::new_samples;
@@ -121,8 +122,8 @@ struct MuntheKaasRungeKutta {
   // Folds over index sequences with `if constexpr` (as explicit_runge_kutta.hpp): a step tests no
   // coefficient at run time.
   template <class Weights, std::size_t J, class T>
-  static constexpr void add_weighted_rate(Vector3<T>& theta, const std::array<Vector3<T>, stages>& k,
-                                          T dt) noexcept {
+  static constexpr void add_weighted_rate(Vector3<T>& theta,
+                                          const std::array<Vector3<T>, stages>& k, T dt) noexcept {
     if constexpr (Weights::value[J] != T(0)) {
       theta += (Weights::value[J] * dt) * k[J];
     }
@@ -137,10 +138,11 @@ struct MuntheKaasRungeKutta {
   }
   template <std::size_t I, class T>
   static constexpr void stage_slope(std::array<Vector3<T>, stages>& k,
-                                    const std::array<Vector3<T>, stages>& stage_rate, T dt) noexcept {
+                                    const std::array<Vector3<T>, stages>& stage_rate,
+                                    T dt) noexcept {
     if constexpr (I > 0) {
-      const Vector3<T> theta = weighted_rates<detail::StageWeights<Tableau, T, I>>(
-          k, dt, std::make_index_sequence<I>{});
+      const Vector3<T> theta =
+          weighted_rates<detail::StageWeights<Tableau, T, I>>(k, dt, std::make_index_sequence<I>{});
       k[I] = detail::rotation_vector_rate(theta, stage_rate[I]);
     }
   }

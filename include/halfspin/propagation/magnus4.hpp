@@ -3,12 +3,12 @@
 // step is two sample periods):
 //     φ = dt/6·(ω0 + 4ω1 + ω2) + dt²/12·(ω0 × ω2),   q(t + dt) = q(t) ⊗ exp(φ/2).
 // Derivation: for q̇ = ½ q ⊗ (0, ω) the rotation vector of the step obeys Bortz's equation
-// φ̇ = ω + ½ φ × ω + O(|φ|²|ω|), so φ = ∫ω + ½∫₀^dt (∫₀^t ω) × ω(t) dt + O(dt⁵). Simpson's rule makes
-// the first term fourth order. In the second, with ω = a + b·τ about mid-step, the double integral
-// is (dt³/12)·a × b + O(dt⁵), and ω0 × ω2 = dt·a × b + O(dt³): the commutator (coning) term
-// dt²/12·ω0 × ω2. Local error O(dt⁵), global order 4 with real samples at start, middle and end
-// (Magnus expansion: Iserles and Nørsett 1999; Blanes, Casas, Oteo and Ros 2009). Its delta-angle
-// counterpart is the two-sample coning algorithm (coning_compensation.hpp).
+// φ̇ = ω + ½ φ × ω + O(|φ|²|ω|), so φ = ∫ω + ½∫₀^dt (∫₀^t ω) × ω(t) dt + O(dt⁵). Simpson's rule
+// makes the first term fourth order. In the second, with ω = a + b·τ about mid-step, the double
+// integral is (dt³/12)·a × b + O(dt⁵), and ω0 × ω2 = dt·a × b + O(dt³): the commutator (coning)
+// term dt²/12·ω0 × ω2. Local error O(dt⁵), global order 4 with real samples at start, middle and
+// end (Magnus expansion: Iserles and Nørsett 1999; Blanes, Casas, Oteo and Ros 2009). Its
+// delta-angle counterpart is the two-sample coning algorithm (coning_compensation.hpp).
 //
 // A RotationVectorRule (rotation_vector_family.hpp): Simpson weights 1, 4, 1 over 6 and the
 // commutator weight 1/12 at separation 2; order, flops and bound are derived from it.
@@ -29,7 +29,8 @@ namespace halfspin {
 namespace rotation_vector_rules {
 // Simpson's rule and the commutator dt²/12·ω0 × ω2 on rates at start, middle and end.
 struct Magnus4 {
-  static constexpr RotationVectorRule<3> value{SampleLayout::rates_spanning, {{1, 4, 1}}, 6, {{0, 1}, 12}};
+  static constexpr RotationVectorRule<3> value{
+      SampleLayout::rates_spanning, {{1, 4, 1}}, 6, {{0, 1}, 12}};
 };
 }  // namespace rotation_vector_rules
 

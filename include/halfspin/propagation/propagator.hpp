@@ -71,7 +71,9 @@ class Propagator {
   // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks).
   constexpr Propagator(const Quaternion<T>& initial, const GyroLimits<T>& limits,
                        T tick_period = T(0), Renormalization policy = {}) noexcept
-      : state_(Accumulation::start(initial)), limits_(limits), tick_period_(tick_period),
+      : state_(Accumulation::start(initial)),
+        limits_(limits),
+        tick_period_(tick_period),
         policy_(policy) {
     restart_history();
   }
@@ -238,15 +240,22 @@ class Propagator {
 
   void count_rejection(Status s) noexcept {
     switch (s) {
-      case Status::non_finite: ++counters_.rejected_non_finite; break;
-      case Status::non_positive_step: ++counters_.rejected_non_positive_step; break;
+      case Status::non_finite:
+        ++counters_.rejected_non_finite;
+        break;
+      case Status::non_positive_step:
+        ++counters_.rejected_non_positive_step;
+        break;
       case Status::step_too_long:
         ++counters_.rejected_step_too_long;
         gap_pending_ = true;
         break;
-      case Status::over_range: ++counters_.rejected_over_range; break;
+      case Status::over_range:
+        ++counters_.rejected_over_range;
+        break;
       case Status::ok:
-      case Status::waiting_for_samples: break;
+      case Status::waiting_for_samples:
+        break;
     }
   }
 

@@ -1,6 +1,7 @@
 #pragma once
 // The rotation-vector family as data: every stepper whose step is q ⊗ exp(φ/2) with
-//     φ = α̂ + β̂,   α̂ = Σ w_i s_i (× dt for rates),   β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (× dt² for rates),
+//     φ = α̂ + β̂,   α̂ = Σ w_i s_i (× dt for rates),   β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (× dt² for
+//     rates),
 // the s_i being the samples of the step's window: rate samples (rad/s) at points of the step, or
 // delta-angles (rad) over the sample intervals that tile it (with, for one algorithm, the previous
 // step's last one in front). α̂ is a quadrature of ∫ω (exact for delta-angles), β̂ estimates the
@@ -90,7 +91,9 @@ constexpr Rational operator+(Rational a, Rational b) noexcept {
   const std::int64_t g = greatest_common_divisor(a.den, b.den);
   return reduced(a.num * (b.den / g) + b.num * (a.den / g), (a.den / g) * b.den);
 }
-constexpr Rational operator-(Rational a, Rational b) noexcept { return a + Rational{-b.num, b.den}; }
+constexpr Rational operator-(Rational a, Rational b) noexcept {
+  return a + Rational{-b.num, b.den};
+}
 constexpr Rational operator*(Rational a, Rational b) noexcept {
   const Rational x = reduced(a.num, b.den);
   const Rational y = reduced(b.num, a.den);
@@ -168,7 +171,8 @@ struct WeightedPair {
 
 // Where the samples of a rule sit, as functionals of ω over the step [−½, ½].
 template <class T, std::size_t W>
-constexpr std::array<SampleMoments<T>, W> rule_sample_moments(const RotationVectorRule<W>& r) noexcept {
+constexpr std::array<SampleMoments<T>, W> rule_sample_moments(
+    const RotationVectorRule<W>& r) noexcept {
   std::array<SampleMoments<T>, W> s{};
   const std::int64_t w = static_cast<std::int64_t>(W);
   for (std::size_t i = 0; i < W; ++i) {
@@ -183,7 +187,8 @@ constexpr std::array<SampleMoments<T>, W> rule_sample_moments(const RotationVect
       case SampleLayout::delta_angles:  // [i/W − ½, (i + 1)/W − ½]
         s[i] = interval_moments<T>(reduced(2 * k - w, 2 * w), reduced(2 * k + 2 - w, 2 * w));
         break;
-      case SampleLayout::delta_angles_with_previous:  // the previous period, then W − 1 tiling the step
+      case SampleLayout::delta_angles_with_previous:  // the previous period, then W − 1 tiling the
+                                                      // step
         s[i] = k == 0 ? interval_moments<T>(Rational{-3, 2}, Rational{-1, 2})
                       : interval_moments<T>(reduced(2 * (k - 1) - (w - 1), 2 * (w - 1)),
                                             reduced(2 * k - (w - 1), 2 * (w - 1)));
@@ -200,12 +205,14 @@ constexpr std::size_t all_pairs(std::size_t w) noexcept { return w * (w - 1) / 2
 
 // Every pair of the rule (zero weights included), by separation, then by position.
 template <std::size_t W>
-constexpr std::array<WeightedPair, all_pairs(W)> rule_pairs(const RotationVectorRule<W>& r) noexcept {
+constexpr std::array<WeightedPair, all_pairs(W)> rule_pairs(
+    const RotationVectorRule<W>& r) noexcept {
   std::array<WeightedPair, all_pairs(W)> p{};
   std::size_t n = 0;
   for (std::size_t m = 1; m < W; ++m) {
     for (std::size_t i = 0; i + m < W; ++i) {
-      p[n] = WeightedPair{i, i + m, reduced(r.commutator.numerators[m - 1], r.commutator.denominator)};
+      p[n] =
+          WeightedPair{i, i + m, reduced(r.commutator.numerators[m - 1], r.commutator.denominator)};
       ++n;
     }
   }
@@ -235,9 +242,10 @@ constexpr int quadrature_degree(const RotationVectorRule<W>& r) noexcept {
     Rational sum{0, 1};
     for (std::size_t i = 0; i < W; ++i) {
       // the point as a fraction of the step: 1 (rate at end) or i/(W − 1)
-      const Rational x = r.layout == SampleLayout::rate_at_end
-                             ? Rational{1, 1}
-                             : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
+      const Rational x =
+          r.layout == SampleLayout::rate_at_end
+              ? Rational{1, 1}
+              : reduced(static_cast<std::int64_t>(i), static_cast<std::int64_t>(W - 1));
       Rational xk{1, 1};
       for (int j = 0; j < k; ++j) {
         xk = xk * x;
@@ -306,7 +314,8 @@ constexpr int coning_drift_order(const RotationVectorRule<W>& r) noexcept {
       const long double pairs = static_cast<long double>(W - m);
       const long double weight = static_cast<long double>(r.commutator.numerators[m - 1]) /
                                  static_cast<long double>(r.commutator.denominator);
-      // 2(1 − cos λ) = Σ_{k≥1} 2(−1)^(k+1) λ^(2k)/(2k)!, sin mλ = Σ_{l≥0} (−1)^l (mλ)^(2l+1)/(2l+1)!
+      // 2(1 − cos λ) = Σ_{k≥1} 2(−1)^(k+1) λ^(2k)/(2k)!, sin mλ = Σ_{l≥0} (−1)^l
+      // (mλ)^(2l+1)/(2l+1)!
       long double product = 0.0L;
       for (int even = 2; even < power; even += 2) {
         const int odd = power - even;
@@ -372,11 +381,16 @@ constexpr bool has_commutator(const RotationVectorRule<W>& r) noexcept {
 
 constexpr std::size_t new_samples_of(SampleLayout layout, std::size_t window) noexcept {
   switch (layout) {
-    case SampleLayout::rate_at_end: return 1;
-    case SampleLayout::rates_spanning: return window - 1;
-    case SampleLayout::delta_angles: return window;
-    case SampleLayout::delta_angles_with_previous: return window - 1;
-    case SampleLayout::rate_function: return 0;
+    case SampleLayout::rate_at_end:
+      return 1;
+    case SampleLayout::rates_spanning:
+      return window - 1;
+    case SampleLayout::delta_angles:
+      return window;
+    case SampleLayout::delta_angles_with_previous:
+      return window - 1;
+    case SampleLayout::rate_function:
+      return 0;
   }
   return 0;
 }
@@ -418,7 +432,8 @@ struct RotationVectorStepper {
 
   // α̂ = Σ w_i s_i (rad): the quadrature of ∫ω over the step (delta-angles: their sum).
   template <class T>
-  static constexpr Vector3<T> quadrature_term(const std::array<Vector3<T>, window>& s, T dt) noexcept {
+  static constexpr Vector3<T> quadrature_term(const std::array<Vector3<T>, window>& s,
+                                              T dt) noexcept {
     const Vector3<T> sum = weighted_sum(s, std::make_index_sequence<window>{});
     constexpr T inverse = detail::RotationVectorWeights<Rule, T>::quadrature_inverse;
     if constexpr (detail::carries_rates(layout)) {
@@ -440,17 +455,20 @@ struct RotationVectorStepper {
   // β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (rad; rates: × dt²): the commutator (coning) term, also the
   // online error signal. Zero for a rule without one.
   template <class T>
-  static constexpr Vector3<T> commutator_term(const std::array<Vector3<T>, window>& s, T dt) noexcept {
+  static constexpr Vector3<T> commutator_term(const std::array<Vector3<T>, window>& s,
+                                              T dt) noexcept {
     Vector3<T> beta{};
     bool started = false;
-    add_separations(beta, started, s, dt, std::make_index_sequence<(window > 0 ? window - 1 : 0)>{});
+    add_separations(beta, started, s, dt,
+                    std::make_index_sequence<(window > 0 ? window - 1 : 0)>{});
     static_cast<void>(dt);
     return beta;
   }
 
   // φ = α̂ + β̂ (rad, body frame at the step start).
   template <class T>
-  static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, window>& s, T dt = T(0)) noexcept {
+  static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, window>& s,
+                                              T dt = T(0)) noexcept {
     if constexpr (has_estimate) {
       return quadrature_term(s, dt) + commutator_term(s, dt);
     } else {
@@ -473,7 +491,8 @@ struct RotationVectorStepper {
 
   // q ⊗ exp(φ/2), the increment applied plainly (q body → reference).
   template <class T>
-  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& s, T dt) noexcept {
+  static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& s,
+                            T dt) noexcept {
     return apply_increment(q, increment(s, dt).delta);
   }
   // step() and the error estimate of increment().

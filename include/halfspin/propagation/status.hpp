@@ -19,12 +19,18 @@ enum class Status : std::uint8_t {
 // A short, stable name for logs and telemetry ("ok", "non_finite", ...).
 constexpr const char* status_name(Status s) noexcept {
   switch (s) {
-    case Status::ok: return "ok";
-    case Status::waiting_for_samples: return "waiting_for_samples";
-    case Status::non_finite: return "non_finite";
-    case Status::non_positive_step: return "non_positive_step";
-    case Status::step_too_long: return "step_too_long";
-    case Status::over_range: return "over_range";
+    case Status::ok:
+      return "ok";
+    case Status::waiting_for_samples:
+      return "waiting_for_samples";
+    case Status::non_finite:
+      return "non_finite";
+    case Status::non_positive_step:
+      return "non_positive_step";
+    case Status::step_too_long:
+      return "step_too_long";
+    case Status::over_range:
+      return "over_range";
   }
   return "unknown";
 }

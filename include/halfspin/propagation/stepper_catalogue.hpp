@@ -52,8 +52,10 @@ constexpr bool meets_contract() noexcept {
   static_assert(std::is_same<decltype(S::name), const char* const>::value, "a stepper has a name");
   static_assert(std::is_same<decltype(S::description), const char* const>::value,
                 "a stepper has a one-line description");
-  static_assert(std::is_same<decltype(S::layout), const SampleLayout>::value, "a stepper has a layout");
-  static_assert(std::is_same<decltype(S::window), const std::size_t>::value, "a stepper has a window");
+  static_assert(std::is_same<decltype(S::layout), const SampleLayout>::value,
+                "a stepper has a layout");
+  static_assert(std::is_same<decltype(S::window), const std::size_t>::value,
+                "a stepper has a window");
   static_assert(std::is_same<decltype(S::order), const int>::value, "a stepper has an order");
   static_assert(std::is_same<decltype(S::flops), const int>::value, "a stepper counts its flops");
   static_assert(std::is_same<decltype(S::has_estimate), const bool>::value,
@@ -87,7 +89,8 @@ struct StepperCatalogueOf {
     ((!found && Entries::id == id ? (f(Entries{}), found = true) : false), ...);
     return found;
   }
-  static constexpr bool all_meet_contract = (detail::meets_contract<typename Entries::stepper>() && ...);
+  static constexpr bool all_meet_contract =
+      (detail::meets_contract<typename Entries::stepper>() && ...);
   static constexpr bool ids_unique() noexcept {
     for (std::size_t i = 0; i < size; ++i) {
       for (std::size_t j = 0; j < i; ++j) {
@@ -102,6 +105,10 @@ struct StepperCatalogueOf {
 
 // The catalogue, in the order the tools list it: exponential-map family, Magnus, coning
 // algorithms, Runge–Kutta, embedded pairs, Lie-group methods. Ids are stable (never reused).
+// One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
+// clang-format off
+// One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
+// clang-format off
 using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<0, ExponentialMapHoldEnd>,
     CatalogueEntry<16, ExponentialMapHoldStart>,
@@ -128,6 +135,8 @@ using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<3, MuntheKaas4Sampled>,
     CatalogueEntry<24, MuntheKaas4Interpolated>,
     CatalogueEntry<4, MuntheKaas4RateFunction>>;
+// clang-format on
+// clang-format on
 
 static_assert(StepperCatalogue::all_meet_contract, "every catalogued stepper meets the contract");
 static_assert(StepperCatalogue::ids_unique(), "catalogue ids are unique");

@@ -80,11 +80,16 @@ constexpr bool carries_delta_angles(SampleLayout layout) noexcept {
 // Sample periods one step spans, given the layout and window.
 constexpr std::size_t periods_per_step(SampleLayout layout, std::size_t window) noexcept {
   switch (layout) {
-    case SampleLayout::rate_at_end: return 1;
-    case SampleLayout::rates_spanning: return window - 1;
-    case SampleLayout::delta_angles: return window;
-    case SampleLayout::delta_angles_with_previous: return window - 1;
-    case SampleLayout::rate_function: return 1;
+    case SampleLayout::rate_at_end:
+      return 1;
+    case SampleLayout::rates_spanning:
+      return window - 1;
+    case SampleLayout::delta_angles:
+      return window;
+    case SampleLayout::delta_angles_with_previous:
+      return window - 1;
+    case SampleLayout::rate_function:
+      return 1;
   }
   return 1;
 }
@@ -111,7 +116,8 @@ inline constexpr int apply_increment_flops = 32;
 // place where an increment meets the attitude; the propagator reaches it through its accumulation
 // policy.
 template <class T>
-constexpr Quaternion<T> apply_increment(const Quaternion<T>& q, const Quaternion<T>& delta) noexcept {
+constexpr Quaternion<T> apply_increment(const Quaternion<T>& q,
+                                        const Quaternion<T>& delta) noexcept {
   return q + q * delta;
 }
 

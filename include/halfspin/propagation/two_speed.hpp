@@ -20,8 +20,8 @@
 // the same limit under coning, a⁴ and lateral a³ terms).
 //
 // Cost: high rate 24 flops per delta-angle (Δθ_prev/6 3, sum 3, cross 9, halve 3, add to β 3, add
-// to α 3); low rate 3 (α + β) + 51 (exp(φ/2) − 1 and its plain application). Memory: 9 scalars and two
-// counters.
+// to α 3); low rate 3 (α + β) + 51 (exp(φ/2) − 1 and its plain application). Memory: 9 scalars and
+// two counters.
 
 #include <cstdint>
 

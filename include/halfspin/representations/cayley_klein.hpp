@@ -24,7 +24,8 @@ struct CayleyKlein {
   std::complex<T> delta;  // w + i z
 };
 
-// Unit quaternion (body → reference attitude) → Cayley–Klein parameters, the entries of U(q); exact.
+// Unit quaternion (body → reference attitude) → Cayley–Klein parameters, the entries of U(q);
+// exact.
 template <class T>
 constexpr CayleyKlein<T> to_cayley_klein(const Quaternion<T>& q) noexcept {
   return {std::complex<T>(q.w, -q.z), std::complex<T>(-q.y, -q.x), std::complex<T>(q.y, -q.x),

@@ -16,7 +16,8 @@ constexpr std::array<T, 4> to_scalar_last(const Quaternion<T>& q) noexcept {
   return {q.x, q.y, q.z, q.w};
 }
 
-// Array {x, y, z, w} holding a Hamilton, body → reference quaternion → Quaternion (w, x, y, z); exact.
+// Array {x, y, z, w} holding a Hamilton, body → reference quaternion → Quaternion (w, x, y, z);
+// exact.
 template <class T>
 constexpr Quaternion<T> quaternion_from_scalar_last(const std::array<T, 4>& a) noexcept {
   return {a[3], a[0], a[1], a[2]};

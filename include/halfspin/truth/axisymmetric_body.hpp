@@ -12,14 +12,14 @@
 // Attitude (body → reference). Let h(t) = I ω(t) be the angular momentum in body axes and
 // h0 = h(0). Then ω = h/It − λ e3, and the attitude is
 //     q(t) = q0 ⊗ exp(½ (h0/It) t) ⊗ exp(−½ λ t e3),
-// with exp the quaternion exponential of a rotation vector, exp(½ φ) = (cos(|φ|/2), sin(|φ|/2) φ/|φ|).
-// Why: write q = q0 ⊗ P(t) ⊗ S(t) with P = exp(½ ν t u0), u0 = h0/|h0|, ν = |h0|/It, and
-// S = exp(−½ λ t e3). Then 2 q* ⊗ q̇ = S* ⊗ (0, ν u0) ⊗ S − λ e3 = ν R(S)ᵀ u0 − λ e3, and R(S)ᵀ turns
+// with exp the quaternion exponential of a rotation vector, exp(½ φ) = (cos(|φ|/2), sin(|φ|/2)
+// φ/|φ|). Why: write q = q0 ⊗ P(t) ⊗ S(t) with P = exp(½ ν t u0), u0 = h0/|h0|, ν = |h0|/It, and S
+// = exp(−½ λ t e3). Then 2 q* ⊗ q̇ = S* ⊗ (0, ν u0) ⊗ S − λ e3 = ν R(S)ᵀ u0 − λ e3, and R(S)ᵀ turns
 // h0 by +λt about e3, which is h(t) (ω⊥'s phase advances by λt, h3 is constant); hence the rate is
-// h(t)/It − λ e3 = ω(t). Equivalently q(t) = exp(½ ν t û) ⊗ q0 ⊗ S(t) with û = R(q0) u0 the direction
-// of the inertial angular momentum H = R(q0) h0: a fixed rotation (q0, which carries h0 onto H), a
-// precession about H at |H|/It, and a body spin at −λ about the symmetry axis. H = R(q(t)) h(t)
-// stays constant, as it must without torque. Evaluate in double or long double.
+// h(t)/It − λ e3 = ω(t). Equivalently q(t) = exp(½ ν t û) ⊗ q0 ⊗ S(t) with û = R(q0) u0 the
+// direction of the inertial angular momentum H = R(q0) h0: a fixed rotation (q0, which carries h0
+// onto H), a precession about H at |H|/It, and a body spin at −λ about the symmetry axis. H =
+// R(q(t)) h(t) stays constant, as it must without torque. Evaluate in double or long double.
 
 #include <cmath>
 
@@ -36,8 +36,8 @@ struct AxisymmetricBodyMotion {
   T transverse_inertia{T(1)};  // It = I1 = I2, kg·m² (only the ratio I3/It matters)
   T axial_inertia{T(1)};       // I3, kg·m²
   T transverse_rate{};         // ω⊥ ≥ 0, rad/s: magnitude of the rate's x–y part
-  T transverse_phase{};        // φ0, rad: direction of the x–y part at t = 0, from body x towards y
-  T axial_rate{};              // ω3, rad/s: rate about the symmetry axis (constant)
+  T transverse_phase{};  // φ0, rad: direction of the x–y part at t = 0, from body x towards y
+  T axial_rate{};        // ω3, rad/s: rate about the symmetry axis (constant)
 
   // λ = (I3 − It)/It · ω3, rad/s: the rate at which ω turns about body z (seen from the body).
   T body_turning_rate() const noexcept {
@@ -45,7 +45,8 @@ struct AxisymmetricBodyMotion {
   }
   // h0/It, rad/s (body axes at t = 0): the precession rate vector |H|/It along the momentum.
   Vector3<T> precession_rate_vector() const noexcept {
-    return {transverse_rate * std::cos(transverse_phase), transverse_rate * std::sin(transverse_phase),
+    return {transverse_rate * std::cos(transverse_phase),
+            transverse_rate * std::sin(transverse_phase),
             axial_inertia / transverse_inertia * axial_rate};
   }
   // |H|/It, rad/s: the rate at which the symmetry axis precesses about the inertial momentum.

@@ -17,8 +17,8 @@ namespace halfspin {
 
 template <class T>
 struct ClassicalConingMotion {
-  T cone_angle;     // a, rad
-  T cone_frequency; // Ω, rad/s
+  T cone_angle;      // a, rad
+  T cone_frequency;  // Ω, rad/s
 
   // 1 − cos a as 2 sin²(a/2): no cancellation for small cone angles.
   T one_minus_cos() const noexcept {
@@ -35,12 +35,13 @@ struct ClassicalConingMotion {
   Vector3<T> rate(T t) const noexcept {
     const T phase = cone_frequency * t;
     const T lateral = cone_frequency * std::sin(cone_angle);
-    return {-cone_frequency * one_minus_cos(), -lateral * std::sin(phase), lateral * std::cos(phase)};
+    return {-cone_frequency * one_minus_cos(), -lateral * std::sin(phase),
+            lateral * std::cos(phase)};
   }
   // Delta-angle (rad): the integral of the body rate over (t0, t1], in closed form. The lateral
-  // part sin a·(cos Ωt1 − cos Ωt0, sin Ωt1 − sin Ωt0) is written with the sum-to-product identities,
-  // 2 sin a sin(Ω(t1 − t0)/2)·(−sin Ωt_mid, cos Ωt_mid): differences of nearly equal cosines would
-  // lose the relative accuracy of a short gyro interval.
+  // part sin a·(cos Ωt1 − cos Ωt0, sin Ωt1 − sin Ωt0) is written with the sum-to-product
+  // identities, 2 sin a sin(Ω(t1 − t0)/2)·(−sin Ωt_mid, cos Ωt_mid): differences of nearly equal
+  // cosines would lose the relative accuracy of a short gyro interval.
   Vector3<T> delta_angle(T t0, T t1) const noexcept {
     const T mid = cone_frequency * (T(0.5) * (t0 + t1));
     const T lateral = T(2) * std::sin(cone_angle) * std::sin(T(0.5) * cone_frequency * (t1 - t0));

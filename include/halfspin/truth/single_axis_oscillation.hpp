@@ -19,10 +19,10 @@ namespace halfspin {
 
 template <class T>
 struct SingleAxisOscillation {
-  Vector3<T> axis{T(1), T(0), T(0)};             // n, unit, body frame (= reference frame)
-  T amplitude{};                                 // A, rad
-  T frequency{};                                 // f, Hz
-  T phase{};                                     // φ, rad
+  Vector3<T> axis{T(1), T(0), T(0)};                // n, unit, body frame (= reference frame)
+  T amplitude{};                                    // A, rad
+  T frequency{};                                    // f, Hz
+  T phase{};                                        // φ, rad
   Quaternion<T> center{Quaternion<T>::identity()};  // q_c, attitude at θ = 0 (body → reference)
 
   // Rotation angle θ(t) = A sin(2π f t + φ), rad; t in s.

@@ -96,14 +96,14 @@ T quantize(T x, T quantum) noexcept {
   return quantum > T(0) ? quantum * std::round(x / quantum) : x;
 }
 
-// Whether a truth motion has a closed-form delta_angle(t0, t1) (else it is integrated from rate(t)).
+// Whether a truth motion has a closed-form delta_angle(t0, t1) (else it is integrated from
+// rate(t)).
 template <class Motion, class T, class = void>
 struct has_closed_form_delta_angle : std::false_type {};
 template <class Motion, class T>
-struct has_closed_form_delta_angle<
-    Motion, T,
-    std::void_t<decltype(std::declval<const Motion&>().delta_angle(std::declval<T>(), std::declval<T>()))>>
-    : std::true_type {};
+struct has_closed_form_delta_angle<Motion, T,
+                                   std::void_t<decltype(std::declval<const Motion&>().delta_angle(
+                                       std::declval<T>(), std::declval<T>()))>> : std::true_type {};
 
 // The integral of motion.rate(t) (rad/s) over [t0, t1] (s), in rad, by the 8-point Gauss–Legendre
 // rule on that interval.
@@ -140,17 +140,17 @@ Vector3<T> truth_delta_angle(const Motion& motion, T t0, T t1) noexcept {
 
 // Which quantity the gyro outputs.
 enum class GyroOutputForm : std::uint8_t {
-  rate,         // body rate at the sample time, rad/s
-  delta_angle   // integral of the body rate over the sample interval, rad
+  rate,        // body rate at the sample time, rad/s
+  delta_angle  // integral of the body rate over the sample interval, rad
 };
 
 // The gyro's error model; all zero is a perfect gyro.
 template <class T>
 struct GyroErrorModel {
-  Vector3<T> bias{};           // rad/s per axis, constant
-  T noise_density{};           // N, rad/s/√Hz (= rad/√s), white rate noise
-  T rate_quantum{};            // rad/s, LSB of a rate output; 0 = not quantized
-  T angle_quantum{};           // rad, LSB of a delta-angle output; 0 = not quantized
+  Vector3<T> bias{};                // rad/s per axis, constant
+  T noise_density{};                // N, rad/s/√Hz (= rad/√s), white rate noise
+  T rate_quantum{};                 // rad/s, LSB of a rate output; 0 = not quantized
+  T angle_quantum{};                // rad, LSB of a delta-angle output; 0 = not quantized
   bool carry_angle_residual{true};  // delta-angles: carry the rounding residual to the next sample
 };
 
@@ -181,7 +181,8 @@ class SyntheticGyro {
       out = {quantize(v.x, model_.rate_quantum), quantize(v.y, model_.rate_quantum),
              quantize(v.z, model_.rate_quantum)};
     } else {
-      const Vector3<T> v = truth_delta_angle_sample(index_) + dt_ * model_.bias + angle_sigma_ * noise;
+      const Vector3<T> v =
+          truth_delta_angle_sample(index_) + dt_ * model_.bias + angle_sigma_ * noise;
       const Vector3<T> carried = model_.carry_angle_residual ? v + residual_ : v;
       out = {quantize(carried.x, model_.angle_quantum), quantize(carried.y, model_.angle_quantum),
              quantize(carried.z, model_.angle_quantum)};

@@ -18,12 +18,12 @@ namespace halfspin {
 
 template <class T>
 struct TwoGimbalMotion {
-  T outer_amplitude{T(0.8)};     // A, rad
-  T outer_frequency{T(1)};       // f_a, Hz
-  T outer_drift{T(0.5)};         // rad/s
-  T inner_amplitude{T(0.6)};     // B, rad
-  T inner_frequency{T(3)};       // f_b, Hz
-  T inner_phase{T(0.3)};         // rad
+  T outer_amplitude{T(0.8)};  // A, rad
+  T outer_frequency{T(1)};    // f_a, Hz
+  T outer_drift{T(0.5)};      // rad/s
+  T inner_amplitude{T(0.6)};  // B, rad
+  T inner_frequency{T(3)};    // f_b, Hz
+  T inner_phase{T(0.3)};      // rad
 
   // Outer gimbal angle α (rad) and its rate (rad/s) at t (s).
   T outer_angle(T t) const noexcept {

@@ -150,7 +150,7 @@ halfspin::Status push_once(halfspin::Propagator<T, S>& p, const Vec& sample, T d
 }  // namespace
 
 extern "C" __attribute__((noinline)) halfspin::Status halfspin_footprint_push(const Vec& sample,
-                                                                             T dt) noexcept {
+                                                                              T dt) noexcept {
   return push_once(halfspin_footprint_propagator, sample, dt);
 }
 

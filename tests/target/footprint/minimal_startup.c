@@ -28,12 +28,23 @@ __attribute__((noreturn)) static void halfspin_semihosting_exit(int status) {
 static void halfspin_fault_handler(void) { halfspin_semihosting_exit(70); }
 
 typedef void (*halfspin_vector)(void);
-__attribute__((section(".vectors"), used)) const halfspin_vector halfspin_vectors[16] = {
-    (halfspin_vector)(uintptr_t)&__stack_top, halfspin_reset_handler,
-    halfspin_fault_handler, halfspin_fault_handler, halfspin_fault_handler,
-    halfspin_fault_handler, halfspin_fault_handler, 0, 0, 0, 0,
-    halfspin_fault_handler, halfspin_fault_handler, 0, halfspin_fault_handler,
-    halfspin_fault_handler};
+__attribute__((section(".vectors"), used))
+const halfspin_vector halfspin_vectors[16] = {(halfspin_vector)(uintptr_t)&__stack_top,
+                                              halfspin_reset_handler,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler,
+                                              0,
+                                              0,
+                                              0,
+                                              0,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler,
+                                              0,
+                                              halfspin_fault_handler,
+                                              halfspin_fault_handler};
 
 void halfspin_reset_handler(void) {
 #if defined(__ARM_FP)

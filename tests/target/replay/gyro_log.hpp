@@ -19,10 +19,10 @@
 namespace halfspin_replay {
 
 inline constexpr int sample_count = 4096;
-inline constexpr float rate_lsb = 1.0f / 8192.0f;              // rad/s per count, 2^-13
-inline constexpr float sample_period = 1.0f / 1024.0f;         // s, 2^-10
-inline constexpr float sample_rate = 1024.0f;                  // 1/s
-inline constexpr float delta_angle_lsb = 1.0f / 16777216.0f;   // rad per summed count, 2^-24
+inline constexpr float rate_lsb = 1.0f / 8192.0f;             // rad/s per count, 2^-13
+inline constexpr float sample_period = 1.0f / 1024.0f;        // s, 2^-10
+inline constexpr float sample_rate = 1024.0f;                 // 1/s
+inline constexpr float delta_angle_lsb = 1.0f / 16777216.0f;  // rad per summed count, 2^-24
 
 // floor(a / 2^k) for either sign (a >> k is implementation-defined for negative a before C++20).
 constexpr std::int64_t floor_shift(std::int64_t a, int k) noexcept {
@@ -83,11 +83,11 @@ class GyroLog {
     const std::int64_t yaw = plateau(k, 600, 2900, 500, 4915);
     const std::array<std::int64_t, 3> counts{
         pulse(k, 600, 150, 6554) - pulse(k, 3400, 150, 6554) + v1 + v2 / 2 + noise(),
-        yaw / 12 + v2 + v3 / 2 + noise(),
-        yaw + v3 + v1 / 4 + noise()};
+        yaw / 12 + v2 + v3 / 2 + noise(), yaw + v3 + v1 / 4 + noise()};
     GyroSample out{};
     for (int i = 0; i < 3; ++i) {
-      out.counts[static_cast<std::size_t>(i)] = static_cast<std::int32_t>(counts[static_cast<std::size_t>(i)]);
+      out.counts[static_cast<std::size_t>(i)] =
+          static_cast<std::int32_t>(counts[static_cast<std::size_t>(i)]);
     }
     // First sample: no previous one, the delta-angle uses it twice (constant rate before it).
     const std::array<std::int32_t, 3> prev = k == 0 ? out.counts : previous_;
@@ -113,9 +113,8 @@ class GyroLog {
   // Steps e = round(2π·f/1024 · 2^16) for f = 90, 143, 211 Hz; the circle algorithm turns by
   // acos(1 − e²/2) = 2·asin(e/2) per sample (trace of [[1, −e], [e, 1 − e²]]), so the frequencies
   // are about 91, 148 and 229 Hz. Starting radii 0.04, 0.03, 0.02 rad/s (the orbit is an ellipse).
-  std::array<CircleOscillator, 3> vibration_{{{328 * 256, 0, 36191},
-                                              {0, 246 * 256, 57504},
-                                              {-164 * 256, 0, 84848}}};
+  std::array<CircleOscillator, 3> vibration_{
+      {{328 * 256, 0, 36191}, {0, 246 * 256, 57504}, {-164 * 256, 0, 84848}}};
   std::array<std::int32_t, 3> previous_{};
   std::uint32_t state_ = 0x2545F491u;
   int index_ = 0;

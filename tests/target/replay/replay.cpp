@@ -113,7 +113,8 @@ void run_samples() {
   GyroLog log;
   for (int k = 0; k < sample_count; ++k) {
     const GyroSample s = log.next();
-    const Vector3<float>& input = halfspin::carries_delta_angles(Stepper::layout) ? s.delta : s.rate;
+    const Vector3<float>& input =
+        halfspin::carries_delta_angles(Stepper::layout) ? s.delta : s.rate;
     const Status status = p.push(input, sample_period);
     if (status == Status::ok) {
       trace.step(p.attitude(), p.last_error_estimate());
@@ -176,10 +177,9 @@ void run_libm_exponential() {
   int libm_steps = 0;
   for (int k = 0; k < sample_count; ++k) {
     const Vector3<float> rate = log.next().rate;
-    libm_steps += halfspin::squared_norm(rate) >=
-                          halfspin::ScalarTraits<float>::exp_series_angle_squared
-                      ? 1
-                      : 0;
+    libm_steps +=
+        halfspin::squared_norm(rate) >= halfspin::ScalarTraits<float>::exp_series_angle_squared ? 1
+                                                                                                : 0;
     const Status status = p.push(rate, 1.0f);
     if (status == Status::ok) {
       trace.step(p.attitude(), 0.0f);
@@ -188,8 +188,8 @@ void run_libm_exponential() {
     }
   }
   trace.finish(p.elapsed_seconds());
-  std::printf("# exponential_map_hold_end_1s_steps: %d of %d steps on the sin/cos branch\n", libm_steps,
-              sample_count);
+  std::printf("# exponential_map_hold_end_1s_steps: %d of %d steps on the sin/cos branch\n",
+              libm_steps, sample_count);
 }
 
 // Counter-example 2: the same exponential maps one by one (each sample's rate over 1 s, no
@@ -209,8 +209,8 @@ void run_libm_exponential_calls() {
 // Counter-example 3: the logarithm map (atan2 above its series threshold) of each attitude of a
 // replaying propagation.
 void run_libm_logarithm() {
-  halfspin::Propagator<float, halfspin::ExponentialMapMidpointMean, halfspin::ExactRenormalization> p(
-      Quaternion<float>::identity(), limits);
+  halfspin::Propagator<float, halfspin::ExponentialMapMidpointMean, halfspin::ExactRenormalization>
+      p(Quaternion<float>::identity(), limits);
   Trace trace('L', "log_of_exponential_map_midpoint_mean", "exact");
   GyroLog log;
   for (int k = 0; k < sample_count; ++k) {

@@ -2,10 +2,10 @@
 // output, so its peak resident memory must not grow with the length of the log. The check: peak RSS
 // (wait4's ru_maxrss of the tool's own process) on a 10^7-line log exceeds the peak on a 10^4-line
 // log by less than 4 MiB — a tool that kept as little as one byte per line would grow by 10 MB.
-// The figures are printed (ctest -V) for the README; they are not asserted as speed or size targets.
-// Also checked: every line was read, every step written, the summary's final attitude matches
-// closed-form coning truth (halfspin's ClassicalConingMotion, evaluated in long double here) to
-// within the a-priori horizon bound.
+// The figures are printed (ctest -V) for the README; they are not asserted as speed or size
+// targets. Also checked: every line was read, every step written, the summary's final attitude
+// matches closed-form coning truth (halfspin's ClassicalConingMotion, evaluated in long double
+// here) to within the a-priori horizon bound.
 #include <sys/resource.h>
 #include <sys/wait.h>
 #include <unistd.h>
@@ -21,9 +21,9 @@
 
 #include <catch2/catch.hpp>
 
-#include "halfspin/core/angle_between.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/truth/classical_coning.hpp"
@@ -40,7 +40,8 @@ struct Child {
 };
 
 // fork + exec + wait4: the child's own peak RSS (ru_maxrss, KiB on Linux), not the test's.
-Child spawn(const std::string& exe, const std::vector<std::string>& args, const fs::path& err_file) {
+Child spawn(const std::string& exe, const std::vector<std::string>& args,
+            const fs::path& err_file) {
   std::vector<char*> argv;
   std::string exe_copy = exe;
   std::vector<std::string> copies = args;
@@ -127,13 +128,14 @@ Run run_log(const fs::path& dir, long seconds) {
 
 TEST_CASE("halfspin-propagate streams a 10^7-line log in constant memory", "[tools][soak]") {
   const fs::path work = fs::path(HALFSPIN_TOOLS_WORK_DIR) / "long_log";
-  const Run small = run_log(work, 10);        // 10^4 lines
-  const Run large = run_log(work, 10000);     // 10^7 lines
+  const Run small = run_log(work, 10);     // 10^4 lines
+  const Run large = run_log(work, 10000);  // 10^7 lines
   std::printf("10^4-line log: propagate peak RSS %ld KiB, %.2f s\n", small.propagate.peak_rss_kib,
               small.propagate.seconds);
-  std::printf("10^7-line log: generate %.1f s (peak RSS %ld KiB); propagate peak RSS %ld KiB, %.1f s\n",
-              large.generate.seconds, large.generate.peak_rss_kib, large.propagate.peak_rss_kib,
-              large.propagate.seconds);
+  std::printf(
+      "10^7-line log: generate %.1f s (peak RSS %ld KiB); propagate peak RSS %ld KiB, %.1f s\n",
+      large.generate.seconds, large.generate.peak_rss_kib, large.propagate.peak_rss_kib,
+      large.propagate.seconds);
   // One header plus one row per step (coning_2_sample steps every second sample).
   REQUIRE(small.output_lines == 1 + 5000);
   REQUIRE(large.output_lines == 1 + 5000000);

@@ -114,8 +114,9 @@ Quaternion<long double> constant_rate_attitude(const Quaternion<long double>& q0
   const long double c = std::cos(0.5L * n * t);
   const long double s = std::sin(0.5L * n * t) / n;
   const long double bw = c, bx = s * w[0], by = s * w[1], bz = s * w[2];
-  return {q0.w * bw - q0.x * bx - q0.y * by - q0.z * bz, q0.w * bx + q0.x * bw + q0.y * bz - q0.z * by,
-          q0.w * by - q0.x * bz + q0.y * bw + q0.z * bx, q0.w * bz + q0.x * by - q0.y * bx + q0.z * bw};
+  return {
+      q0.w * bw - q0.x * bx - q0.y * by - q0.z * bz, q0.w * bx + q0.x * bw + q0.y * bz - q0.z * by,
+      q0.w * by - q0.x * bz + q0.y * bw + q0.z * bx, q0.w * bz + q0.x * by - q0.y * bx + q0.z * bw};
 }
 
 Quaternion<double> row_quaternion(const std::vector<double>& r) { return {r[1], r[2], r[3], r[4]}; }
@@ -125,7 +126,8 @@ Quaternion<double> row_quaternion(const std::vector<double>& r) { return {r[1], 
 TEST_CASE("constant-rate logs propagate to the closed form in double and float", "[tools]") {
   const fs::path dir = work_dir("constant_rate");
   const std::array<long double, 3> w{0.7L, -0.4L, 1.1L};  // rad/s, invented
-  const Quaternion<long double> q0 = halfspin::normalized(Quaternion<long double>{0.9L, 0.1L, -0.3L, 0.2L});
+  const Quaternion<long double> q0 =
+      halfspin::normalized(Quaternion<long double>{0.9L, 0.1L, -0.3L, 0.2L});
   const double rate_hz = 250.0;
   const int n = 500;  // 2 s
   {
@@ -136,7 +138,8 @@ TEST_CASE("constant-rate logs propagate to the closed form in double and float",
     double previous = 0.0;
     for (int k = 0; k <= n; ++k) {
       const double t = k / rate_hz;
-      r << g17(t) << ',' << g17(double(w[0])) << ',' << g17(double(w[1])) << ',' << g17(double(w[2])) << '\n';
+      r << g17(t) << ',' << g17(double(w[0])) << ',' << g17(double(w[1])) << ','
+        << g17(double(w[2])) << '\n';
       if (k > 0) {  // exact integral of a constant rate over (previous, t]
         const long double span = static_cast<long double>(t) - static_cast<long double>(previous);
         d << g17(t) << ',' << g17(double(w[0] * span)) << ',' << g17(double(w[1] * span)) << ','
@@ -145,8 +148,8 @@ TEST_CASE("constant-rate logs propagate to the closed form in double and float",
       previous = t;
     }
   }
-  const std::string initial = g17(double(q0.w)) + "," + g17(double(q0.x)) + "," + g17(double(q0.y)) +
-                              "," + g17(double(q0.z));
+  const std::string initial = g17(double(q0.w)) + "," + g17(double(q0.x)) + "," +
+                              g17(double(q0.y)) + "," + g17(double(q0.z));
   const long double omega = std::sqrt(w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
   // Methods exact at constant rate in exact arithmetic (common practice, no source: the exponential
   // map of ω·dt IS the constant-rate solution; with parallel samples the Magnus commutator and the
@@ -156,9 +159,12 @@ TEST_CASE("constant-rate logs propagate to the closed form in double and float",
     const char* log;
     int periods_per_row;
   };
-  const Case cases[] = {{"exponential_map_hold_end", "rate.csv", 1},     {"exponential_map_midpoint_mean", "rate.csv", 1},
-                        {"magnus_4", "rate.csv", 2},             {"coning_1_sample", "delta.csv", 1},
-                        {"coning_2_sample", "delta.csv", 2},    {"coning_1_sample_plus_previous", "delta.csv", 1}};
+  const Case cases[] = {{"exponential_map_hold_end", "rate.csv", 1},
+                        {"exponential_map_midpoint_mean", "rate.csv", 1},
+                        {"magnus_4", "rate.csv", 2},
+                        {"coning_1_sample", "delta.csv", 1},
+                        {"coning_2_sample", "delta.csv", 2},
+                        {"coning_1_sample_plus_previous", "delta.csv", 1}};
   for (const Case& c : cases) {
     for (const char* scalar : {"double", "float"}) {
       INFO(c.method << " " << scalar);
@@ -184,11 +190,14 @@ TEST_CASE("constant-rate logs propagate to the closed form in double and float",
       double worst = 0.0;
       for (std::size_t i = 0; i < out.rows.size(); ++i) {
         const std::vector<double>& row = out.rows[i];
-        const double t_expected = static_cast<double>(static_cast<int>(i + 1) * c.periods_per_row) / rate_hz;
+        const double t_expected =
+            static_cast<double>(static_cast<int>(i + 1) * c.periods_per_row) / rate_hz;
         REQUIRE(row[0] == t_expected);  // one row per completed step, at its end time
-        const Quaternion<long double> truth = constant_rate_attitude(q0, w, static_cast<long double>(row[0]));
-        const Quaternion<long double> got{static_cast<long double>(row[1]), static_cast<long double>(row[2]),
-                                          static_cast<long double>(row[3]), static_cast<long double>(row[4])};
+        const Quaternion<long double> truth =
+            constant_rate_attitude(q0, w, static_cast<long double>(row[0]));
+        const Quaternion<long double> got{
+            static_cast<long double>(row[1]), static_cast<long double>(row[2]),
+            static_cast<long double>(row[3]), static_cast<long double>(row[4])};
         worst = std::fmax(worst, static_cast<double>(halfspin::angle_between(got, truth)));
       }
       INFO("worst " << worst << " rad, tolerance " << static_cast<double>(tolerance) << " rad");
@@ -233,7 +242,8 @@ TEST_CASE("gyro-log and propagate round trip on coning: error small, 4th order",
       for (const auto& row : o.rows) {
         while (j < t.rows.size() && t.rows[j][0] != row[0]) ++j;
         REQUIRE(j < t.rows.size());
-        worst = std::fmax(worst, halfspin::angle_between(row_quaternion(row), row_quaternion(t.rows[j])));
+        worst = std::fmax(worst,
+                          halfspin::angle_between(row_quaternion(row), row_quaternion(t.rows[j])));
       }
       CHECK(max_error[i] == Approx(worst).epsilon(1e-5));
       // Small: the drift a method without coning correction accumulates is Ω(1 − cos a)·T
@@ -243,7 +253,8 @@ TEST_CASE("gyro-log and propagate round trip on coning: error small, 4th order",
       CHECK(max_error[i] < 1e-4 * coning_drift);
     }
     const double ratio = max_error[0] / max_error[1];
-    INFO("error 500 Hz " << max_error[0] << " rad, 1000 Hz " << max_error[1] << " rad, ratio " << ratio);
+    INFO("error 500 Hz " << max_error[0] << " rad, 1000 Hz " << max_error[1] << " rad, ratio "
+                         << ratio);
     CHECK(ratio > 16.0 * 0.9);
     CHECK(ratio < 16.0 * 1.1);
   }
@@ -298,20 +309,22 @@ TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no tempo
       lines[6] = "0.09,0.2,0,0";
     }
     write_lines(dir / "bad.csv", lines);
-    std::vector<std::string> args{(dir / "bad.csv").string(), "--output", (dir / "out.csv").string()};
+    std::vector<std::string> args{(dir / "bad.csv").string(), "--output",
+                                  (dir / "out.csv").string()};
     args.insert(args.end(), c.extra.begin(), c.extra.end());
     const Run r = propagate(args, dir);
     INFO(r.err);
     CHECK(r.code == 2);
-    CHECK(r.err.find((dir / "bad.csv").string() + ":" + std::to_string(c.line) + ": ") != std::string::npos);
+    CHECK(r.err.find((dir / "bad.csv").string() + ":" + std::to_string(c.line) + ": ") !=
+          std::string::npos);
     CHECK(r.err.find(c.reason) != std::string::npos);
     CHECK(files_starting_with(dir, "out.csv") == 0);
   }
   SECTION("delta-angle logs: the first interval starts at --start-time") {
     write_lines(dir / "d.csv", {"t,dx,dy,dz", "0.01,0.001,0,0", "0.02,0.001,0,0"});
-    const Run r = propagate({(dir / "d.csv").string(), "--start-time", "0.01", "--output",
-                             (dir / "out.csv").string()},
-                            dir);
+    const Run r = propagate(
+        {(dir / "d.csv").string(), "--start-time", "0.01", "--output", (dir / "out.csv").string()},
+        dir);
     CHECK(r.code == 2);
     CHECK(r.err.find("d.csv:2: timestamp 0.01 does not increase") != std::string::npos);
     CHECK(files_starting_with(dir, "out.csv") == 0);
@@ -338,7 +351,8 @@ void write_bytes(const fs::path& p, const std::string& text) {
 }
 
 // The good rate log with `end` after every line, and row `row` (0-based, line row + 2) replaced.
-std::string rate_log_text(const std::string& end, int row = -1, const std::string& replacement = "") {
+std::string rate_log_text(const std::string& end, int row = -1,
+                          const std::string& replacement = "") {
   std::vector<std::string> lines = good_rate_lines();
   if (row >= 0) lines[static_cast<std::size_t>(row + 1)] = replacement;
   std::string text;
@@ -362,7 +376,9 @@ TEST_CASE("bad files: CRLF and byte-order mark accepted, bit-identical to the LF
   write_bytes(dir / "no_newline.csv", no_newline);
   for (const char* scalar : {"double", "float"}) {
     INFO(scalar);
-    REQUIRE(propagate({(dir / "lf.csv").string(), "--scalar", scalar, "--output", (dir / "lf_out.csv").string()}, dir)
+    REQUIRE(propagate({(dir / "lf.csv").string(), "--scalar", scalar, "--output",
+                       (dir / "lf_out.csv").string()},
+                      dir)
                 .code == 0);
     const std::string reference = slurp(dir / "lf_out.csv");
     REQUIRE(read_csv(dir / "lf_out.csv").rows.size() == 29u);  // 30 rows, one step per interval
@@ -378,7 +394,9 @@ TEST_CASE("bad files: CRLF and byte-order mark accepted, bit-identical to the LF
   }
   SECTION("the help text documents it") {
     const fs::path out = dir / "help.txt";
-    REQUIRE(std::system(("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --help > '" + out.string() + "'").c_str()) == 0);
+    REQUIRE(std::system(
+                ("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --help > '" + out.string() + "'")
+                    .c_str()) == 0);
     const std::string help = slurp(out);
     CHECK(help.find("CRLF") != std::string::npos);
     CHECK(help.find("byte-order mark before the header is skipped") != std::string::npos);
@@ -386,7 +404,8 @@ TEST_CASE("bad files: CRLF and byte-order mark accepted, bit-identical to the LF
   }
 }
 
-TEST_CASE("bad files: empty, header only, cut last line: exit 2, FILE:LINE: reason, no output", "[tools]") {
+TEST_CASE("bad files: empty, header only, cut last line: exit 2, FILE:LINE: reason, no output",
+          "[tools]") {
   const fs::path dir = work_dir("bad_files_rejected");
   struct Case {
     const char* name;
@@ -404,7 +423,8 @@ TEST_CASE("bad files: empty, header only, cut last line: exit 2, FILE:LINE: reas
       {"empty (0 bytes)", "", ":1: ", "empty file: no header line"},
       {"header only", "t,wx,wy,wz\n", ":1: ", "no complete step in the log (0 samples read"},
       {"header only, no newline", "t,wx,wy,wz", ":1: ", "no complete step"},
-      {"header and one row", "t,wx,wy,wz\r\n0,0.1,0,0\r\n", ":2: ", "no complete step in the log (1 samples read"},
+      {"header and one row", "t,wx,wy,wz\r\n0,0.1,0,0\r\n",
+       ":2: ", "no complete step in the log (1 samples read"},
       {"last line cut in a number", cut_number, ":31: ", "field 4 (wz) is not a number: '1.2e-'"},
       {"last line cut short", cut_short, ":31: ", "expected 4 comma-separated fields, found 2"},
   };
@@ -412,8 +432,9 @@ TEST_CASE("bad files: empty, header only, cut last line: exit 2, FILE:LINE: reas
     for (const char* scalar : {"double", "float"}) {
       INFO(c.name << " " << scalar);
       write_bytes(dir / "bad.csv", c.text);
-      const Run r = propagate({(dir / "bad.csv").string(), "--scalar", scalar, "--output", (dir / "out.csv").string()},
-                              dir);
+      const Run r = propagate(
+          {(dir / "bad.csv").string(), "--scalar", scalar, "--output", (dir / "out.csv").string()},
+          dir);
       INFO(r.err);
       CHECK(r.code == 2);
       CHECK(r.err.find((dir / "bad.csv").string() + c.where) != std::string::npos);
@@ -432,17 +453,20 @@ TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tool
   struct Case {
     const char* name;
     const char* scalar;
-    std::string row;     // replaces row 9 (line 11)
+    std::string row;  // replaces row 9 (line 11)
     int code;
     const char* reason;  // for exit 2
   };
   const std::vector<Case> cases{
       // 1e300 rad/s × 0.01 s squared overflows double: the step's result is not finite.
-      {"1e300 in double", "double", "0.09,1e300,0,0", 2, "line 11 non_finite (the step's result is not finite in double"},
+      {"1e300 in double", "double", "0.09,1e300,0,0", 2,
+       "line 11 non_finite (the step's result is not finite in double"},
       // 1e300 is no float at all: over range before any conversion.
-      {"1e300 in float", "float", "0.09,0.2,-1e300,0", 2, "sample over range: field 3 (wy) = -1.0000000000000001e+300 is beyond the largest float"},
+      {"1e300 in float", "float", "0.09,0.2,-1e300,0", 2,
+       "sample over range: field 3 (wy) = -1.0000000000000001e+300 is beyond the largest float"},
       // 1e38 rad/s is a float, but 1e38 × 0.01 squared (1e72) overflows float.
-      {"1e38 in float", "float", "0.09,1e38,0,0", 2, "non_finite (the step's result is not finite in float"},
+      {"1e38 in float", "float", "0.09,1e38,0,0", 2,
+       "non_finite (the step's result is not finite in float"},
       // 1e38 in double: 1e36 rad in one step; finite arithmetic throughout.
       {"1e38 in double", "double", "0.09,1e38,0,0", 0, ""},
       {"1e-310 (subnormal double) in double", "double", "0.09,1e-310,0,0", 0, ""},
@@ -453,15 +477,16 @@ TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tool
   for (const Case& c : cases) {
     INFO(c.name);
     write_bytes(dir / "log.csv", rate_log_text("\n", 9, c.row));
-    const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end", "--scalar", c.scalar,
-                             "--output", (dir / "out.csv").string()},
+    const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end",
+                             "--scalar", c.scalar, "--output", (dir / "out.csv").string()},
                             dir);
     INFO(r.err);
     REQUIRE(r.code == c.code);
     if (c.code == 2) {
       const std::string reason(c.reason);
       if (reason.rfind("line 11 ", 0) == 0) {
-        CHECK(r.err.find((dir / "log.csv").string() + ":11: sample rejected by the propagator: ") != std::string::npos);
+        CHECK(r.err.find((dir / "log.csv").string() + ":11: sample rejected by the propagator: ") !=
+              std::string::npos);
         CHECK(r.err.find(reason.substr(8)) != std::string::npos);
       } else {
         CHECK(r.err.find((dir / "log.csv").string() + ":11: ") != std::string::npos);
@@ -481,8 +506,8 @@ TEST_CASE("bad files: huge and subnormal values, no undefined behaviour", "[tool
       // A subnormal rate turns the attitude by less than half an ulp of 1 (IEEE 754 round to
       // nearest, common practice, no source): the output is byte-identical to the log with 0.
       write_bytes(dir / "zero.csv", rate_log_text("\n", 9, "0.09,0,0,0"));
-      REQUIRE(propagate({(dir / "zero.csv").string(), "--method", "exponential_map_hold_end", "--scalar", c.scalar,
-                         "--output", (dir / "zero_out.csv").string()},
+      REQUIRE(propagate({(dir / "zero.csv").string(), "--method", "exponential_map_hold_end",
+                         "--scalar", c.scalar, "--output", (dir / "zero_out.csv").string()},
                         dir)
                   .code == 0);
       CHECK(slurp(dir / "out.csv") == slurp(dir / "zero_out.csv"));
@@ -494,16 +519,16 @@ TEST_CASE("skip-bad mode skips bad samples and counts them per class", "[tools]"
   const fs::path dir = work_dir("skip_bad");
   std::vector<std::string> lines = good_rate_lines();
   // Row k is line k + 2 (index k + 1). Defects, one or more of each class:
-  lines[6] = "0.05,0.2,0";       // malformed: timestamp lost too
-  lines[9] = "0.08,abc,0,0";     // non_numeric
-  lines[12] = "0.11,nan,0,0";    // non_finite (time valid: the propagator sees and rejects it)
-  lines[15] = "0.14,0,inf,0";    // non_finite
-  lines[27] = "0.26,5,0,0";      // over_range with --max-rate 1
-  lines.insert(lines.begin() + 19, "0.17,0.2,0,0");       // after row 17: repeated timestamp
-  lines.erase(lines.begin() + 22, lines.begin() + 25);    // rows 20, 21, 22 missing: gap before 23
+  lines[6] = "0.05,0.2,0";     // malformed: timestamp lost too
+  lines[9] = "0.08,abc,0,0";   // non_numeric
+  lines[12] = "0.11,nan,0,0";  // non_finite (time valid: the propagator sees and rejects it)
+  lines[15] = "0.14,0,inf,0";  // non_finite
+  lines[27] = "0.26,5,0,0";    // over_range with --max-rate 1
+  lines.insert(lines.begin() + 19, "0.17,0.2,0,0");     // after row 17: repeated timestamp
+  lines.erase(lines.begin() + 22, lines.begin() + 25);  // rows 20, 21, 22 missing: gap before 23
   write_lines(dir / "log.csv", lines);
-  const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end", "--skip-bad",
-                           "--max-rate", "1", "--output", (dir / "out.csv").string()},
+  const Run r = propagate({(dir / "log.csv").string(), "--method", "exponential_map_hold_end",
+                           "--skip-bad", "--max-rate", "1", "--output", (dir / "out.csv").string()},
                           dir);
   INFO(r.err);
   REQUIRE(r.code == 0);
@@ -582,8 +607,8 @@ TEST_CASE("output columns: exact header, Euler consistent with q, estimate only 
       if (m.layout == halfspin::SampleLayout::rate_function) continue;
       INFO(m.name);
       const bool delta = halfspin::carries_delta_angles(m.layout);
-      const Run r = propagate({(dir / (delta ? "delta.csv" : "rate.csv")).string(), "--method", m.name,
-                               "--output", (dir / "out.csv").string()},
+      const Run r = propagate({(dir / (delta ? "delta.csv" : "rate.csv")).string(), "--method",
+                               m.name, "--output", (dir / "out.csv").string()},
                               dir);
       REQUIRE(r.code == 0);
       const Csv out = read_csv(dir / "out.csv");
@@ -605,15 +630,16 @@ TEST_CASE("output columns: exact header, Euler consistent with q, estimate only 
     for (const char* scalar : {"double", "float"}) {
       for (const char* seq : {"zyx", "zxz", "xyz"}) {
         INFO(scalar << " " << seq);
-        const Run r = propagate({(dir / "rate.csv").string(), "--method", "magnus_4", "--scalar", scalar,
-                                 "--euler", seq, "--renormalize", "none", "--output",
-                                 (dir / "out.csv").string()},
-                                dir);
+        const Run r = propagate(
+            {(dir / "rate.csv").string(), "--method", "magnus_4", "--scalar", scalar, "--euler",
+             seq, "--renormalize", "none", "--output", (dir / "out.csv").string()},
+            dir);
         REQUIRE(r.code == 0);
         const Csv out = read_csv(dir / "out.csv");
         const std::string s(seq);
-        CHECK(out.header == "t,qw,qx,qy,qz,first_" + s.substr(0, 1) + "_deg,second_" + s.substr(1, 1) +
-                                "_deg,third_" + s.substr(2, 1) + "_deg,norm_error,error_estimate_rad");
+        CHECK(out.header == "t,qw,qx,qy,qz,first_" + s.substr(0, 1) + "_deg,second_" +
+                                s.substr(1, 1) + "_deg,third_" + s.substr(2, 1) +
+                                "_deg,norm_error,error_estimate_rad");
         halfspin::EulerSequence sequence = halfspin::EulerSequence::zyx;
         if (s == "zxz") sequence = halfspin::EulerSequence::zxz;
         if (s == "xyz") sequence = halfspin::EulerSequence::xyz;
@@ -628,8 +654,10 @@ TEST_CASE("output columns: exact header, Euler consistent with q, estimate only 
         for (const auto& row : out.rows) {
           const Quaternion<double> q = row_quaternion(row);
           const halfspin::EulerAngles<double> e{row[5] * d2r, row[6] * d2r, row[7] * d2r, sequence};
-          worst_angle = std::fmax(worst_angle, halfspin::angle_between(q, halfspin::quaternion_from_euler_angles(e)));
-          worst_norm = std::fmax(worst_norm, std::fabs(std::fabs(halfspin::norm(q) - 1.0) - row[8]));
+          worst_angle = std::fmax(
+              worst_angle, halfspin::angle_between(q, halfspin::quaternion_from_euler_angles(e)));
+          worst_norm =
+              std::fmax(worst_norm, std::fabs(std::fabs(halfspin::norm(q) - 1.0) - row[8]));
         }
         INFO("worst angle " << worst_angle << " rad, worst norm column mismatch " << worst_norm);
         CHECK(worst_angle < 64 * eps);
@@ -643,24 +671,31 @@ TEST_CASE("help, method list and the gyro log's own content", "[tools]") {
   const fs::path dir = work_dir("help");
   SECTION("help carries units, exit codes and the caution; the list names every method") {
     const fs::path out = dir / "help.txt";
-    REQUIRE(std::system(("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --help > '" + out.string() + "'").c_str()) == 0);
+    REQUIRE(std::system(
+                ("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --help > '" + out.string() + "'")
+                    .c_str()) == 0);
     const std::string help = slurp(out);
-    for (const char* s : {"rad/s", "Exit codes", "hardware-in-the-loop", "airworthiness", "--skip-bad",
-                          "--max-interval", "2.5 x the first interval", "--truth"}) {
+    for (const char* s : {"rad/s", "Exit codes", "hardware-in-the-loop", "airworthiness",
+                          "--skip-bad", "--max-interval", "2.5 x the first interval", "--truth"}) {
       CHECK(help.find(s) != std::string::npos);
     }
-    REQUIRE(std::system(("'" + std::string(HALFSPIN_GYRO_LOG_EXE) + "' --help > '" + out.string() + "'").c_str()) == 0);
+    REQUIRE(
+        std::system(("'" + std::string(HALFSPIN_GYRO_LOG_EXE) + "' --help > '" + out.string() + "'")
+                        .c_str()) == 0);
     CHECK(slurp(out).find("hardware-in-the-loop") != std::string::npos);
-    REQUIRE(std::system(("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --list-methods > '" + out.string() + "'").c_str()) == 0);
+    REQUIRE(std::system(("'" + std::string(HALFSPIN_PROPAGATE_EXE) + "' --list-methods > '" +
+                         out.string() + "'")
+                            .c_str()) == 0);
     const std::string list = slurp(out);
     for (const halfspin::tools::MethodInfo& m : halfspin::tools::method_catalogue()) {
       INFO(m.name);
       const std::size_t at = list.find(std::string(m.name) + " ");
       REQUIRE(at != std::string::npos);
       const std::string line = list.substr(at, list.find('\n', at) - at);
-      const char* mark = m.layout == halfspin::SampleLayout::rate_function ? "[rate-function: not usable on a log]"
-                         : halfspin::carries_delta_angles(m.layout)        ? "[delta]"
-                                                                           : "[rate]";
+      const char* mark = m.layout == halfspin::SampleLayout::rate_function
+                             ? "[rate-function: not usable on a log]"
+                         : halfspin::carries_delta_angles(m.layout) ? "[delta]"
+                                                                    : "[rate]";
       CHECK(line.find(mark) != std::string::npos);
     }
   }
@@ -669,9 +704,10 @@ TEST_CASE("help, method list and the gyro log's own content", "[tools]") {
     // forms (common practice, no source): ω = θ̇ n, ∫ω over (t0, t1] = (θ(t1) − θ(t0)) n,
     // q(t) = (cos θ/2, sin θ/2 · n).
     for (const char* form : {"rate", "delta"}) {
-      REQUIRE(gyro_log({"--motion", "oscillation", "--form", form, "--rate", "100", "--duration", "0.5",
-                        "--output", (dir / "log.csv").string(), "--truth", (dir / "truth.csv").string()},
-                       dir)
+      REQUIRE(gyro_log(
+                  {"--motion", "oscillation", "--form", form, "--rate", "100", "--duration", "0.5",
+                   "--output", (dir / "log.csv").string(), "--truth", (dir / "truth.csv").string()},
+                  dir)
                   .code == 0);
       const Csv log = read_csv(dir / "log.csv");
       const Csv truth = read_csv(dir / "truth.csv");
@@ -681,7 +717,9 @@ TEST_CASE("help, method list and the gyro log's own content", "[tools]") {
       REQUIRE(log.rows.size() == (delta ? 50u : 51u));
       REQUIRE(truth.rows.size() == 51u);
       const long double n[3] = {1.0L / 3, 2.0L / 3, 2.0L / 3};
-      const auto theta = [](long double t) { return 0.4L * std::sin(2.0L * M_PIl * 2.0L * t + 0.3L); };
+      const auto theta = [](long double t) {
+        return 0.4L * std::sin(2.0L * M_PIl * 2.0L * t + 0.3L);
+      };
       for (std::size_t i = 0; i < log.rows.size(); ++i) {
         const double k = static_cast<double>(delta ? i + 1 : i);
         const long double t = static_cast<long double>(k / 100.0);
@@ -690,13 +728,16 @@ TEST_CASE("help, method list and the gyro log's own content", "[tools]") {
           const long double expected =
               delta ? (theta(t) - theta(static_cast<long double>((k - 1) / 100.0))) * n[a]
                     : 0.4L * 2.0L * M_PIl * 2.0L * std::cos(2.0L * M_PIl * 2.0L * t + 0.3L) * n[a];
-          CHECK(std::fabs(static_cast<double>(static_cast<long double>(log.rows[i][static_cast<std::size_t>(a + 1)]) - expected)) < 1e-15);
+          CHECK(std::fabs(static_cast<double>(
+                    static_cast<long double>(log.rows[i][static_cast<std::size_t>(a + 1)]) -
+                    expected)) < 1e-15);
         }
       }
       for (const auto& row : truth.rows) {
         const long double th = theta(static_cast<long double>(row[0]));
         const Quaternion<double> q{double(std::cos(th / 2)), double(std::sin(th / 2) * n[0]),
-                                   double(std::sin(th / 2) * n[1]), double(std::sin(th / 2) * n[2])};
+                                   double(std::sin(th / 2) * n[1]),
+                                   double(std::sin(th / 2) * n[2])};
         CHECK(halfspin::angle_between(q, row_quaternion(row)) < 1e-15);
       }
     }

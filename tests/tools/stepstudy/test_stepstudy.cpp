@@ -54,7 +54,9 @@ Result run_program(const std::string& program, const std::string& args, const st
   return r;
 }
 
-Result run_tool(const std::string& args, const std::string& tag) { return run_program(tool, args, tag); }
+Result run_tool(const std::string& args, const std::string& tag) {
+  return run_program(tool, args, tag);
+}
 
 std::string path(const std::string& name) { return scratch + "/" + name; }
 
@@ -234,20 +236,37 @@ constexpr double eps_float = 1.1920928955078125e-07;  // 2^-23 (IEEE 754 binary3
 TEST_CASE("help documents units, exit codes and the caution, and bad usage exits 1", "[tools]") {
   const Result help = run_tool("--help", "help");
   CHECK(help.exit_code == 0);
-  for (const char* needle : {"--motion", "--envelope", "--coning", "--methods", "--step-min", "--step-max",
-                             "--steps", "--scalar", "--duration", "--csv", "--svg", "--budget", "--horizon",
-                             "--gyro-rate", "--recommendation-file", "(s)", "(rad)", "(Hz)",
-                             "Exit codes: 0 ok; 1 bad usage", "hardware-in-the-loop",
-                             "airworthiness", "licensed"}) {
+  for (const char* needle : {"--motion",
+                             "--envelope",
+                             "--coning",
+                             "--methods",
+                             "--step-min",
+                             "--step-max",
+                             "--steps",
+                             "--scalar",
+                             "--duration",
+                             "--csv",
+                             "--svg",
+                             "--budget",
+                             "--horizon",
+                             "--gyro-rate",
+                             "--recommendation-file",
+                             "(s)",
+                             "(rad)",
+                             "(Hz)",
+                             "Exit codes: 0 ok; 1 bad usage",
+                             "hardware-in-the-loop",
+                             "airworthiness",
+                             "licensed"}) {
     INFO(needle);
     CHECK(help.out.find(needle) != std::string::npos);
   }
   // Bad usage, each on its own: exit code 1 and a message on stderr.
   int n = 0;
-  for (const char* args : {"--no-such-option", "--motion nowhere", "--methods rk9", "--step-min -1",
-                           "--steps 0", "--budget 1e-3", "--scalar half", "--motion coning --coning 1,5",
-                           "--envelope 1,2", "--step-min 1e-2 --step-max 1e-3",
-                           "--recommendation-file x.txt"}) {
+  for (const char* args :
+       {"--no-such-option", "--motion nowhere", "--methods rk9", "--step-min -1", "--steps 0",
+        "--budget 1e-3", "--scalar half", "--motion coning --coning 1,5", "--envelope 1,2",
+        "--step-min 1e-2 --step-max 1e-3", "--recommendation-file x.txt"}) {
     INFO(args);
     const Result r = run_tool(args, "bad" + std::to_string(n++));
     CHECK(r.exit_code == 1);
@@ -261,15 +280,19 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   const std::string png = path("coning.png");
   std::remove(svg.c_str());
   std::remove(png.c_str());
-  const Result r = run_tool("--motion coning --methods magnus_4,coning_2_sample,runge_kutta_4_rate_function "
-                            "--duration 1 --svg '" + svg + "' --budget 1e-3 --horizon 60",
-                            "svg");
+  const Result r = run_tool(
+      "--motion coning --methods magnus_4,coning_2_sample,runge_kutta_4_rate_function "
+      "--duration 1 --svg '" +
+          svg + "' --budget 1e-3 --horizon 60",
+      "svg");
   REQUIRE(r.exit_code == 0);
   // Well-formed XML: xmllint --noout exits 0 (Debian libxml2-utils).
   CHECK(run_program(HALFSPIN_XMLLINT_EXE, "--noout '" + svg + "'", "xmllint").exit_code == 0);
   // Renders: rsvg-convert (Debian librsvg2-bin) writes a PNG, which starts with the 8-byte PNG
   // signature 89 50 4E 47 0D 0A 1A 0A (PNG specification, ISO/IEC 15948 / W3C).
-  CHECK(run_program(HALFSPIN_RSVG_CONVERT_EXE, "-o '" + png + "' '" + svg + "'", "rsvg").exit_code == 0);
+  CHECK(
+      run_program(HALFSPIN_RSVG_CONVERT_EXE, "-o '" + png + "' '" + svg + "'", "rsvg").exit_code ==
+      0);
   REQUIRE(file_exists(png));
   const std::string image = read_file(png);
   REQUIRE(image.size() > 1000);
@@ -344,15 +367,18 @@ TEST_CASE("SVG series colours: distinct, visible on white; the fonts end in a ge
   CHECK(generic.count(last) == 1);
 }
 
-TEST_CASE("CSV: exact header, one row per (method, scalar, step), error within the bound in every "
-          "row, on every motion",
-          "[tools]") {
+TEST_CASE(
+    "CSV: exact header, one row per (method, scalar, step), error within the bound in every "
+    "row, on every motion",
+    "[tools]") {
   // The bounds themselves are proven safe in tests/bounds; this checks that the tool hands each
   // stepper, scalar and step the right description, step and horizon.
   for (const char* motion : {"constant", "oscillation", "coning", "body", "demo"}) {
     const std::string csv = path(std::string(motion) + "_all.csv");
-    const Result r = run_tool(std::string("--motion ") + motion + " --methods all --steps 8 --duration 0.5 "
-                              "--csv '" + csv + "'",
+    const Result r = run_tool(std::string("--motion ") + motion +
+                                  " --methods all --steps 8 --duration 0.5 "
+                                  "--csv '" +
+                                  csv + "'",
                               std::string(motion) + "_all");
     INFO(motion << "\n" << r.err);
     REQUIRE(r.exit_code == 0);
@@ -360,8 +386,8 @@ TEST_CASE("CSV: exact header, one row per (method, scalar, step), error within t
     CHECK(rows.size() == 25u * 2u * 8u);
     std::set<std::tuple<std::string, std::string, double>> seen;
     for (const CsvRow& row : rows) {
-      INFO(row.method << " " << row.scalar << " step " << row.step_s << ": error " << row.max_error_rad
-                      << " bound " << row.bound_rad);
+      INFO(row.method << " " << row.scalar << " step " << row.step_s << ": error "
+                      << row.max_error_rad << " bound " << row.bound_rad);
       CHECK(seen.insert({row.method, row.scalar, row.step_s}).second);
       CHECK(row.max_error_rad >= 0);
       CHECK(row.max_error_rad <= row.bound_rad);
@@ -374,18 +400,23 @@ TEST_CASE("CSV: exact header, one row per (method, scalar, step), error within t
   }
 }
 
-TEST_CASE("bounds only: --coning gives the coning motion's bounds, no measured columns", "[tools]") {
+TEST_CASE("bounds only: --coning gives the coning motion's bounds, no measured columns",
+          "[tools]") {
   // 0.04 rad = 2.2918311805232928 deg (0.04·180/π).
   const std::string a = path("coning_bounds.csv");
   const std::string b = path("coning_measured.csv");
-  REQUIRE(run_tool("--coning 2.2918311805232928,5 --methods magnus_4,coning_2_sample,runge_kutta_4_rate_function "
-                   "--step-min 1e-3 --step-max 2e-2 --duration 1 --csv '" + a + "'",
+  REQUIRE(run_tool("--coning 2.2918311805232928,5 --methods "
+                   "magnus_4,coning_2_sample,runge_kutta_4_rate_function "
+                   "--step-min 1e-3 --step-max 2e-2 --duration 1 --csv '" +
+                       a + "'",
                    "bounds_only")
               .exit_code == 0);
-  REQUIRE(run_tool("--motion coning --methods magnus_4,coning_2_sample --step-min 1e-3 --step-max 2e-2 "
-                   "--duration 1 --csv '" + b + "'",
-                   "bounds_measured")
-              .exit_code == 0);
+  REQUIRE(
+      run_tool("--motion coning --methods magnus_4,coning_2_sample --step-min 1e-3 --step-max 2e-2 "
+               "--duration 1 --csv '" +
+                   b + "'",
+               "bounds_measured")
+          .exit_code == 0);
   const std::vector<CsvRow> bounds = read_csv(a, false);
   const std::vector<CsvRow> measured = read_csv(b, true);
   REQUIRE(bounds.size() == 2u * 2u * 8u);  // the rate-function stepper is left out
@@ -400,10 +431,12 @@ TEST_CASE("bounds only: --coning gives the coning motion's bounds, no measured c
   }
   // Envelope mode runs too, and only bounds are shown.
   const std::string c = path("envelope.csv");
-  REQUIRE(run_tool("--envelope 0.6,1,5,40,400,4000 --methods magnus_4,coning_2_sample --scalar double "
-                   "--csv '" + c + "'",
-                   "envelope")
-              .exit_code == 0);
+  REQUIRE(
+      run_tool("--envelope 0.6,1,5,40,400,4000 --methods magnus_4,coning_2_sample --scalar double "
+               "--csv '" +
+                   c + "'",
+               "envelope")
+          .exit_code == 0);
   CHECK(read_csv(c, false).size() == 2u * 8u);
 }
 
@@ -411,10 +444,12 @@ TEST_CASE("constant rate: exact methods at rounding level, RK4 at its closed-for
           "[tools][reference]") {
   const std::string csv = path("constant.csv");
   const double duration = 2.0;
-  const Result r = run_tool("--motion constant --methods exponential_map_hold_end,exponential_map_midpoint_mean,magnus_4,"
-                            "coning_1_sample,coning_2_sample,coning_4_sample,runge_kutta_4_sampled --step-min 2e-3 "
-                            "--step-max 1e-1 --steps 8 --duration 2 --csv '" + csv + "'",
-                            "constant");
+  const Result r = run_tool(
+      "--motion constant --methods exponential_map_hold_end,exponential_map_midpoint_mean,magnus_4,"
+      "coning_1_sample,coning_2_sample,coning_4_sample,runge_kutta_4_sampled --step-min 2e-3 "
+      "--step-max 1e-1 --steps 8 --duration 2 --csv '" +
+          csv + "'",
+      "constant");
   REQUIRE(r.exit_code == 0);
   // The tool's constant motion (its --help): ω = (0.9, −0.6, 1.3) rad/s.
   const double w = std::sqrt(0.81 + 0.36 + 1.69);
@@ -422,7 +457,8 @@ TEST_CASE("constant rate: exact methods at rounding level, RK4 at its closed-for
   for (const CsvRow& row : read_csv(csv, true)) {
     const double steps = std::round(duration / row.step_s);
     const double eps = row.scalar == "float" ? eps_float : eps_double;
-    INFO(row.method << " " << row.scalar << " step " << row.step_s << ": error " << row.max_error_rad);
+    INFO(row.method << " " << row.scalar << " step " << row.step_s << ": error "
+                    << row.max_error_rad);
     if (row.method != "runge_kutta_4_sampled") {
       // Exponential-map, Magnus and coning steps integrate a constant rate exactly (the rotation
       // vector is ω·dt and every correction term is a cross product of parallel vectors: common
@@ -455,18 +491,22 @@ TEST_CASE("coning: observed orders match the declared orders in the truncation-d
   // one-sample delta-angle update are second order (common practice, no source), Magnus 4 fourth
   // (Iserles and Nørsett 1999), the two-sample coning algorithm fourth also under pure coning
   // (Ignagni 1990; Miller 1983), classic RK4 fourth (Butcher) with its stages at samples.
-  const std::vector<std::pair<std::string, double>> declared{
-      {"exponential_map_midpoint_mean", 2}, {"coning_1_sample", 2}, {"magnus_4", 4}, {"coning_2_sample", 4},
-      {"runge_kutta_4_sampled", 4}};
+  const std::vector<std::pair<std::string, double>> declared{{"exponential_map_midpoint_mean", 2},
+                                                             {"coning_1_sample", 2},
+                                                             {"magnus_4", 4},
+                                                             {"coning_2_sample", 4},
+                                                             {"runge_kutta_4_sampled", 4}};
   std::string methods;
   for (const auto& d : declared) {
     methods += (methods.empty() ? "" : ",") + d.first;
   }
   const std::string csv = path("coning_orders.csv");
-  const Result r = run_tool("--motion coning --methods " + methods +
-                                " --scalar double --step-min 2e-3 --step-max 2e-2 --steps 8 --duration 2 "
-                                "--csv '" + csv + "'",
-                            "coning_orders");
+  const Result r =
+      run_tool("--motion coning --methods " + methods +
+                   " --scalar double --step-min 2e-3 --step-max 2e-2 --steps 8 --duration 2 "
+                   "--csv '" +
+                   csv + "'",
+               "coning_orders");
   REQUIRE(r.exit_code == 0);
   const std::vector<CsvRow> rows = read_csv(csv, true);
   for (const auto& d : declared) {
@@ -505,15 +545,18 @@ TEST_CASE("re-running at the recommended step meets the budget on the truth moti
     double horizon_s;
   };
   // The tool's coning motion over a minute, and the demo scenario (budget 0.1° over 10 minutes).
-  for (const Case& c : {Case{"coning", 1e-3, 60.0}, Case{"demo", 0.1 * 3.14159265358979323846 / 180.0, 600.0}}) {
+  for (const Case& c :
+       {Case{"coning", 1e-3, 60.0}, Case{"demo", 0.1 * 3.14159265358979323846 / 180.0, 600.0}}) {
     INFO(c.motion);
     const std::string file = path(std::string(c.motion) + ".recommendation");
     std::remove(file.c_str());
     char budget[64];
     std::snprintf(budget, sizeof budget, "%.17g", c.budget_rad);
-    const Result r = run_tool(std::string("--motion ") + c.motion + " --scalar double --steps 8 --duration 0.5 "
-                              "--budget " + budget + " --horizon " + std::to_string(c.horizon_s) +
-                              " --gyro-rate 1000 --recommendation-file '" + file + "'",
+    const Result r = run_tool(std::string("--motion ") + c.motion +
+                                  " --scalar double --steps 8 --duration 0.5 "
+                                  "--budget " +
+                                  budget + " --horizon " + std::to_string(c.horizon_s) +
+                                  " --gyro-rate 1000 --recommendation-file '" + file + "'",
                               std::string(c.motion) + "_recommend");
     INFO(r.err);
     REQUIRE(r.exit_code == 0);
