@@ -101,7 +101,7 @@ class PropagatorRun {
     }
   }
 
-  const Quaternion<T>& attitude() const noexcept { return propagator_.attitude(); }
+  Quaternion<T> attitude() const noexcept { return propagator_.attitude(); }
   // Every call stepped, nothing was rejected, and the attitude is sound.
   bool healthy_after(std::uint64_t steps) const noexcept {
     const PropagationCounters& c = propagator_.counters();
