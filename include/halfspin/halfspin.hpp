@@ -31,6 +31,7 @@
 // propagation
 #include "halfspin/propagation/batch_propagator.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
+#include "halfspin/propagation/commutator_free_family.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
@@ -47,6 +48,7 @@
 #include "halfspin/propagation/two_speed.hpp"
 
 // bounds
+#include "halfspin/bounds/commutator_free_bounds.hpp"
 #include "halfspin/bounds/coning_error.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/local_error_bound.hpp"

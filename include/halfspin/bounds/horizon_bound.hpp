@@ -25,6 +25,7 @@
 #include <type_traits>
 #include <utility>
 
+#include "halfspin/bounds/commutator_free_bounds.hpp"
 #include "halfspin/bounds/coning_error.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"

@@ -266,10 +266,12 @@ struct CommutatorMismatch {
   Rational p;
   Rational q;
 };
-template <std::size_t W>
-constexpr CommutatorMismatch commutator_mismatch(const RotationVectorRule<W>& r) noexcept {
-  const std::array<SampleMoments<long double>, W> s = rule_sample_moments<long double>(r);
-  const auto pairs = rule_pairs(r);
+// For any samples (their moments) and cross products (pairs): the family's own rules and the
+// second-order part of other families (commutator_free_family.hpp).
+template <std::size_t K, std::size_t P>
+constexpr CommutatorMismatch commutator_mismatch(
+    const std::array<SampleMoments<long double>, K>& s,
+    const std::array<WeightedPair, P>& pairs) noexcept {
   Rational kp{-1, 12};
   Rational kq{0, 1};
   for (const WeightedPair& pair : pairs) {
@@ -279,6 +281,10 @@ constexpr CommutatorMismatch commutator_mismatch(const RotationVectorRule<W>& r)
     kq = kq + pair.weight * (a.mu[0] * b.mu[2] - b.mu[0] * a.mu[2]);
   }
   return {kp, kq};
+}
+template <std::size_t W>
+constexpr CommutatorMismatch commutator_mismatch(const RotationVectorRule<W>& r) noexcept {
+  return commutator_mismatch(rule_sample_moments<long double>(r), rule_pairs(r));
 }
 
 // Global order for general smooth motion (header comment).
@@ -395,6 +401,26 @@ constexpr std::size_t new_samples_of(SampleLayout layout, std::size_t window) no
   return 0;
 }
 
+// A sum of weight numerators times samples, scaled to radians: rates × dt, then (unless the
+// denominator is 1) × the inverse denominator (rounded once to T at compile time).
+template <SampleLayout Layout, std::int32_t Denominator, class T>
+constexpr Vector3<T> scaled_weighted_sum(const Vector3<T>& sum, T dt, T inverse) noexcept {
+  if constexpr (carries_rates(Layout)) {
+    if constexpr (Denominator == 1) {
+      return sum * dt;
+    } else {
+      return sum * (dt * inverse);
+    }
+  } else {
+    static_cast<void>(dt);
+    if constexpr (Denominator == 1) {
+      return sum;
+    } else {
+      return inverse * sum;
+    }
+  }
+}
+
 // The rule's weights rounded once to T at compile time (no division at run time).
 template <class Rule, class T>
 struct RotationVectorWeights {
@@ -434,22 +460,9 @@ struct RotationVectorStepper {
   template <class T>
   static constexpr Vector3<T> quadrature_term(const std::array<Vector3<T>, window>& s,
                                               T dt) noexcept {
-    const Vector3<T> sum = weighted_sum(s, std::make_index_sequence<window>{});
-    constexpr T inverse = detail::RotationVectorWeights<Rule, T>::quadrature_inverse;
-    if constexpr (detail::carries_rates(layout)) {
-      if constexpr (rule.quadrature_denominator == 1) {
-        return sum * dt;
-      } else {
-        return sum * (dt * inverse);
-      }
-    } else {
-      static_cast<void>(dt);
-      if constexpr (rule.quadrature_denominator == 1) {
-        return sum;
-      } else {
-        return inverse * sum;
-      }
-    }
+    return detail::scaled_weighted_sum<layout, rule.quadrature_denominator>(
+        weighted_sum(s, std::make_index_sequence<window>{}), dt,
+        detail::RotationVectorWeights<Rule, T>::quadrature_inverse);
   }
 
   // β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (rad; rates: × dt²): the commutator (coning) term, also the

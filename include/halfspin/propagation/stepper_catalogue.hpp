@@ -107,8 +107,6 @@ struct StepperCatalogueOf {
 // algorithms, Runge–Kutta, embedded pairs, Lie-group methods. Ids are stable (never reused).
 // One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
 // clang-format off
-// One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
-// clang-format off
 using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<0, ExponentialMapHoldEnd>,
     CatalogueEntry<16, ExponentialMapHoldStart>,
@@ -135,7 +133,6 @@ using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<3, MuntheKaas4Sampled>,
     CatalogueEntry<24, MuntheKaas4Interpolated>,
     CatalogueEntry<4, MuntheKaas4RateFunction>>;
-// clang-format on
 // clang-format on
 
 static_assert(StepperCatalogue::all_meet_contract, "every catalogued stepper meets the contract");

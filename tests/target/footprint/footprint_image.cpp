@@ -19,16 +19,11 @@
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
-#include "halfspin/propagation/coning_compensation.hpp"
-#include "halfspin/propagation/embedded_runge_kutta.hpp"
-#include "halfspin/propagation/explicit_runge_kutta.hpp"
-#include "halfspin/propagation/exponential_map_step.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
-#include "halfspin/propagation/lie_group_runge_kutta.hpp"
-#include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 
 #if !defined(HALFSPIN_FOOTPRINT_STEPPER) || !defined(HALFSPIN_FOOTPRINT_SCALAR) || \
