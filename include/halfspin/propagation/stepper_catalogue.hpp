@@ -21,6 +21,7 @@
 #include <type_traits>
 #include <utility>
 
+#include "halfspin/propagation/commutator_free_4.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
@@ -132,7 +133,8 @@ using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<13, DormandPrince54RateFunction>,
     CatalogueEntry<3, MuntheKaas4Sampled>,
     CatalogueEntry<24, MuntheKaas4Interpolated>,
-    CatalogueEntry<4, MuntheKaas4RateFunction>>;
+    CatalogueEntry<4, MuntheKaas4RateFunction>,
+    CatalogueEntry<25, CommutatorFree4>>;
 // clang-format on
 
 static_assert(StepperCatalogue::all_meet_contract, "every catalogued stepper meets the contract");
