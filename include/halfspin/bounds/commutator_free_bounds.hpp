@@ -113,10 +113,11 @@ constexpr T product_remainder(const CommutatorFreeRule<W, E>& r,
     std::array<std::array<Rational, W>, W> gamma{};
     for (std::size_t i = 0; i < W; ++i) {
       own[i] = weight_of(r, k, i);
-      difference[i] = Rational{0, 1} - own[i];
+      Rational before{0, 1};  // Σ_{j<k} a_ji
       for (std::size_t j = 0; j < k; ++j) {
-        difference[i] = difference[i] + weight_of(r, j, i);
+        before = before + weight_of(r, j, i);
       }
+      difference[i] = before - own[i];
     }
     for (std::size_t i = 0; i < W; ++i) {
       for (std::size_t l = i + 1; l < W; ++l) {

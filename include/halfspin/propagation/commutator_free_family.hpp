@@ -105,22 +105,29 @@ template <std::size_t W, std::size_t E>
 constexpr Rational third_order_coefficient(const CommutatorFreeRule<W, E>& r) noexcept {
   const std::array<SampleMoments<long double>, W> s =
       rule_sample_moments<long double>(first_order_part(r));
-  Rational t{0, 1};
-  Rational sigma{0, 1};  // σ_k = Σ_{j<k} w_j
-  Rational nu{0, 1};     // Σ_{j<k} μ_j
-  Rational b{0, 1};      // b_k = ½Σ_{j<k} s_j
+  std::array<Rational, E> w{};      // w_k: φ_k ≈ w_k·h·m
+  std::array<Rational, E> sk{};     // s_k: S_k × φ_k ≈ s_k·h³·m×p
+  std::array<Rational, E> sigma{};  // σ_k = Σ_{j<k} w_j
+  Rational nu{0, 1};                // Σ_{j<k} μ_j
   for (std::size_t k = 0; k < E; ++k) {
-    Rational w{0, 1};
     Rational mu{0, 1};
     for (std::size_t i = 0; i < W; ++i) {
-      w = w + weight_of(r, k, i) * s[i].mu[0];
+      w[k] = w[k] + weight_of(r, k, i) * s[i].mu[0];
       mu = mu + weight_of(r, k, i) * s[i].mu[1];
     }
-    const Rational sk = sigma * mu - nu * w;
-    t = t + Rational{1, 12} * (sigma - w) * sk - Rational{1, 2} * b * w;
-    b = b + Rational{1, 2} * sk;
-    sigma = sigma + w;
+    sk[k] = sigma[k] * mu - nu * w[k];
+    if (k + 1 < E) {
+      sigma[k + 1] = sigma[k] + w[k];
+    }
     nu = nu + mu;
+  }
+  // t = Σ_k [(1/12)(σ_k − w_k)s_k − ½b_k w_k] with b_k = ½Σ_{j<k} s_j.
+  Rational t{0, 1};
+  for (std::size_t k = 0; k < E; ++k) {
+    t = t + (sigma[k] - w[k]) * sk[k] * Rational{1, 12};
+    for (std::size_t j = 0; j < k; ++j) {
+      t = t - sk[j] * w[k] * Rational{1, 4};
+    }
   }
   return t;
 }
