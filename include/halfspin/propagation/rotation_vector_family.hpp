@@ -70,8 +70,8 @@ namespace detail {
 // Exact rationals (int64) for the derivations: a consistent or symmetric rule's mismatch must be
 // exactly 0 in every scalar type.
 struct Rational {
-  std::int64_t num;
-  std::int64_t den;  // > 0
+  std::int64_t num{0};
+  std::int64_t den{1};  // > 0; a value-initialized Rational is 0
 };
 constexpr std::int64_t greatest_common_divisor(std::int64_t a, std::int64_t b) noexcept {
   a = a < 0 ? -a : a;
