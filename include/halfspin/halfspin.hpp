@@ -32,6 +32,7 @@
 #include "halfspin/propagation/batch_propagator.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
 #include "halfspin/propagation/commutator_free_family.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"

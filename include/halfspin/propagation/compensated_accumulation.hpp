@@ -1,0 +1,132 @@
+#pragma once
+// The compensated accumulation policy: the attitude held as an unevaluated sum q_hi + q_lo of two
+// T quaternions (a "double-word" number per component), each step's increment q ⊗ δ added with
+// error-free transformations, the public attitude q_hi + q_lo rounded once. It keeps in T what the
+// plain policy (stepper_traits.hpp: q + q ⊗ δ rounded in T) loses every step: a nearly still
+// attitude multiplied by a factor a few ulps from 1 is rounded the same way step after step, so the
+// plain float attitude drifts at a rate set by T's rounding rather than by the method.
+//
+// Building blocks (published, error-free in binary floating point with round-to-nearest):
+//   TwoSum (Knuth, TAOCP vol. 2, 4.2.2): s = fl(a + b), e = a + b − s exactly, 6 flops, no branch;
+//   Fast2Sum (Dekker 1971): the same in 3 flops when |a| ≥ |b| (or a = 0);
+//   double-word + word (Joldes, Muller and Popescu 2017, "Tight and rigorous error bounds for basic
+//   building blocks of double-word arithmetic", ACM TOMS, their algorithm DWPlusFP: TwoSum, one
+//   addition, Fast2Sum): (hi, lo) + y with relative error at most 2u², u the unit roundoff of T,
+//   and the result normalized (|lo| ≤ ½ulp(hi)); see also Ogita, Rump and Oishi 2005, "Accurate sum
+//   and dot product", SIAM J. Sci. Comput., for the summation scheme.
+//
+// One step (δ = P − 1 from the stepper): p = q_hi ⊗ δ rounded in T (28 flops), then per component
+// (q_hi, q_lo) ← DWPlusFP(q_hi, q_lo, p) (10 flops each): 68 flops against the plain 32.
+// Rounding per step (Higham's model, u = unit roundoff; derivation ours):
+//   - p: each component is a 4-term dot product of unit-size q_hi with δ, error ≤ γ₄·|δ|
+//     (γ₄ = 4u/(1 − 4u)) per component, so ≤ 2γ₄·|δ| in the 2-norm;
+//   - the dropped q_lo ⊗ δ: |q_lo| ≤ ½ulp per component ≤ u·|q_hi|, so ≤ u·|δ|·(1 + O(u));
+//   - the four DWPlusFP: ≤ 2u² relative each, ≤ 2u²·|q| in the 2-norm.
+//   So the pair moves from its exact value by at most c1·u·|δ| + c2·u² in the quaternion 2-norm,
+//   c1 = 9 (2γ₄/u → 8, plus 1) and c2 = 2 (for |q| ≈ 1), on top of the increment's own rounding
+//   (the stepper's; relative to |δ| too, since δ is formed without cancellation). As a rotation
+//   angle that is at most twice as much, and |δ| ≈ θ/2 for a step rotating by θ: per step
+//   ≤ c1·u·θ + 2·c2·u² (rad), over a horizon ≤ c1·u·(angle traversed) + 2N·c2·u², instead of the
+//   plain policy's N·c·u.
+// Renormalization acts on the pair: the policy says by what factor 1 + κ it would scale the
+// attitude (κ from the rounded attitude; an error there changes only the norm, which a scale
+// cannot turn into a direction error), and κ·q_hi (a number of size |κ|, rounded with a relative
+// error u) is added to the pair like an increment. The direction moves by O(u·|κ|) = O(u²).
+//
+// Requirements: IEEE binary arithmetic with round-to-nearest, no contraction of a·b + c into a
+// fused multiply-add (-ffp-contract=off, which the library's targets set) and no -ffast-math
+// (which may reassociate (a − (s − b)) into 0): TwoSum and Fast2Sum are exact only then, and the
+// host and Cortex-M results are bit-identical only then (tests/target replays both). No libm call,
+// no branch, no heap.
+
+#include "halfspin/core/quaternion.hpp"
+
+namespace halfspin {
+
+namespace detail {
+
+// A rounded result and its rounding error: sum + error equals the exact result.
+template <class T>
+struct SumAndError {
+  T sum;
+  T error;
+};
+
+// TwoSum (Knuth): fl(a + b) and the exact error, for any finite a, b.
+template <class T>
+constexpr SumAndError<T> two_sum(T a, T b) noexcept {
+  const T s = a + b;
+  const T b_virtual = s - a;
+  const T a_virtual = s - b_virtual;
+  return {s, (a - a_virtual) + (b - b_virtual)};
+}
+
+// Fast2Sum (Dekker): fl(a + b) and the exact error when |a| ≥ |b| or a = 0.
+template <class T>
+constexpr SumAndError<T> fast_two_sum(T a, T b) noexcept {
+  const T s = a + b;
+  return {s, b - (s - a)};
+}
+
+// (hi, lo) + y as a normalized double-word (Joldes, Muller and Popescu 2017, DWPlusFP): relative
+// error ≤ 2u².
+template <class T>
+constexpr SumAndError<T> double_word_plus(T hi, T lo, T y) noexcept {
+  const SumAndError<T> s = two_sum(hi, y);
+  const T v = lo + s.error;
+  return fast_two_sum(s.sum, v);
+}
+
+// The pair (hi, lo) + p, componentwise.
+template <class T>
+constexpr void add_to_pair(Quaternion<T>& hi, Quaternion<T>& lo, const Quaternion<T>& p) noexcept {
+  const SumAndError<T> w = double_word_plus(hi.w, lo.w, p.w);
+  const SumAndError<T> x = double_word_plus(hi.x, lo.x, p.x);
+  const SumAndError<T> y = double_word_plus(hi.y, lo.y, p.y);
+  const SumAndError<T> z = double_word_plus(hi.z, lo.z, p.z);
+  hi = {w.sum, x.sum, y.sum, z.sum};
+  lo = {w.error, x.error, y.error, z.error};
+}
+
+}  // namespace detail
+
+struct CompensatedAccumulation {
+  static constexpr const char* name = "compensated";
+  static constexpr int flops = 28 + 4 * 10;  // q_hi ⊗ δ, four double-word additions
+  // Rounding per step: ≤ c1·u·|δ| + c2·u² in the quaternion 2-norm (unit attitude; header
+  // comment).
+  static constexpr int increment_rounding_c1 = 9;
+  static constexpr int increment_rounding_c2 = 2;
+
+  template <class T>
+  struct State {
+    Quaternion<T> hi;
+    Quaternion<T> lo{T(0), T(0), T(0), T(0)};
+  };
+  // The state holding attitude q (body → reference), exactly.
+  template <class T>
+  static constexpr State<T> start(const Quaternion<T>& q) noexcept {
+    return {q, {T(0), T(0), T(0), T(0)}};
+  }
+  // The state after one step with increment delta: (q_hi + q_lo) + q_hi ⊗ delta.
+  template <class T>
+  static constexpr State<T> advanced(const State<T>& s, const Quaternion<T>& delta) noexcept {
+    State<T> r = s;
+    detail::add_to_pair(r.hi, r.lo, s.hi * delta);
+    return r;
+  }
+  // The attitude the state stands for (body → reference): q_hi + q_lo rounded once.
+  template <class T>
+  static constexpr Quaternion<T> attitude(const State<T>& s) noexcept {
+    return s.hi + s.lo;
+  }
+  // The state scaled by 1 + kappa (renormalization): kappa·q_hi added like an increment.
+  template <class T>
+  static constexpr State<T> scaled(const State<T>& s, T kappa) noexcept {
+    State<T> r = s;
+    detail::add_to_pair(r.hi, r.lo, kappa * s.hi);
+    return r;
+  }
+};
+
+}  // namespace halfspin

@@ -1,0 +1,133 @@
+// The compensated accumulation policy (propagation/compensated_accumulation.hpp): its error-free
+// building blocks against long double, and the accumulation's per-step rounding bound on a motion
+// the plain policy cannot follow at all in float.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+#include <cstdint>
+#include <limits>
+#include <random>
+
+#include "halfspin/core/angle_between.hpp"
+#include "halfspin/core/exponential_map.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
+#include "halfspin/propagation/stepper_traits.hpp"
+#include "test_support.hpp"
+
+using namespace halfspin;
+
+namespace {
+
+using L = long double;
+
+// A float with a random sign, mantissa and binary exponent in [low, high).
+float random_float(std::mt19937& rng, int low, int high) {
+  std::uniform_real_distribution<float> mantissa(1.0f, 2.0f);
+  std::uniform_int_distribution<int> exponent(low, high - 1);
+  std::bernoulli_distribution negative(0.5);
+  const float m = std::ldexp(mantissa(rng), exponent(rng));
+  return negative(rng) ? -m : m;
+}
+
+constexpr L u_float = std::numeric_limits<float>::epsilon() / 2;  // unit roundoff of float
+
+}  // namespace
+
+TEST_CASE("TwoSum and Fast2Sum are error-free in float", "[reference]") {
+  // Source: Knuth, TAOCP vol. 2, 4.2.2 (TwoSum: s + e = a + b exactly for any a, b); Dekker 1971
+  // (Fast2Sum: exactly, when |a| ≥ |b|). The exact sums are formed in long double (64-bit
+  // significand: exact for two floats whose exponents differ by less than 40).
+  std::mt19937 rng(3);
+  for (int i = 0; i < 100000; ++i) {
+    const float a = random_float(rng, -20, 20);
+    const float b = random_float(rng, -20, 20);
+    const detail::SumAndError<float> t = detail::two_sum(a, b);
+    CHECK(static_cast<L>(t.sum) + static_cast<L>(t.error) == static_cast<L>(a) + b);
+    CHECK(t.sum == a + b);
+    const float big = std::fabs(a) >= std::fabs(b) ? a : b;
+    const float small = std::fabs(a) >= std::fabs(b) ? b : a;
+    const detail::SumAndError<float> f = detail::fast_two_sum(big, small);
+    CHECK(static_cast<L>(f.sum) + static_cast<L>(f.error) == static_cast<L>(big) + small);
+  }
+}
+
+TEST_CASE("double-word plus word: relative error at most 2u², result normalized", "[reference]") {
+  // Source: Joldes, Muller and Popescu 2017, ACM TOMS, algorithm DWPlusFP: relative error ≤ 2u²
+  // (u the unit roundoff of float here), output a normalized double-word.
+  std::mt19937 rng(5);
+  L worst = 0;
+  for (int i = 0; i < 100000; ++i) {
+    const float hi = random_float(rng, -2, 2);
+    // A normalized low part: |lo| ≤ ½ulp(hi).
+    const float half_ulp = std::ldexp(1.0f, std::ilogb(hi) - 24);
+    std::uniform_real_distribution<float> fraction(-1.0f, 1.0f);
+    const float lo = fraction(rng) * half_ulp;
+    const float y = random_float(rng, -30, 3);
+    const detail::SumAndError<float> r = detail::double_word_plus(hi, lo, y);
+    const L exact = static_cast<L>(hi) + static_cast<L>(lo) + static_cast<L>(y);
+    const L got = static_cast<L>(r.sum) + static_cast<L>(r.error);
+    if (exact != 0) {
+      worst = std::fmax(worst, std::fabs(got - exact) / std::fabs(exact));
+    }
+    CHECK(r.sum == r.sum + r.error);  // normalized: the low part is below half an ulp
+  }
+  INFO("worst relative error " << static_cast<double>(worst / (u_float * u_float)) << " u²");
+  CHECK(worst <= 2 * u_float * u_float);
+}
+
+TEST_CASE("compensated float keeps rotations the plain policy rounds away, within its bound") {
+  // 10⁶ steps of 10⁻⁹ rad about a fixed axis (|δ| = 5·10⁻¹⁰, below half an ulp of 1 in float):
+  // the plain policy returns the start attitude every step; the compensated one must follow the
+  // 10⁻³ rad rotation to within its bound c1·u·(angle traversed) + 2N·c2·u² plus the increment's
+  // own rounding (the same rounded δ every step: at most u·|δ| per step, in the angle 2u·|δ|).
+  const int steps = 1000000;
+  const L theta = 1e-9L;
+  const Vector3<L> axis = normalized(Vector3<L>{0.3L, -0.5L, 0.8L});
+  const Quaternion<float> delta = test::narrow<float>(quaternion_exp_minus_one(axis * theta));
+  const Quaternion<float> start =
+      test::narrow<float>(normalized(Quaternion<L>{0.9L, 0.2L, -0.3L, 0.1L}));
+  PlainAccumulation::State<float> plain = PlainAccumulation::start(start);
+  CompensatedAccumulation::State<float> compensated = CompensatedAccumulation::start(start);
+  for (int k = 0; k < steps; ++k) {
+    plain = PlainAccumulation::advanced(plain, delta);
+    compensated = CompensatedAccumulation::advanced(compensated, delta);
+  }
+  const Quaternion<L> truth =
+      test::widen(start) * quaternion_exp(axis * (theta * static_cast<L>(steps)));
+  const L plain_error = angle_between(test::widen(PlainAccumulation::attitude(plain)), truth);
+  // The pair in long double, so the check sees the accumulation, not the final rounding.
+  const Quaternion<L> pair = test::widen(compensated.hi) + test::widen(compensated.lo);
+  const L compensated_error = angle_between(pair, truth);
+  const L traversed = theta * steps;
+  const L bound = CompensatedAccumulation::increment_rounding_c1 * u_float * traversed +
+                  2 * steps * CompensatedAccumulation::increment_rounding_c2 * u_float * u_float +
+                  2 * u_float * traversed;
+  INFO("plain " << static_cast<double>(plain_error) << " rad, compensated "
+                << static_cast<double>(compensated_error) << " rad, bound "
+                << static_cast<double>(bound) << " rad");
+  CHECK(plain_error > 0.9e-3L);  // the plain policy lost the whole rotation
+  CHECK(compensated_error <= bound);
+  CHECK(compensated_error < 1e-6L * traversed + 1e-7L);
+}
+
+TEST_CASE("scaling the pair changes its norm, not its direction") {
+  // Renormalization adds κ·q_hi to the pair; the direction moves by O(u·κ) only (κ is of the
+  // size of the norm error, O(u), when renormalizing every step).
+  std::mt19937 rng(11);
+  std::uniform_real_distribution<float> c(-1.0f, 1.0f);
+  for (int i = 0; i < 1000; ++i) {
+    CompensatedAccumulation::State<float> s =
+        CompensatedAccumulation::start(Quaternion<float>{c(rng), c(rng), c(rng), c(rng)});
+    const float kappa = c(rng) * 1e-6f;
+    const CompensatedAccumulation::State<float> r = CompensatedAccumulation::scaled(s, kappa);
+    const Quaternion<L> before = test::widen(s.hi) + test::widen(s.lo);
+    const Quaternion<L> after = test::widen(r.hi) + test::widen(r.lo);
+    const L expected_norm = std::sqrt(squared_norm(before)) * (1 + static_cast<L>(kappa));
+    // κ·q_hi is rounded with relative error u: at most u·|κ| per component, so 2u·|κ| in the
+    // 2-norm and twice that as an angle; the additions add 2u² each.
+    CHECK(angle_between(before, after) <=
+          4 * u_float * std::fabs(static_cast<L>(kappa)) + 8 * u_float * u_float);
+    CHECK(std::fabs(std::sqrt(squared_norm(after)) - expected_norm) <=
+          4 * u_float * u_float + 2 * u_float * std::fabs(static_cast<L>(kappa)));
+  }
+}
