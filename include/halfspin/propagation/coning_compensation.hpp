@@ -3,7 +3,8 @@
 //     φ = α + β̂,   α = Σ Δθ_i,   β̂ = Σ_{m≥1} c_m Σ_{j−i=m} Δθ_i × Δθ_j,
 // followed by the exact exponential-map update q ← q ⊗ quaternion_exp(φ). α + β is the first
 // two Magnus terms of the step, β = ½∫ α(t) × ω(t) dt (Bortz's rotation-vector equation
-// integrated to second order); the c_m estimate β from the delta-angles alone.
+// integrated to second order: bounds/magnus_family_bounds.hpp §1); the c_m estimate β from the
+// delta-angles alone.
 //
 // Derivation of c_m (ours; every number below is re-derived by tests/propagation/test_coning.cpp).
 // Classical coning, ω(t) = (−Ω(1 − cos a), −Ω sin a sin Ωt, Ω sin a cos Ωt), N delta-angles of
@@ -21,9 +22,13 @@
 //   N = 4: K = (214/105, 92/105, 54/105);   error −λ⁹/315 · sin²a
 // and for one new sample with the previous one (Δθ_prev × Δθ, separation 1): k = 1/12, error
 // −λ⁵/60 · sin²a. The per-step coning error is O(λ^{2N+1}); summed over 1/(Nh) steps per unit
-// time the attitude drift falls as h^{2N}. The weights are spread evenly over the pairs of one
-// separation (c_m = K_m/(N − m)), which keeps the estimate symmetric under time reversal: for N = 3
-// that is the form 9/20 Δθ1×Δθ3 + 27/40 Δθ2×(Δθ3 − Δθ1).
+// time the attitude drift falls as h^{2N}. For any coefficient set (Miller's below too) the same
+// criterion gives the coning order: if λ^{2k+1} is the first odd power at which
+// Σ_m K_m·2(1 − cos λ) sin mλ and ½(Nλ − sin Nλ) differ (N the new samples of a step), that term
+// is the per-step error and the drift falls as h^{2k}; coning_drift_order
+// (rotation_vector_family.hpp) evaluates it from a rule's weights. The weights are spread evenly
+// over the pairs of one separation (c_m = K_m/(N − m)), which keeps the estimate symmetric under
+// time reversal: for N = 3 that is the form 9/20 Δθ1×Δθ3 + 27/40 Δθ2×(Δθ3 − Δθ1).
 //
 // Orders. Under pure classical coning the coning drift error falls as h^{2N} (N new samples; the
 // one-plus-previous algorithm: h⁴). That holds only while it exceeds the remainder of the

@@ -2,13 +2,13 @@
 // The fourth-order Magnus step from three rate samples spanning the step (start, middle, end; the
 // step is two sample periods):
 //     φ = dt/6·(ω0 + 4ω1 + ω2) + dt²/12·(ω0 × ω2),   q(t + dt) = q(t) ⊗ exp(φ/2).
-// Derivation: for q̇ = ½ q ⊗ (0, ω) the rotation vector of the step obeys Bortz's equation
-// φ̇ = ω + ½ φ × ω + O(|φ|²|ω|), so φ = ∫ω + ½∫₀^dt (∫₀^t ω) × ω(t) dt + O(dt⁵). Simpson's rule
-// makes the first term fourth order. In the second, with ω = a + b·τ about mid-step, the double
-// integral is (dt³/12)·a × b + O(dt⁵), and ω0 × ω2 = dt·a × b + O(dt³): the commutator (coning)
-// term dt²/12·ω0 × ω2. Local error O(dt⁵), global order 4 with real samples at start, middle and
-// end (Magnus expansion: Iserles and Nørsett 1999; Blanes, Casas, Oteo and Ros 2009). Its
-// delta-angle counterpart is the two-sample coning algorithm (coning_compensation.hpp).
+// Why order 4 (Magnus expansion: Iserles and Nørsett 1999; Blanes, Casas, Oteo and Ros 2009):
+// Simpson's rule is exact through cubics and the weight 1/12 on ω0 × ω2 gives the commutator
+// coefficient κ_p = 1/12 with κ_q = 0 by time symmetry, so only the third Magnus term, O(dt⁵) per
+// step, remains with real samples at start, middle and end. Derivation:
+// rotation_vector_family.hpp ("Order"); error expansion and bound:
+// bounds/magnus_family_bounds.hpp §1–§4. Its delta-angle counterpart is the two-sample coning
+// algorithm (coning_compensation.hpp).
 //
 // A RotationVectorRule (rotation_vector_family.hpp): Simpson weights 1, 4, 1 over 6 and the
 // commutator weight 1/12 at separation 2; order, flops and bound are derived from it.

@@ -6,14 +6,15 @@
 // delta-angles (rad) over the sample intervals that tile it (with, for one algorithm, the previous
 // step's last one in front). α̂ is a quadrature of ∫ω (exact for delta-angles), β̂ estimates the
 // commutator (coning) term β = ½∫α×ω of the Magnus expansion / Bortz's rotation-vector equation
-// (see REFERENCES.md). The exponential-map steps (β̂ = 0), the fourth-order Magnus step and the
-// multi-sample coning algorithms are the members; each is one RotationVectorRule below, and
-// everything else is derived from it here: the order for general smooth motion, the order of the
+// (see REFERENCES.md; the split φ* = α + β + R: bounds/magnus_family_bounds.hpp §1). The
+// exponential-map steps (β̂ = 0), the fourth-order Magnus step and the multi-sample coning
+// algorithms are the members; each is one RotationVectorRule below, and everything else is
+// derived from it here: the order for general smooth motion, the order of the
 // coning drift under pure classical coning, the flop count, and (in the bounds layer) the
 // a-priori error bound. A stepper and its bound therefore cannot disagree.
 //
 // Order for general motion (derivation ours, the inputs are the Magnus expansion and the
-// moments of the samples; bounds/rotation_vector_bounds.hpp has the full error expansion):
+// moments of the samples; bounds/magnus_family_bounds.hpp §2–§4 has the full error expansion):
 //   quadrature: a rule exact for polynomials of degree d has local error O(h^(d+2)), global d + 1;
 //   commutator: with the step as τ ∈ [−½, ½] and ω = m + pτ + qτ²/2 + …, β = h³/12·m×p + O(h⁵),
 //     and β̂ has coefficient κ_p = Σ c(μ0ᵢμ1ⱼ − μ0ⱼμ1ᵢ) on m×p and κ_q = Σ c(μ0ᵢμ2ⱼ − μ0ⱼμ2ᵢ) on
@@ -21,11 +22,8 @@
 //     (global order 2), κ_q ≠ 0 an h⁴ term (order 3), otherwise the third Magnus term O(h⁵)
 //     remains (order 4).
 //   order = min(d + 1, that); delta-angles carry α exactly.
-// Coning order (delta-angles; derivation in coning_compensation.hpp): under classical coning
-// the x-component of a cross product of two delta-angles m periods apart is sin²a·2(1 − cos λ)·
-// sin(mλ), the exact term over N periods ½ sin²a (Nλ − sin Nλ); with K_m the total weight per
-// separation, the first odd power λ^(2k+1) at which Σ K_m 2(1 − cos λ) sin mλ and ½(Nλ − sin Nλ)
-// differ is the per-step error, and the drift falls as h^(2k).
+// Coning order (delta-angle rules): coning_drift_order applies the series-matching criterion
+// derived in coning_compensation.hpp ("Derivation of c_m") to the rule's weights.
 // Flops (+ − ×, counted from the code below): quadrature 3 per added sample, 3 per weight other
 // than 1, 3 for the scaling (rates: dt times the weight denominator 1 more); commutator per
 // separation with a nonzero weight 9 per pair, 3 per added pair, 3 to scale, 3 to add
@@ -491,7 +489,7 @@ struct RotationVectorStepper {
 
   // exp(φ/2) − 1 and, for a rule with a commutator, |β̂| (rad): the non-commutativity the step
   // saw, i.e. the error a step without the correction would make (an indicator, not this
-  // method's own, much smaller, error; tests/bounds/test_rotation_vector_bounds.cpp measures it).
+  // method's own, much smaller, error; tests/bounds/test_magnus_family_bounds.cpp measures it).
   template <class T>
   static Increment<T> increment(const std::array<Vector3<T>, window>& s, T dt) noexcept {
     if constexpr (has_estimate) {
