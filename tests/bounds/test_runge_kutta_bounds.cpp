@@ -433,8 +433,9 @@ TEST_CASE("The exponential map does not increase distances in the ball of radius
 }
 
 TEST_CASE("The dexp-inverse coefficient excess is bounded from above", "[bounds][reference]") {
-  // β(x) = (1 − (x/2)cot(x/2))/x² (Bortz 1971; the rotation-vector equation); the header's
-  // upper bound for β(x) − 1/12 on [0, 1] must hold and be within 1 % of the closed form.
+  // f(x) = (1 − (x/2)cot(x/2))/x² (Bortz 1971; the rotation-vector equation); the upper bound for
+  // f(x) − 1/12 on [0, 1] (derivation: include/halfspin/bounds/magnus_family_bounds.hpp §3) must
+  // hold and be within 1 % of the closed form.
   for (LD x = 0.01L; x <= 1.0L; x += 0.01L) {
     const LD beta = (1.0L - 0.5L * x / std::tan(0.5L * x)) / (x * x);
     const LD excess = beta - 1.0L / 12.0L;

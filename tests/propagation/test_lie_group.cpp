@@ -84,9 +84,9 @@ TEST_CASE("RKMK4 facts: inputs and orders as for classic RK4", "[lie_group]") {
 TEST_CASE("the truncated dexp⁻¹ differs from the Bortz equation by the next series term",
           "[lie_group][reference]") {
   // Bortz 1971 (rotation-vector equation, exact form above); the series of its coefficient,
-  // 1/12 + x²/720 + x⁴/30240, follows from z·cot z = 1 − z²/3 − z⁴/45 − 2z⁶/945 (Bernoulli numbers,
-  // common practice, no source). Our truncation keeps 1/12, so exact − truncated must be
-  // (x²/720)·θ×(θ×ω) to relative O(x²).
+  // 1/12 + x²/720 + …, from the Bernoulli-number series of z·cot z (common practice, no source;
+  // derivation: include/halfspin/bounds/magnus_family_bounds.hpp §3). Our truncation keeps 1/12,
+  // so exact − truncated must be (x²/720)·θ×(θ×ω) to relative O(x²).
   test::RandomRotations rng(5);
   L worst = 0;
   for (int n = 0; n < 2000; ++n) {

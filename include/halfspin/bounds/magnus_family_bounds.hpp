@@ -14,19 +14,29 @@
 // 0. Metric. The error is d(q⊗exp(φ/2), q⊗exp(φ*/2)) = d(exp(φ/2), exp(φ*/2)) ≤ |φ − φ*| for
 //    rotation vectors shorter than π: the exponential map's differential has singular values 1 and
 //    sin(θ/2)/(θ/2) ≤ 1, so it shortens every segment of the (convex) ball (common practice, no
-//    source; checked numerically in the tests). |φ*| ≤ ∫|ω| ≤ X := D0·h ≤ 1, and a bound B < 2
+//    source; checked numerically in tests/bounds/test_magnus_family_bounds.cpp, and again in
+//    test_runge_kutta_bounds.cpp and test_roundoff_floor.cpp; the RKMK4 bound and the roundoff
+//    floor rely on it too). |φ*| ≤ ∫|ω| ≤ X := D0·h ≤ 1, and a bound B < 2
 //    keeps |φ| ≤ X + B < π.
-// 1. Split. Let α(t) = ∫₀ᵗω, β = ½∫₀ʰ α×ω dt. Bortz's equation φ̇ = ω + ½φ×ω + f(|φ|)φ×(φ×ω),
-//    f(x) = (1 − (x/2)cot(x/2))/x², gives φ*(h) = α(h) + β + R. A method computes φ = α̂ + β̂, so
-//    |φ − φ*| ≤ |α̂ − α| + |β̂ − β| + |R|.
+// 1. Split. Let α(t) = ∫₀ᵗω, β = ½∫₀ʰ α×ω dt. Bortz's equation (Bortz 1971) for the rotation
+//    vector of the step, φ̇ = dexp⁻¹_φ(ω) = ω + ½φ×ω + f(|φ|)φ×(φ×ω),
+//    f(x) = (1 − (x/2)cot(x/2))/x² (its series and bounds in §3), gives φ*(h) = α(h) + β + R. A
+//    method computes φ = α̂ + β̂, so |φ − φ*| ≤ |α̂ − α| + |β̂ − β| + |R|. (The derivation lives
+//    here; other headers state the equation they use in a line and cite this section.)
 // 2. Quadrature |α̂ − α| (rate inputs; delta-angles carry α exactly). The Peano kernels of these
 //    rules keep one sign, so the scalar error constants hold for vector ω with D_k in place of
 //    |f⁽ᵏ⁾| (common practice, no source): rectangle h²/2·D1, trapezoid h³/12·D2 (or h²/3·D1,
 //    from |ω − linear interpolant| ≤ 2D1 t(h − t)/h), midpoint h³/24·D2 (or h²/4·D1), Simpson
 //    h⁵/2880·D4. The smaller of two valid forms is used.
-// 3. Remainder R. f is increasing with positive Taylor coefficients in x², so on [0, 1]
-//    1/12 ≤ f ≤ F := 1/12 + X²/700 (convexity in x², f(1) − 1/12 = 0.0014228…). With ψ = φ − α,
-//    |α(t)×ω(t)| ≤ D0·D1·t²/2 (α = tω − ∫sω̇), |φ(t)| ≤ D0 t, Grönwall on
+// 3. Remainder R. The coefficient f: with z = x/2, z·cot z = 1 − z²/3 − z⁴/45 − 2z⁶/945 − …
+//    (Bernoulli numbers; common practice, no source; coefficients from memory), so
+//    f(x) = 1/12 + x²/720 + x⁴/30240 + …, every Taylor coefficient in x² positive and the ratio
+//    of successive ones rising to 1/(2π)² < 1/39. Hence f is increasing, and on [0, 1]
+//    f(x) − 1/12 ≤ x²/720 + (x⁴/30240)/(1 − x²/39) (the RKMK4 bound's majorant,
+//    runge_kutta_bounds.hpp (B); tests/bounds/test_runge_kutta_bounds.cpp checks it against the
+//    closed form) and 1/12 ≤ f ≤ F := 1/12 + X²/700 (convexity in x²,
+//    f(1) − 1/12 = 0.0014228…). With ψ = φ − α, |α(t)×ω(t)| ≤ D0·D1·t²/2 (α = tω − ∫sω̇),
+//    |φ(t)| ≤ D0 t, Grönwall on
 //    ψ̇ = ½(α + ψ)×ω + fφ×(φ×ω) gives |ψ(t)| ≤ g·D0·D1·t³, g = k·e^{kX}/6, k = ½ + F·X (e^y is
 //    bounded by its quartic Taylor polynomial plus y⁴/(24(1 − y/5)) to stay constexpr). Then:
 //    (a) crude, D0 and D1 only: |R(t)| ≤ r4·D0²·D1·t⁴, r4 = g/8 + F(1/8 + gX/5);

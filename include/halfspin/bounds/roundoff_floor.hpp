@@ -33,9 +33,9 @@
 //        `flops` counts every operation of the step). Every intermediate of the increment is a
 //        sum, scaled sum or cross product of rate·dt terms, bounded with its sensitivity by
 //        θ·G (G the stage growth of (b) below), so |φ̂ − φ| ≤ γ_{flops+2}·θ·G, and the
-//        exponential map does not increase distances in the ball |φ| < π (common practice, no
-//        source: a comparison-theorem fact, checked numerically in test_roundoff_floor.cpp), so
-//        the rotation angle is at most that.
+//        exponential map does not increase distances in the ball |φ| < π
+//        (magnus_family_bounds.hpp §0; checked again in test_roundoff_floor.cpp), so the
+//        rotation angle is at most that.
 //  (b) Runge–Kutta family (q₊ = q + Σ_i b_i(dt/2)·k̃_i, the stepper declares state_order or
 //      embedded_order): the sum over at most S nonzero weights rounds each component of the
 //      result by at most γ_S·(|q_j| + Σ_i |x_ij|), x_i = b_i(dt/2)k̃_i, so |E| ≤ γ_S·|q|·(1 + B)

@@ -4,9 +4,9 @@
 // renormalization (Munthe-Kaas 1998).
 //
 // Within a step write q(t + τ) = q(t) ⊗ exp(θ(τ)/2) with the rotation vector θ(0) = 0. θ obeys the
-// rotation-vector (Bortz 1971) equation θ̇ = dexp⁻¹_θ(ω) = ω + ½ θ×ω + β(|θ|) θ×(θ×ω), with
-// β(x) = (1 − (x/2)·cot(x/2))/x² = 1/12 + x²/720 + … . RK4 integrates θ over the step and the
-// update is q₊ = q ⊗ exp(θ(dt)/2), a product of two unit quaternions: the norm carries no
+// rotation-vector (Bortz 1971) equation θ̇ = dexp⁻¹_θ(ω) = ω + ½ θ×ω + f(|θ|) θ×(θ×ω), f(0) = 1/12
+// (f and its series: bounds/magnus_family_bounds.hpp §1, §3). RK4 integrates θ over the step and
+// the update is q₊ = q ⊗ exp(θ(dt)/2), a product of two unit quaternions: the norm carries no
 // truncation error, only the rounding of each step. When the rates vary, those roundings are
 // uncorrelated and | |q| − 1 | grows as a random walk (measured 0.23·√N·ε over 10⁶ steps in
 // double). When |θ| is the same every step (constant rate, coning) the scalar part cos(|θ|/2) is
