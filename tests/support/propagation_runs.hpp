@@ -7,6 +7,7 @@
 #include <cmath>
 
 #include "halfspin/core/angle_between.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
 #include "test_support.hpp"
@@ -21,11 +22,12 @@ struct RunError {
 };
 
 // Propagates over [0, horizon] from the truth's attitude at 0 (exact renormalization, so only the
-// attitude error counts), sampling the motion every h seconds as the stepper's layout asks.
-template <class Stepper, class T, class Motion>
+// attitude error counts), sampling the motion every h seconds as the stepper's layout asks, with
+// the given accumulation policy (stepper_traits.hpp, compensated_accumulation.hpp).
+template <class Stepper, class T, class Motion, class Accumulation = PlainAccumulation>
 RunError max_error(const Motion& m, LD h, LD horizon) {
-  Propagator<T, Stepper, ExactRenormalization> p(narrow<T>(m.attitude(0)),
-                                                 GyroLimits<T>{T(1e3), T(10)});
+  Propagator<T, Stepper, ExactRenormalization, Accumulation> p(narrow<T>(m.attitude(0)),
+                                                               GyroLimits<T>{T(1e3), T(10)});
   const long samples = std::lround(horizon / h);
   LD worst = 0;
   auto compare = [&](long k) {
