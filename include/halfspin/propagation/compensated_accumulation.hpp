@@ -36,11 +36,15 @@
 // of size |κ|, rounded with a relative error u) is added to the pair like an increment. The
 // direction moves by O(u·|κ|) = O(u²) when renormalizing every step.
 //
-// Requirements: IEEE binary arithmetic with round-to-nearest, no contraction of a·b + c into a
-// fused multiply-add (-ffp-contract=off, which the library's targets set) and no -ffast-math
-// (which may reassociate (a − (s − b)) into 0): TwoSum and Fast2Sum are exact only then, and the
-// host and Cortex-M results are bit-identical only then (tests/target replays both). No libm call,
-// no branch, no heap.
+// Requirements: IEEE binary arithmetic with round-to-nearest and no reassociation: -ffast-math
+// (or -fassociative-math) may rewrite b − (s − a) as 0 and make TwoSum and Fast2Sum inexact, so
+// using this policy under __FAST_MATH__ is a compile error. Contraction of a·b + c into a fused
+// multiply-add does not touch TwoSum (additions only) but changes the rounding of q_hi ⊗ δ, so
+// host and Cortex-M results are bit-identical only with -ffp-contract=off, which the library's
+// builds set (tests/target replays compensated configurations on both). No libm call, no branch,
+// no heap.
+
+#include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
 
@@ -91,6 +95,15 @@ constexpr void add_to_pair(Quaternion<T>& hi, Quaternion<T>& lo, const Quaternio
   lo = {w.error, x.error, y.error, z.error};
 }
 
+#if defined(__FAST_MATH__)
+inline constexpr bool reassociation_possible = true;
+#else
+inline constexpr bool reassociation_possible = false;
+#endif
+// Dependent on T so that the check fires where the policy is used, not where it is included.
+template <class T>
+inline constexpr bool error_free_sums = !reassociation_possible && std::is_floating_point<T>::value;
+
 }  // namespace detail
 
 struct CompensatedAccumulation {
@@ -114,6 +127,9 @@ struct CompensatedAccumulation {
   // The state after one step with increment delta: (q_hi + q_lo) + q_hi ⊗ delta.
   template <class T>
   static constexpr State<T> advanced(const State<T>& s, const Quaternion<T>& delta) noexcept {
+    static_assert(detail::error_free_sums<T>,
+                  "CompensatedAccumulation needs exact TwoSum/Fast2Sum: compile without "
+                  "-ffast-math (-fassociative-math), or use PlainAccumulation");
     State<T> r = s;
     detail::add_to_pair(r.hi, r.lo, s.hi * delta);
     return r;

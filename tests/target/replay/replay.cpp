@@ -105,11 +105,13 @@ class Trace {
 
 const halfspin::GyroLimits<float> limits{35.0f, 0.01f};
 
-// A stepper fed by samples (rates or delta-angles, as its layout says), one push per sample.
-template <class Stepper, class Policy>
-void run_samples() {
-  halfspin::Propagator<float, Stepper, Policy> p(Quaternion<float>::identity(), limits);
-  Trace trace('Q', Stepper::name, Policy::name);
+// A stepper fed by samples (rates or delta-angles, as its layout says), one push per sample; the
+// label names the renormalization policy (and a non-plain accumulation policy).
+template <class Stepper, class Policy, class Accumulation = halfspin::PlainAccumulation>
+void run_samples(const char* label = Policy::name) {
+  halfspin::Propagator<float, Stepper, Policy, Accumulation> p(Quaternion<float>::identity(),
+                                                               limits);
+  Trace trace('Q', Stepper::name, label);
   GyroLog log;
   for (int k = 0; k < sample_count; ++k) {
     const GyroSample s = log.next();
@@ -127,10 +129,11 @@ void run_samples() {
 
 // A rate-function stepper: one step per sample period, the rate interpolated linearly between the
 // samples at its ends (pure arithmetic, so it replays like the samples themselves).
-template <class Stepper, class Policy>
-void run_rate_function() {
-  halfspin::Propagator<float, Stepper, Policy> p(Quaternion<float>::identity(), limits);
-  Trace trace('Q', Stepper::name, Policy::name);
+template <class Stepper, class Policy, class Accumulation = halfspin::PlainAccumulation>
+void run_rate_function(const char* label = Policy::name) {
+  halfspin::Propagator<float, Stepper, Policy, Accumulation> p(Quaternion<float>::identity(),
+                                                               limits);
+  Trace trace('Q', Stepper::name, label);
   GyroLog log;
   Vector3<float> start = log.next().rate;
   for (int k = 1; k < sample_count; ++k) {
@@ -290,6 +293,20 @@ int main() {
   run_two_speed();
   run_rate_function<MuntheKaas4RateFunction, NoRenormalization>();
   run_rate_function<DormandPrince54RateFunction, ExactRenormalization>();
+  // The compensated accumulation (compensated_accumulation.hpp): TwoSum and Fast2Sum are exact,
+  // and so bit-identical on host and target, only without contraction into fused multiply-adds
+  // and without -ffast-math; these configurations hold both builds to that.
+  using halfspin::CompensatedAccumulation;
+  run_samples<ExponentialMapHoldEnd, FirstOrderRenormalization, CompensatedAccumulation>(
+      "first_order+compensated");
+  run_samples<Coning2Sample, FirstOrderRenormalization, CompensatedAccumulation>(
+      "first_order+compensated");
+  run_samples<Coning3Sample, ExactRenormalization, CompensatedAccumulation>("exact+compensated");
+  run_samples<MuntheKaas4Sampled, NoRenormalization, CompensatedAccumulation>("none+compensated");
+  run_samples<CommutatorFree4, FirstOrderRenormalization, CompensatedAccumulation>(
+      "first_order+compensated");
+  run_rate_function<RungeKutta4RateFunction, FirstOrderRenormalization, CompensatedAccumulation>(
+      "first_order+compensated");
 
   run_libm_exponential();
   run_libm_exponential_calls();
