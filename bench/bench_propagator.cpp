@@ -9,6 +9,9 @@
 // Also propagator_renormalization/<policy>/<method>/<scalar> for three steppers and the policies
 // none, first_order (the default) and periodic (exact every 16 steps): what the policy adds to the
 // step's serial chain (the attitude of step n+1 waits for the renormalized attitude of step n).
+// And propagator_compensated/<method>/<scalar>: the same path with the compensated accumulation
+// (compensated_accumulation.hpp), for every sample-driven stepper; its cost against
+// propagator/<method>/<scalar>.
 #include <benchmark/benchmark.h>
 
 #include <string>
@@ -27,6 +30,16 @@ void register_propagator() {
   const std::string name =
       std::string("propagator/") + Stepper::name + "/" + bench::scalar_name<T>();
   benchmark::RegisterBenchmark(name.c_str(), &bench::measure<bench::PropagatorRun<Stepper, T>>);
+}
+
+template <class Stepper, class T>
+void register_compensated() {
+  const std::string name =
+      std::string("propagator_compensated/") + Stepper::name + "/" + bench::scalar_name<T>();
+  benchmark::RegisterBenchmark(
+      name.c_str(),
+      &bench::measure<
+          bench::PropagatorRun<Stepper, T, FirstOrderRenormalization, CompensatedAccumulation>>);
 }
 
 template <class Stepper, class T, class Renormalization>
@@ -52,6 +65,8 @@ const bool registered = [] {
     using Stepper = typename decltype(tag)::type;
     register_propagator<Stepper, float>();
     register_propagator<Stepper, double>();
+    register_compensated<Stepper, float>();
+    register_compensated<Stepper, double>();
   });
   register_renormalizations<ExponentialMapHoldEnd>();
   register_renormalizations<Coning2Sample>();

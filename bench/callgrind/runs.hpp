@@ -4,7 +4,7 @@
 // the same code.
 //
 //   BareStepRun<Stepper, T>   q ← Stepper::step(q, window_k, dt): the stepper alone
-//   PropagatorRun<Stepper, T[, Renormalization]>
+//   PropagatorRun<Stepper, T[, Renormalization[, Accumulation]]>
 //                             Propagator<T, Stepper, Renormalization> (default: the propagator's
 //                             default, first_order) fed push(sample, dt)
 //                             new_samples times per call (the firmware path), or advance(rate, dt)
@@ -20,6 +20,7 @@
 #include <cstdint>
 
 #include "halfspin/core/quaternion.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
@@ -69,7 +70,8 @@ class BareStepRun {
   std::size_t i_ = 0;
 };
 
-template <class Stepper, class T, class Renormalization = FirstOrderRenormalization>
+template <class Stepper, class T, class Renormalization = FirstOrderRenormalization,
+          class Accumulation = PlainAccumulation>
 class PropagatorRun {
  public:
   static constexpr bool rate_function = Stepper::layout == SampleLayout::rate_function;
@@ -112,7 +114,7 @@ class PropagatorRun {
  private:
   const GyroTable<T>& gyro_;
   const std::array<Vector3<T>, table_size>& samples_;
-  Propagator<T, Stepper, Renormalization> propagator_;
+  Propagator<T, Stepper, Renormalization, Accumulation> propagator_;
   std::size_t k_ = 0;
   T dt_ = T(sample_period_s);
 };
