@@ -76,6 +76,31 @@ foreach(entry IN LISTS HALFSPIN_FOOTPRINT_STEPPERS)
     endforeach()
   endforeach()
 endforeach()
+# The compensated accumulation (compensated_accumulation.hpp) on a few steppers, float: its
+# flash and, in the step images, its cycles (increment + accumulation, reported by
+# bench/target/cycle_trace.py as "<stepper>+compensated").
+foreach(stepper_name IN ITEMS exponential_map_hold_end coning_2_sample coning_3_sample magnus_4
+                             runge_kutta_4_sampled commutator_free_4)
+  list(FIND _catalogue_names ${stepper_name} at)
+  if(at EQUAL -1)
+    message(FATAL_ERROR "footprint.cmake: ${stepper_name} is not in the stepper catalogue")
+  endif()
+  list(GET _catalogue_types ${at} stepper_type)
+  foreach(mode IN ITEMS propagator step)
+    set(image footprint_${stepper_name}+compensated_float_${mode})
+    halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
+    target_compile_definitions(${image} PRIVATE
+      "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
+      "HALFSPIN_FOOTPRINT_SCALAR=float"
+      "HALFSPIN_FOOTPRINT_STEP_ONLY=$<STREQUAL:${mode},step>"
+      "HALFSPIN_FOOTPRINT_ACCUMULATION=halfspin::CompensatedAccumulation")
+    target_compile_options(${image} PRIVATE -fstack-usage)
+    halfspin_footprint_warnings(${image})
+    set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
+    string(APPEND _halfspin_footprint_manifest
+      "${image} ${stepper_name}+compensated float ${mode} ${stepper_type}\n")
+  endforeach()
+endforeach()
 file(MAKE_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
 file(WRITE "${HALFSPIN_FOOTPRINT_DIR}/manifest.txt" "${_halfspin_footprint_manifest}")
 

@@ -8,6 +8,10 @@
 //   HALFSPIN_FOOTPRINT_SCALAR     float or double
 //   HALFSPIN_FOOTPRINT_STEP_ONLY  1: only the stepper's step function (stepper cost alone);
 //                                 0: samples pushed through a Propagator (stepper + propagator)
+//   HALFSPIN_FOOTPRINT_ACCUMULATION  optional, an accumulation policy (default
+//                                 halfspin::PlainAccumulation); with another one the step image
+//                                 steps that policy's state (increment + accumulation) and the
+//                                 propagator image uses it
 //
 // The halfspin code sits in one non-inlined extern "C" function per image
 // (halfspin_footprint_push, halfspin_footprint_advance or halfspin_footprint_step), so that
@@ -16,15 +20,21 @@
 // so the compiler can neither fold the computation away nor specialize it to the input values.
 #include <array>
 #include <cstddef>
+#include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
 #include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
+
+#if !defined(HALFSPIN_FOOTPRINT_ACCUMULATION)
+#define HALFSPIN_FOOTPRINT_ACCUMULATION halfspin::PlainAccumulation
+#endif
 
 #if !defined(HALFSPIN_FOOTPRINT_STEPPER) || !defined(HALFSPIN_FOOTPRINT_SCALAR) || \
     !defined(HALFSPIN_FOOTPRINT_STEP_ONLY)
@@ -34,6 +44,7 @@
 namespace {
 
 using Stepper = HALFSPIN_FOOTPRINT_STEPPER;
+using Accumulation = HALFSPIN_FOOTPRINT_ACCUMULATION;
 using T = HALFSPIN_FOOTPRINT_SCALAR;
 using Vec = halfspin::Vector3<T>;
 using Quat = halfspin::Quaternion<T>;
@@ -99,30 +110,64 @@ Quat step_once(const Quat& q, const StepInput& input, T dt) noexcept {
 }
 }  // namespace
 
-extern "C" __attribute__((noinline)) Quat halfspin_footprint_step(const Quat& q,
-                                                                  const StepInput& input,
-                                                                  T dt) noexcept {
-  return step_once<Stepper>(q, input, dt);
+template <class S>
+halfspin::Increment<T> increment_once(const StepInput& input, T dt) noexcept {
+  if constexpr (S::layout == halfspin::SampleLayout::rate_function) {
+    return S::increment(LinearRate{input[0], input[1]}, dt);
+  } else {
+    return S::template increment<T>(input, dt);
+  }
+}
+
+// The plain step keeps its own signature (q in, q out: the README's cycle figures); another
+// accumulation policy steps its state: the stepper's increment, then the policy's accumulation.
+// (Templates, so that only the branch for the policy is instantiated.)
+template <class A, bool Plain = std::is_same<A, halfspin::PlainAccumulation>::value>
+struct Stepping {
+  using State = Quat;
+  static State start() noexcept { return Quat::identity(); }
+  static State advanced(const State& q, const StepInput& input, T dt) noexcept {
+    return step_once<Stepper>(q, input, dt);
+  }
+  static Quat attitude(const State& q) noexcept { return q; }
+};
+template <class A>
+struct Stepping<A, false> {
+  using State = typename A::template State<T>;
+  static State start() noexcept { return A::start(Quat::identity()); }
+  static State advanced(const State& s, const StepInput& input, T dt) noexcept {
+    return A::advanced(s, increment_once<Stepper>(input, dt).delta);
+  }
+  static Quat attitude(const State& s) noexcept { return A::attitude(s); }
+};
+using Steps = Stepping<Accumulation>;
+using State = Steps::State;
+
+extern "C" __attribute__((noinline)) State halfspin_footprint_step(const State& s,
+                                                                   const StepInput& input,
+                                                                   T dt) noexcept {
+  return Steps::advanced(s, input, dt);
 }
 
 int main() {
-  Quat q = Quat::identity();
+  State s = Steps::start();
   const unsigned repeat = halfspin_footprint_repeat;
   for (unsigned r = 0; r < repeat; ++r) {
     StepInput input{};
     for (std::size_t i = 0; i < input.size(); ++i) {
       input[i] = read_sample(i % input_count);
     }
-    q = halfspin_footprint_step(q, input, T(halfspin_footprint_dt));
+    s = halfspin_footprint_step(s, input, T(halfspin_footprint_dt));
   }
-  write_output(q);
+  write_output(Steps::attitude(s));
   return 0;
 }
 
 #else
 
 namespace {
-using Propagator = halfspin::Propagator<T, Stepper>;
+using Propagator =
+    halfspin::Propagator<T, Stepper, halfspin::FirstOrderRenormalization, Accumulation>;
 }  // namespace
 
 // The propagator object lives in .bss/.data (not on the stack) so that its size shows up as a
@@ -134,7 +179,9 @@ Propagator halfspin_footprint_propagator(Quat::identity(), halfspin::GyroLimits<
 namespace {
 // A template, so that only the entry point for the stepper's layout is instantiated.
 template <class S>
-halfspin::Status push_once(halfspin::Propagator<T, S>& p, const Vec& sample, T dt) noexcept {
+halfspin::Status push_once(
+    halfspin::Propagator<T, S, halfspin::FirstOrderRenormalization, Accumulation>& p,
+    const Vec& sample, T dt) noexcept {
   if constexpr (S::layout == halfspin::SampleLayout::rate_function) {
     // Rate-function steppers take a callable instead of samples: a = the sample, b = −a/2.
     return p.advance(LinearRate{sample, T(-0.5) * sample}, dt);
