@@ -7,7 +7,10 @@
 //   a rejection ⇒ exactly the counter of its class went up by one and every other byte of the
 //     propagator object is as it was (attitude, history, time, policy state: memcmp of the whole
 //     object outside the counters), except that a gap (step_too_long) sets the one-byte gap flag.
-// Byte layout (any input is valid; reads past the end give zeros): scalar, stepper catalogue id
+// Byte layout (any input is valid; reads past the end give zeros): scalar and accumulation (bit 0:
+// float or double; bit 1: plain or compensated accumulation, so that every input stored before the
+// compensated policy existed, whose first byte had bit 1 clear, keeps its meaning), stepper
+// catalogue id
 // (a byte naming no stepper ends the input), gyro range,
 // longest step, tick period, initial attitude, policy and its parameter, then operations (one
 // byte each: push in seconds, push in ticks, reset, or a rate-function step, and their values).
@@ -23,6 +26,7 @@
 #include "fuzz_support.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/stepper_catalogue.hpp"
@@ -178,10 +182,19 @@ std::uint64_t rejection_counter(const PropagationCounters& c, Status s) {
   return 0;
 }
 
-template <class T, class Stepper, class Policy>
+// The compensated accumulation (compensated_accumulation.hpp) reads the policy's scale back from
+// the largest component (a subtraction and a division: relative error ≤ 2u on the scale, which
+// becomes the norm's; far from the unit sphere both words are scaled and renormalized, ≤ 2u),
+// adds κ·q_hi with four double-word additions (≤ 2u² each), and its public attitude
+// fl(q_hi + q_lo) rounds once more (≤ u): 6 ε on top of the plain tolerance, with margin. Its
+// per-step drift without a policy is below the plain one (it rounds q ⊗ δ, of size |δ|, not q).
+template <class T>
+constexpr T compensated_extra = T(6) * eps<T>;
+
+template <class T, class Stepper, class Accumulation, class Policy>
 void run(ByteReader& in, const Setup<T>& setup, Policy policy, PolicyKind kind, Family family,
          T threshold) {
-  using P = Propagator<T, Stepper, Policy>;
+  using P = Propagator<T, Stepper, Policy, Accumulation>;
   static_assert(std::is_trivially_copyable<P>::value, "the whole state is compared with memcmp");
   constexpr bool rate_function = Stepper::layout == SampleLayout::rate_function;
   constexpr bool delta_angles = carries_delta_angles(Stepper::layout);
@@ -311,8 +324,11 @@ void run(ByteReader& in, const Setup<T>& setup, Policy policy, PolicyKind kind, 
     const bool documented = !unchecked_since_anchor &&
                             !(kind == PolicyKind::first_order && family == Family::runge_kutta &&
                               step_angle > first_order_step_angle<T>);
+    const T extra =
+        std::is_same<Accumulation, CompensatedAccumulation>::value ? compensated_extra<T> : T(0);
     const T tolerance = documented ? norm_tolerance(kind, family, since_anchor, since_correction,
-                                                    threshold, step_angle)
+                                                    threshold, step_angle) +
+                                         extra
                                    : std::numeric_limits<T>::infinity();
     if (std::isfinite(tolerance)) {
       const T norm_error = std::fabs(norm(q) - T(1));
@@ -327,25 +343,25 @@ void run(ByteReader& in, const Setup<T>& setup, Policy policy, PolicyKind kind, 
   }
 }
 
-template <class T, class Stepper>
+template <class T, class Stepper, class A>
 void with_policy(ByteReader& in, const Setup<T>& setup, Family family) {
   const std::uint8_t choice = in.u8();
   const std::uint8_t parameter = in.u8();
   switch (choice % 5) {
     case 0:
-      run<T, Stepper>(in, setup, NoRenormalization{}, PolicyKind::none, family, T(0));
+      run<T, Stepper, A>(in, setup, NoRenormalization{}, PolicyKind::none, family, T(0));
       break;
     case 1:
-      run<T, Stepper>(in, setup, ExactRenormalization{}, PolicyKind::exact, family, T(0));
+      run<T, Stepper, A>(in, setup, ExactRenormalization{}, PolicyKind::exact, family, T(0));
       break;
     case 2:
-      run<T, Stepper>(in, setup, FirstOrderRenormalization{}, PolicyKind::first_order, family,
-                      T(0));
+      run<T, Stepper, A>(in, setup, FirstOrderRenormalization{}, PolicyKind::first_order, family,
+                         T(0));
       break;
     case 3: {
       PeriodicRenormalization<ExactRenormalization> periodic{};
       periodic.period = 1u + parameter % 64u;
-      run<T, Stepper>(in, setup, periodic, PolicyKind::periodic, family, T(0));
+      run<T, Stepper, A>(in, setup, periodic, PolicyKind::periodic, family, T(0));
       break;
     }
     default: {
@@ -353,7 +369,7 @@ void with_policy(ByteReader& in, const Setup<T>& setup, Family family) {
       ThresholdRenormalization<T, ExactRenormalization> threshold{};
       const T lo = std::log10(T(10) * eps<T>);
       threshold.threshold = std::pow(T(10), lo + (T(-2) - lo) * static_cast<T>(parameter) / T(255));
-      run<T, Stepper>(in, setup, threshold, PolicyKind::threshold, family, threshold.threshold);
+      run<T, Stepper, A>(in, setup, threshold, PolicyKind::threshold, family, threshold.threshold);
       break;
     }
   }
@@ -366,7 +382,7 @@ struct is_runge_kutta_family : std::false_type {};
 template <class Tableau, SampleLayout L, std::size_t W>
 struct is_runge_kutta_family<ExplicitRungeKutta<Tableau, L, W>> : std::true_type {};
 
-template <class T>
+template <class T, class A>
 void with_stepper(ByteReader& in) {
   // The stepper by its stable catalogue id (stepper_catalogue.hpp), so that stored corpora and
   // regression inputs keep their meaning when steppers are added; a byte that names no stepper
@@ -382,7 +398,7 @@ void with_stepper(ByteReader& in) {
     using S = typename decltype(entry)::stepper;
     constexpr Family family =
         is_runge_kutta_family<typename S::family>::value ? Family::runge_kutta : Family::lie_group;
-    with_policy<T, S>(in, setup, family);
+    with_policy<T, S, A>(in, setup, family);
   });
 }
 
@@ -390,10 +406,14 @@ void with_stepper(ByteReader& in) {
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
   ByteReader in(data, size);
-  if (in.u8() % 2 == 0) {
-    with_stepper<float>(in);
+  const std::uint8_t scalar_and_accumulation = in.u8();
+  const bool compensated = (scalar_and_accumulation & 2u) != 0;
+  if (scalar_and_accumulation % 2 == 0) {
+    compensated ? with_stepper<float, CompensatedAccumulation>(in)
+                : with_stepper<float, PlainAccumulation>(in);
   } else {
-    with_stepper<double>(in);
+    compensated ? with_stepper<double, CompensatedAccumulation>(in)
+                : with_stepper<double, PlainAccumulation>(in);
   }
   return 0;
 }

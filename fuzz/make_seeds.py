@@ -57,8 +57,10 @@ def catalogue():
 
 
 def propagator_seeds():
+    # First byte: bit 0 the scalar, bit 1 the compensated accumulation (float only here: the
+    # policy the rounding matters for; the fuzzer reaches the other combinations by mutation).
     for index, name in catalogue():
-        for scalar in (0, 1):
+        for scalar in (0, 1, 2):
             policy = (index + scalar) % 5
             out = bytes([scalar, index])
             out += log_u8(35.0, -2, 3) + log_u8(0.01, -6, 0) + log_u8(1e-3, -7, -1)
@@ -76,7 +78,8 @@ def propagator_seeds():
             out += bytes([6]) + frac(1.0) + frac(0.0) + frac(0.0) + frac(0.0)  # reset
             for k in range(4):
                 out += bytes([1]) + dt_fraction(0.25) + scaled(0.05) + scaled(-0.05) + scaled(0.1)
-            write("fuzz_propagator", f"{name}_{'float' if scalar == 0 else 'double'}", out)
+            suffix = {0: "float", 1: "double", 2: "float_compensated"}[scalar]
+            write("fuzz_propagator", f"{name}_{suffix}", out)
 
 
 def representations_seeds():

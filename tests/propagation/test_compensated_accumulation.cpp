@@ -170,3 +170,21 @@ TEMPLATE_TEST_CASE("the compensated propagator follows a slow rotation the plain
   CHECK(std::fabs(std::sqrt(squared_norm(test::widen(compensated.attitude()))) - 1) <=
         (std::is_same<TestType, NoRenormalization>::value ? 1e-6L : 4 * u_float));
 }
+
+TEST_CASE("renormalizing a pair far from the unit sphere scales both words") {
+  // An attitude 10³ times too long (a huge Runge–Kutta step, or a careless start) normalized by
+  // the exact policy: adding κ·q_hi with κ ≈ −1 would cancel (found by the fuzz harness); the
+  // pair is scaled instead, a direction error of order u once.
+  std::mt19937 rng(13);
+  std::uniform_real_distribution<float> c(-1.0f, 1.0f);
+  for (int i = 0; i < 1000; ++i) {
+    const Quaternion<float> q{c(rng) * 1e3f, c(rng) * 1e3f, c(rng) * 1e3f, c(rng) * 1e3f};
+    const CompensatedAccumulation::State<float> s = CompensatedAccumulation::start(q);
+    ExactRenormalization exact;
+    const Quaternion<float> kept = exact.apply(CompensatedAccumulation::attitude(s));
+    const CompensatedAccumulation::State<float> r = CompensatedAccumulation::with_attitude(s, kept);
+    const Quaternion<L> after = test::widen(r.hi) + test::widen(r.lo);
+    CHECK(std::fabs(std::sqrt(squared_norm(after)) - 1) <= 8 * u_float);
+    CHECK(angle_between(test::widen(q), after) <= 8 * u_float);
+  }
+}

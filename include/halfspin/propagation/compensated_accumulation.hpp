@@ -147,17 +147,42 @@ struct CompensatedAccumulation {
     return r;
   }
   // The state after the propagator's renormalization policy turned attitude(s) = a into kept, a
-  // positive multiple f·a of it (every policy of renormalization.hpp scales): the pair scaled by
-  // 1 + κ with κ = ⟨kept − a, a⟩/⟨a, a⟩ = f − 1. kept − a is exact componentwise (Sterbenz: the
-  // two are within a factor 2 near the unit sphere; elsewhere its rounding changes κ by O(u·κ)),
-  // and any error in κ scales the pair without turning it, so the policy's own rounding of kept
-  // (u per component, a direction error in the plain policy) does not reach the attitude.
-  // Cost 19 flops, one division and scaled()'s 44.
+  // positive multiple f·a of it (every policy of renormalization.hpp scales). The factor is read
+  // from the largest component a_m of a (|a_m| ≥ ‖a‖/2): κ = (kept_m − a_m)/a_m = f − 1, whose
+  // numerator is exact when f is within a factor 2 of 1 (Sterbenz). Near the unit sphere
+  // (|κ| ≤ 2⁻¹⁰, every step of a propagator that renormalizes) κ·q_hi is added to the pair like
+  // an increment: the direction moves by O(u·|κ|) only, and an error in κ changes only the norm,
+  // so the policy's own rounding of kept (u per component, a direction error in the plain policy)
+  // does not reach the attitude. Far from it (an attitude or a step far off the unit sphere,
+  // where adding −(1 − f)·q_hi would cancel) both words are multiplied by f and the pair is
+  // renormalized: a direction error of order u, once. Cost near the unit sphere: 3 comparisons,
+  // a subtraction, a division and scaled()'s 44 flops.
   template <class T>
   static constexpr State<T> with_attitude(const State<T>& s, const Quaternion<T>& kept) noexcept {
     const Quaternion<T> a = attitude(s);
-    const T kappa = dot(kept - a, a) / dot(a, a);
-    return scaled(s, kappa);
+    T am = a.w;
+    T km = kept.w;
+    const auto take_if_larger = [&am, &km](T ai, T ki) noexcept {
+      if ((ai < T(0) ? -ai : ai) > (am < T(0) ? -am : am)) {
+        am = ai;
+        km = ki;
+      }
+    };
+    take_if_larger(a.x, kept.x);
+    take_if_larger(a.y, kept.y);
+    take_if_larger(a.z, kept.z);
+    const T kappa = (km - am) / am;
+    if (kappa <= T(1.0 / 1024) && kappa >= T(-1.0 / 1024)) {
+      return scaled(s, kappa);
+    }
+    const T f = km / am;
+    const Quaternion<T> hi = f * s.hi;
+    const Quaternion<T> lo = f * s.lo;
+    const detail::SumAndError<T> w = detail::fast_two_sum(hi.w, lo.w);
+    const detail::SumAndError<T> x = detail::fast_two_sum(hi.x, lo.x);
+    const detail::SumAndError<T> y = detail::fast_two_sum(hi.y, lo.y);
+    const detail::SumAndError<T> z = detail::fast_two_sum(hi.z, lo.z);
+    return {{w.sum, x.sum, y.sum, z.sum}, {w.error, x.error, y.error, z.error}};
   }
 };
 
