@@ -96,7 +96,7 @@ L expansion_residual(const std::array<Vector3<L>, E>& phi, L scale) {
 template <std::size_t E>
 void check_expansion_is_third_order() {
   std::mt19937 rng(20261203);
-  std::uniform_real_distribution<double> u(-1.0, 1.0);
+  std::uniform_real_distribution<long double> u(-1.0L, 1.0L);
   for (int trial = 0; trial < 20; ++trial) {
     std::array<Vector3<L>, E> phi{};
     for (Vector3<L>& f : phi) {

@@ -33,7 +33,7 @@ float random_float(std::mt19937& rng, int low, int high) {
   return negative(rng) ? -m : m;
 }
 
-constexpr L u_float = std::numeric_limits<float>::epsilon() / 2;  // unit roundoff of float
+constexpr L u_float = static_cast<L>(std::numeric_limits<float>::epsilon()) / 2;  // unit roundoff
 
 }  // namespace
 
@@ -46,12 +46,13 @@ TEST_CASE("TwoSum and Fast2Sum are error-free in float", "[reference]") {
     const float a = random_float(rng, -20, 20);
     const float b = random_float(rng, -20, 20);
     const detail::SumAndError<float> t = detail::two_sum(a, b);
-    CHECK(static_cast<L>(t.sum) + static_cast<L>(t.error) == static_cast<L>(a) + b);
+    CHECK(static_cast<L>(t.sum) + static_cast<L>(t.error) == static_cast<L>(a) + static_cast<L>(b));
     CHECK(t.sum == a + b);
     const float big = std::fabs(a) >= std::fabs(b) ? a : b;
     const float small = std::fabs(a) >= std::fabs(b) ? b : a;
     const detail::SumAndError<float> f = detail::fast_two_sum(big, small);
-    CHECK(static_cast<L>(f.sum) + static_cast<L>(f.error) == static_cast<L>(big) + small);
+    CHECK(static_cast<L>(f.sum) + static_cast<L>(f.error) ==
+          static_cast<L>(big) + static_cast<L>(small));
   }
 }
 
