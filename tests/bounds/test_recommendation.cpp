@@ -172,30 +172,43 @@ TEST_CASE("recommendation: a float budget only the fewest-rounding choice meets,
   CHECK(none.candidates[3].bound_rad == Approx(0.966).epsilon(0.05));
 }
 
-// Scenario 3 with the expected (random-walk) roundoff model: the same float platform, 600 s,
-// budget 5e-4 rad. No candidate meets it by a bound (scenario 3: the best worst-case floor is
-// four-sample's 0.161 rad). Expected sizes √N × per-step rounding (roundoff_floor.hpp; truncation
-// as in scenario 3, negligible: hold-end's lateral part 6.3e-6, one-sample's drift N·d = 1.2e-8):
-//   hold-end √6e5·1.073e-6 = 774.6·1.073e-6 = 8.31e-4 (+6.3e-6 = 8.37e-4); one-sample 8.31e-4;
-//   two-sample √3e5·1.073e-6 = 547.7·1.073e-6 = 5.88e-4; four-sample √1.5e5·1.073e-6
-//   = 387.3·1.073e-6 = 4.16e-4; RK4 sampled √3e5·5.96e-7 = 3.26e-4.
-//   Meeting 5e-4: four-sample (35.25 kflop/s) and RK4 (74.5): four-sample, a typical size, not a
-//   bound.
-TEST_CASE("recommendation: the expected roundoff model, float over ten minutes", "[reference]") {
+// Scenario 3 with the compensated accumulation: the same float platform, 600 s, budget 5e-4 rad.
+// No candidate meets it by a bound with the plain accumulation (scenario 3: the best worst-case
+// floor is four-sample's 0.161 rad). With the compensated one the floor is about
+// c·u·(angle traversed) + N·c2·u² (roundoff_floor.hpp (c), own derivation): the coning rate is
+// about α·2πf = 6.28e-3 rad/s, so 3.77 rad over 600 s. The rotation-vector steppers count their
+// rounding depth (at most 13 + 2 for four-sample), the exponential 14 and the accumulation
+// 9·2|δ|/θ ≤ 9, so c ≤ 40 and their floor is below 40·5.96e-8·3.77 + 6e5·72·3.55e-15 = 9.0e-6 +
+// 1.5e-7; RK4 declares no depth and is charged its flops (149 + 2), its stage sum and the
+// accumulation: c ≤ 151 + 4 + 2·9 = 173, floor below 3.9e-5. The truncation parts are those of
+// scenario 3 (at most 6.3e-6). Every candidate meets the budget; the cheapest wins, its cost now
+// with the compensated accumulation's 68 flops in place of the plain 32 (+36 per step):
+//   hold-end (54 + 36)·1000 = 90e3, one-sample (51 + 36)·1000 = 87e3,
+//   two-sample (69 + 36)·500 = 52.5e3, four-sample (141 + 36)·250 = 44.25e3,
+//   RK4 (149 + 36)·500 = 92.5e3 flop/s: four-sample.
+TEST_CASE("recommendation: the compensated accumulation, float over ten minutes", "[reference]") {
   MotionDescription<float> d{};
   d.coning = {1e-3f, 1.0f};
   const StepperList<ExponentialMapHoldEnd, Coning1Sample, Coning2Sample, Coning4Sample,
                     RungeKutta4Sampled>
       list{};
   CHECK_FALSE(recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f).found);
-  const auto r = recommend_stepper(list, d, 5e-4f, 600.0f, 1000.0f, RoundoffModel::expected);
+  const auto r = recommend_stepper<float, CompensatedAccumulation>(list, d, 5e-4f, 600.0f, 1000.0f);
   REQUIRE(r.found);
   CHECK(std::strcmp(r.name, "coning_4_sample") == 0);
-  check_candidate(r, 0, "exponential_map_hold_end", 8.37e-4, CandidateOutcome::over_budget, 54e3);
-  check_candidate(r, 1, "coning_1_sample", 8.31e-4, CandidateOutcome::over_budget, 51e3);
-  check_candidate(r, 2, "coning_2_sample", 5.88e-4, CandidateOutcome::over_budget, 34.5e3);
-  check_candidate(r, 3, "coning_4_sample", 4.16e-4, CandidateOutcome::meets_budget, 35.25e3);
-  check_candidate(r, 4, "runge_kutta_4_sampled", 3.26e-4, CandidateOutcome::meets_budget, 74.5e3);
+  const char* names[] = {"exponential_map_hold_end", "coning_1_sample", "coning_2_sample",
+                         "coning_4_sample", "runge_kutta_4_sampled"};
+  const double costs[] = {90e3, 87e3, 52.5e3, 44.25e3, 92.5e3};
+  const float bounds[] = {6.3e-6f + 9.2e-6f, 6.3e-6f + 9.2e-6f, 6.3e-6f + 9.2e-6f,
+                          6.3e-6f + 9.2e-6f, 6.3e-6f + 3.9e-5f};
+  for (std::size_t i = 0; i < 5; ++i) {
+    const auto& c = r.candidates[i];
+    INFO(c.name << " bound " << c.bound_rad << " cost " << c.cost_flops_per_s);
+    CHECK(std::strcmp(c.name, names[i]) == 0);
+    CHECK(c.outcome == CandidateOutcome::meets_budget);
+    CHECK(c.bound_rad < bounds[i]);
+    CHECK(static_cast<double>(c.cost_flops_per_s) == Approx(costs[i]).epsilon(1e-6));
+  }
 }
 
 // A candidate with no bound (a non-coning motion and no LocalErrorBound specialization in this

@@ -9,7 +9,8 @@
 // the sample at t = 0, the others with sample 1. Rate-function steppers call the motion's rate in
 // double at t0 + τ (rounded to T). The propagator starts from the truth's attitude at 0 rounded to
 // T and renormalizes exactly after every step (ExactRenormalization, as the library's bound tests
-// do), so only the attitude error counts.
+// do), so only the attitude error counts; the accumulation policy is the caller's (plain or
+// compensated, propagation/compensated_accumulation.hpp).
 //
 // Timing: samples are prepared in chunks outside the clock; steady_clock brackets only the
 // propagator's push/advance calls of each chunk (validation, history, the step, renormalization,
@@ -59,14 +60,14 @@ inline constexpr std::int64_t chunk_steps = 4096;
 
 }  // namespace detail
 
-// Runs `steps` steps of length dt_s (s) of Stepper in T on the truth motion.
-template <class Stepper, class T>
+// Runs `steps` steps of length dt_s (s) of Stepper in T with Accumulation on the truth motion.
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
 MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t steps) {
   using clock = std::chrono::steady_clock;
   MeasuredRun run;
   const Quaternion<LD> q0 = motion.attitude(0.0L);
   const GyroLimits<T> limits{T(1e4), static_cast<T>(std::max(10.0, 4.0 * dt_s))};
-  Propagator<T, Stepper, ExactRenormalization> propagator(
+  Propagator<T, Stepper, ExactRenormalization, Accumulation> propagator(
       Quaternion<T>{static_cast<T>(q0.w), static_cast<T>(q0.x), static_cast<T>(q0.y),
                     static_cast<T>(q0.z)},
       limits);

@@ -37,7 +37,8 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool steps_given = false;
   bool want_float = true;
   bool want_double = true;
-  double duration = 5.0;  // s
+  bool compensated_float = true;  // --accumulation: the float propagator's policy
+  double duration = 5.0;          // s
   std::string csv;
   std::string svg;
   bool has_budget = false;
@@ -106,6 +107,15 @@ inline const char* help_text() {
          "                       min = max)\n"
          "  --step S             a single step (s): same as --step-min S --step-max S --steps 1\n"
          "  --scalar LIST        float, double or float,double (default: both)\n"
+         "  --accumulation P     how the float propagator adds each step to the attitude: "
+         "compensated\n"
+         "                       (default: the attitude as a pair of floats, rounding error "
+         "about\n"
+         "                       c*u*(angle turned) + N*c2*u^2) or plain (one float, rounded "
+         "every step:\n"
+         "                       N*c*u); measured rows, bounds and the float recommendation "
+         "all use it.\n"
+         "                       Double is always plain (its rounding is negligible).\n"
          "  --duration S         length of every truth run (s) (default 5); the bound column is "
          "the\n"
          "                       horizon bound over the same duration\n"
@@ -148,9 +158,11 @@ inline const char* help_text() {
          "\n"
          "  --help               this text\n"
          "\n"
-         "Runs use the library's Propagator with exact renormalization, fed exact samples (long "
-         "double\n"
-         "truth rounded to the scalar); progress goes to stderr when it is a terminal.\n"
+         "Runs use the library's Propagator with exact renormalization and the accumulation "
+         "above, fed\n"
+         "exact samples (long double truth rounded to the scalar); progress goes to stderr when "
+         "it is a\n"
+         "terminal.\n"
          "\n"
          "Exit codes: 0 ok; 1 bad usage; 2 an output file could not be written or a run failed;\n"
          "3 a recommendation file was asked for but no sample-driven stepper meets the budget at "
@@ -313,6 +325,19 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
           error = "--scalar: '" + s + "' is neither float nor double";
           return false;
         }
+      }
+    } else if (a == "--accumulation") {
+      std::string p;
+      if (!value(p)) {
+        return false;
+      }
+      if (p == "compensated") {
+        o.compensated_float = true;
+      } else if (p == "plain") {
+        o.compensated_float = false;
+      } else {
+        error = "--accumulation: '" + p + "' is neither plain nor compensated";
+        return false;
       }
     } else if (a == "--duration") {
       if (!positive(o.duration)) {

@@ -125,7 +125,7 @@ class Progress {
   bool on_;
 };
 
-template <class Stepper, class T>
+template <class Stepper, class T, class Accumulation>
 Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& failed) {
   Row row;
   row.method = Stepper::name;
@@ -134,19 +134,19 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   const MotionDescription<T> d = description_in<T>(motion.description);
   if (o.bounds_only) {
     row.steps = steps_for_horizon(dt, o.duration);
-    row.bound_rad = static_cast<double>(
-        horizon_error_bound<Stepper, T>(d, static_cast<T>(dt), static_cast<T>(o.duration)));
+    row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T, Accumulation>(
+        d, static_cast<T>(dt), static_cast<T>(o.duration)));
     return row;
   }
   const std::int64_t steps = std::max<std::int64_t>(1, std::llround(o.duration / dt));
-  const MeasuredRun run = measure_run<Stepper, T>(motion.truth, dt, steps);
+  const MeasuredRun run = measure_run<Stepper, T, Accumulation>(motion.truth, dt, steps);
   if (!run.ok) {
     failed = true;
   }
   row.steps = run.steps;
   row.max_error_rad = run.max_error_rad;
   row.ns_per_step = run.ns_per_step;
-  row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T>(
+  row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T, Accumulation>(
       d, static_cast<T>(dt), static_cast<T>(static_cast<double>(steps) * dt)));
   return row;
 }
@@ -301,21 +301,19 @@ struct Chosen {
   double bound_rad = 0;
 };
 
-// With RoundoffModel::expected every figure carries the random-walk rounding term instead of the
-// worst case: a typical size, not a bound (bounds/horizon_bound.hpp); the output says so.
-template <class T>
+// Every figure is a worst-case bound, with the roundoff term of the propagator's Accumulation.
+template <class T, class Accumulation>
 Chosen recommend(const Options& o, const StudyMotion& motion,
-                 const std::vector<std::string>& methods, const char* scalar,
-                 RoundoffModel model = RoundoffModel::worst_case) {
+                 const std::vector<std::string>& methods, const char* scalar) {
   const MotionDescription<T> d = description_in<T>(motion.description);
-  const bool expected = model == RoundoffModel::expected;
-  const char* figure = expected ? "expected" : "bound";
-  const auto r = recommend_stepper(SampleDrivenList{}, d, static_cast<T>(o.budget),
-                                   static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate), model);
+  const char* figure = "bound";
+  const auto r =
+      recommend_stepper<T, Accumulation>(SampleDrivenList{}, d, static_cast<T>(o.budget),
+                                         static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate));
   std::printf(
-      "\nRecommendation in %s%s: budget %.3e rad (%.4f deg) over %g s, gyro %g Hz\n", scalar,
-      expected ? " with the expected (random-walk) rounding: typical sizes, NOT bounds" : "",
-      o.budget, o.budget / degree, o.horizon, o.gyro_rate);
+      "\nRecommendation in %s, %s accumulation: budget %.3e rad (%.4f deg) over %g s, gyro %g "
+      "Hz\n",
+      scalar, Accumulation::name, o.budget, o.budget / degree, o.horizon, o.gyro_rate);
   Chosen chosen;
   auto candidates = r.candidates;
   std::stable_sort(candidates.begin(), candidates.end(), [](const auto& a, const auto& b) {
@@ -335,8 +333,7 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
         chosen.bound_rad, chosen.bound_rad / degree, static_cast<double>(r.cost_flops_per_s));
     std::printf(
         "  why: the cheapest sample-driven stepper (flops per step x steps per second) whose\n"
-        "  %s at this gyro rate meets the budget; the cheaper ones:\n",
-        expected ? "expected horizon error" : "worst-case horizon bound");
+        "  worst-case horizon bound at this gyro rate meets the budget; the cheaper ones:\n");
   } else {
     std::printf("  no sample-driven stepper meets the budget at this gyro rate; candidates:\n");
   }
@@ -359,10 +356,8 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
   for (const std::string& name : methods) {
     visit_method(name, [&](auto tag) {
       using S = typename decltype(tag)::type;
-      StepSearch<T> search{};
-      search.roundoff = model;
       const StepSelection<T> s =
-          select_step<S, T>(d, static_cast<T>(o.budget), static_cast<T>(o.horizon), search);
+          select_step<S, T, Accumulation>(d, static_cast<T>(o.budget), static_cast<T>(o.horizon));
       const double step = static_cast<double>(s.step_s);
       switch (s.status) {
         case StepSelectionStatus::ok:
@@ -506,9 +501,11 @@ int main(int argc, char** argv) {
   std::printf("  motion:      %s%s\n", o.bounds_only ? "" : (motion.name + ": ").c_str(),
               motion.summary.c_str());
   std::printf("  bounds from: %s\n", motion.description_summary.c_str());
-  std::printf("  %s %g s; steps %.3e .. %.3e s (%d, log-spaced)\n\n",
+  std::printf("  %s %g s; steps %.3e .. %.3e s (%d, log-spaced)\n",
               o.bounds_only ? "bound horizon:" : "each run:     ", o.duration, step_min, step_max,
               o.steps);
+  std::printf("  accumulation: float %s, double plain (--accumulation)\n\n",
+              o.compensated_float ? "compensated" : "plain");
 
   std::vector<Row> rows;
   Progress progress(methods.size() * scalars.size() * steps.size());
@@ -520,10 +517,12 @@ int main(int argc, char** argv) {
       for (const char* scalar : scalars) {
         for (const double dt : steps) {
           progress.show(++done, name + " " + scalar + " step " + format("%.3e s", dt));
-          if (std::string(scalar) == "float") {
-            rows.push_back(study_point<S, float>(o, motion, dt, failed));
+          if (std::string(scalar) == "double") {
+            rows.push_back(study_point<S, double, PlainAccumulation>(o, motion, dt, failed));
+          } else if (o.compensated_float) {
+            rows.push_back(study_point<S, float, CompensatedAccumulation>(o, motion, dt, failed));
           } else {
-            rows.push_back(study_point<S, double>(o, motion, dt, failed));
+            rows.push_back(study_point<S, float, PlainAccumulation>(o, motion, dt, failed));
           }
         }
       }
@@ -548,19 +547,22 @@ int main(int argc, char** argv) {
 
   if (o.has_budget) {
     // Every requested scalar gets its recommendation; the file takes double's when double is
-    // studied (float's worst-case roundoff floor rarely allows long horizons), else float's.
+    // studied, else float's.
     Chosen file_choice;
     if (o.want_float) {
-      file_choice = recommend<float>(o, motion, methods, "float");
-      if (!file_choice.found) {
-        // The worst-case rounding term (every rounding in the same direction) is what fails in
-        // float over long horizons; show what the typical (random-walk) rounding allows, labelled
-        // as such. It never feeds the recommendation file.
-        recommend<float>(o, motion, methods, "float", RoundoffModel::expected);
+      if (o.compensated_float) {
+        file_choice = recommend<float, CompensatedAccumulation>(o, motion, methods, "float");
+      } else {
+        file_choice = recommend<float, PlainAccumulation>(o, motion, methods, "float");
+        if (!file_choice.found) {
+          // The plain policy's rounding, N·c·u, is what fails in float over long horizons; show
+          // what the compensated policy allows. It never feeds the recommendation file.
+          recommend<float, CompensatedAccumulation>(o, motion, methods, "float");
+        }
       }
     }
     if (o.want_double) {
-      file_choice = recommend<double>(o, motion, methods, "double");
+      file_choice = recommend<double, PlainAccumulation>(o, motion, methods, "double");
     }
     if (!o.recommendation_file.empty()) {
       std::printf("\nRecommendation file %s: the %s recommendation\n",

@@ -14,9 +14,9 @@
 // +∞ for non-coning motions ("no bound known": we do not guess), so the recommendation can list it
 // as unbounded instead of failing to compile.
 //
-// The expected form replaces the worst-case roundoff floor with the random-walk one; the
-// truncation part stays worst case (truncation errors of a smooth motion do not cancel at
-// random).
+// The roundoff term is that of the propagator's accumulation policy: PlainAccumulation (the
+// default; N·c·u, which in float exceeds any useful budget beyond about 10⁶ steps) or
+// CompensatedAccumulation (about c·u·(angle traversed) + N·c2·u²: roundoff_floor.hpp (c)).
 
 #include <cmath>
 #include <cstddef>
@@ -113,42 +113,15 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
 }
 
 // Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper
-// in T: ceil(horizon/dt) × local truncation bound + the first step's extra + worst-case roundoff.
-template <class Stepper, class T>
+// in T with Accumulation: ceil(horizon/dt) × local truncation bound + the first step's extra +
+// worst-case roundoff.
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
 T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
   const std::int64_t steps = steps_for_horizon(dt, horizon_s);
   return truncation_bound<Stepper>(description, dt, steps) +
          startup_bound<Stepper>(description, dt) +
-         roundoff_floor_worst<Stepper, T>(step_rotation_bound(description, dt), steps);
-}
-
-// Expected attitude error (rad) after horizon_s (s): the same truncation part plus the random-walk
-// roundoff floor. A typical size, not a bound.
-template <class Stepper, class T>
-T horizon_error_expected(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
-  const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return truncation_bound<Stepper>(description, dt, steps) +
-         startup_bound<Stepper>(description, dt) +
-         roundoff_floor_expected<Stepper, T>(step_rotation_bound(description, dt), steps);
-}
-
-// Which roundoff term a horizon figure carries: the worst case (every rounding in the same
-// direction, N·c·u: a bound) or the expected random walk (√N·c·u: a typical size, not a bound).
-// In float the worst case dominates long horizons — 10⁵–10⁶ steps at ~18u each is 0.1–1 rad —
-// while measured float runs sit near the random walk; a firmware engineer choosing for float
-// looks at both, and must say which one a number is.
-enum class RoundoffModel : std::uint8_t {
-  worst_case,  // horizon_error_bound: a bound
-  expected     // horizon_error_expected: a typical size
-};
-
-// horizon_error_bound or horizon_error_expected, by `model`.
-template <class Stepper, class T>
-T horizon_error(const MotionDescription<T>& description, T dt, T horizon_s,
-                RoundoffModel model) noexcept {
-  return model == RoundoffModel::expected
-             ? horizon_error_expected<Stepper>(description, dt, horizon_s)
-             : horizon_error_bound<Stepper>(description, dt, horizon_s);
+         roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt),
+                                                        steps);
 }
 
 }  // namespace halfspin

@@ -1,11 +1,12 @@
 #pragma once
 // The cheapest stepper, from a compile-time list, that meets an attitude-error budget at a given
-// gyro sample rate.
+// gyro sample rate, with the propagator's accumulation policy (plain by default, or compensated).
 //
 // The gyro fixes the sample period h = 1/sample_rate; each stepper's step spans its
 // periods_per_step(layout, window) periods, so its step is dt = periods·h and it runs
-// sample_rate/periods steps per second. Its cost is Stepper::flops × steps per second (flop/s),
-// the flops being the per-step count written down in each stepper's header. Each candidate's
+// sample_rate/periods steps per second. Its cost is flops × steps per second (flop/s), the flops
+// being the per-step count written down in each stepper's header with the plain application of
+// the increment replaced by the accumulation policy's (Accumulation::flops). Each candidate's
 // bound is the worst-case horizon bound (horizon_bound.hpp) at that dt; the answer is the
 // candidate of least cost whose bound meets the budget (ties: the smaller bound, then the earlier
 // in the list). Every candidate's outcome is returned, so a caller can say why the cheaper ones
@@ -37,7 +38,7 @@ template <class T>
 struct CandidateReport {
   const char* name = "";
   T step_s = T(0);            // dt = periods per step / sample rate (s)
-  T bound_rad = T(0);         // horizon bound (rad; the expected size with RoundoffModel::expected)
+  T bound_rad = T(0);         // worst-case horizon bound (rad)
   T cost_flops_per_s = T(0);  // flops per step × steps per second
   CandidateOutcome outcome = CandidateOutcome::no_bound;
 };
@@ -54,16 +55,17 @@ struct Recommendation {
 
 namespace detail {
 
-template <class Stepper, class T>
+template <class Stepper, class T, class Accumulation>
 CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T budget_rad,
-                                    T horizon_s, T sample_rate_hz,
-                                    RoundoffModel roundoff) noexcept {
+                                    T horizon_s, T sample_rate_hz) noexcept {
   CandidateReport<T> c{};
   const T periods = static_cast<T>(periods_per_step(Stepper::layout, Stepper::window));
   c.name = Stepper::name;
   c.step_s = periods / sample_rate_hz;
-  c.cost_flops_per_s = static_cast<T>(Stepper::flops) * sample_rate_hz / periods;
-  c.bound_rad = horizon_error<Stepper>(description, c.step_s, horizon_s, roundoff);
+  c.cost_flops_per_s =
+      static_cast<T>(Stepper::flops - apply_increment_flops + Accumulation::flops) *
+      sample_rate_hz / periods;
+  c.bound_rad = horizon_error_bound<Stepper, T, Accumulation>(description, c.step_s, horizon_s);
   if (!std::isfinite(c.bound_rad)) {
     c.outcome = CandidateOutcome::no_bound;
   } else {
@@ -76,20 +78,20 @@ CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T b
 }  // namespace detail
 
 // The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
-// (rad) at sample_rate_hz (Hz) gyro samples, for scalar T; every candidate's outcome included.
-// With roundoff = RoundoffModel::expected the candidates' figures carry the random-walk roundoff
-// term instead (horizon_bound.hpp): typical sizes, not bounds — say so wherever they are shown.
-template <class T, class... Steppers>
-Recommendation<T, sizeof...(Steppers)> recommend_stepper(
-    StepperList<Steppers...> /*list*/, const MotionDescription<T>& description, T budget_rad,
-    T horizon_s, T sample_rate_hz, RoundoffModel roundoff = RoundoffModel::worst_case) noexcept {
+// (rad) at sample_rate_hz (Hz) gyro samples, for scalar T and the propagator's Accumulation;
+// every candidate's outcome included.
+template <class T, class Accumulation = PlainAccumulation, class... Steppers>
+Recommendation<T, sizeof...(Steppers)> recommend_stepper(StepperList<Steppers...> /*list*/,
+                                                         const MotionDescription<T>& description,
+                                                         T budget_rad, T horizon_s,
+                                                         T sample_rate_hz) noexcept {
   constexpr std::size_t n = sizeof...(Steppers);
   Recommendation<T, n> r{};
   if (!(sample_rate_hz > T(0)) || !(horizon_s > T(0)) || !(budget_rad > T(0))) {
     return r;
   }
-  r.candidates = {{detail::assess_candidate<Steppers, T>(description, budget_rad, horizon_s,
-                                                         sample_rate_hz, roundoff)...}};
+  r.candidates = {{detail::assess_candidate<Steppers, T, Accumulation>(
+      description, budget_rad, horizon_s, sample_rate_hz)...}};
   for (std::size_t i = 0; i < n; ++i) {
     const CandidateReport<T>& c = r.candidates[i];
     if (c.outcome != CandidateOutcome::meets_budget) {

@@ -1,7 +1,8 @@
 #pragma once
 // The floating-point roundoff floor of a propagation: how far N steps in scalar type T can drift
-// from the exactly-rounded-free result through rounding alone, worst case (linear in N) and
-// expected (random walk, √N).
+// from the result without rounding through rounding alone, worst case, for each accumulation
+// policy: plain (the attitude rounded every step: linear in N) and compensated (the attitude's
+// own rounding made second order: about linear in the angle traversed).
 //
 // Model (Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., §2.2 and §3.1): every
 // + − × ÷ √ returns the exact result times (1 + δ), |δ| ≤ u = ε/2; n such factors compound to
@@ -26,22 +27,25 @@
 //        error ≤ u + γ_12·θ²/8; since the vector part has length ≤ θ/2, the direction of P̂ in ℝ⁴
 //        moves by ≤ (u + γ_12)·θ/2 + O(uθ³), rotation angle ≤ γ_14·θ. The libm branch (θ² above
 //        the threshold) is also covered by γ_14 with sin, cos within 1 ulp each (2u), √ and ÷.
-//        The series' own truncation (first dropped terms θ⁸/10321920 in cos(θ/2) and relative
-//        θ⁸/92897280 in sin(θ/2)/θ) turns P by less than θ⁹/5·10⁶.
+//        For a stepper that derives its rounding depth (one exp(φ/2) − 1 on the series branch)
+//        the sharper θ·(1.01u + γ₁₀θ²/47 + γ₉θ/7.9), about 2u·θ as an angle
+//        (exponential_rounding below). The series' own truncation (first dropped terms θ⁸/10321920
+//        in cos(θ/2) and relative θ⁸/92897280 in sin(θ/2)/θ) turns P by less than θ⁹/5·10⁶.
 //      - The rotation vector φ̂ itself: the inputs are rounded to T (samples componentwise by u,
-//        dt by u) and φ is formed with at most Stepper::flops further roundings (an upper count:
-//        `flops` counts every operation of the step). Every intermediate of the increment is a
-//        sum, scaled sum or cross product of rate·dt terms, bounded with its sensitivity by
-//        θ·G (G the stage growth of (b) below), so |φ̂ − φ| ≤ γ_{flops+2}·θ·G, and the
-//        exponential map does not increase distances in the ball |φ| < π
-//        (magnus_family_bounds.hpp §0; checked again in test_roundoff_floor.cpp), so the
+//        dt by u) and φ is formed with at most Stepper::rounding_depth further roundings on any
+//        path from an input (Higham Lemma 3.1 over the expression tree; a stepper that does not
+//        derive its depth is charged Stepper::flops, every operation of the step, an upper
+//        count). Every intermediate of the increment is a sum, scaled sum or cross product of
+//        rate·dt terms, bounded with its sensitivity by θ·G (G the stage growth of (b) below), so
+//        |φ̂ − φ| ≤ γ_{depth+2}·θ·G, and the exponential map does not increase distances in the ball
+//        |φ| < π (magnus_family_bounds.hpp §0; checked again in test_roundoff_floor.cpp), so the
 //        rotation angle is at most that.
 //  (b) Runge–Kutta family (q₊ = q + Σ_i b_i(dt/2)·k̃_i, the stepper declares state_order or
 //      embedded_order): the sum over at most S nonzero weights rounds each component of the
 //      result by at most γ_S·(|q_j| + Σ_i |x_ij|), x_i = b_i(dt/2)k̃_i, so |E| ≤ γ_S·|q|·(1 + B)
 //      with B = Σ_i|x_i|/|q| ≤ (θ/2)·Σ_i|b_i|·G_i (G_i below); the exact result has
 //      |X| ≥ |q|(1 − B) by the triangle inequality, so x = γ_S(1 + B)/(1 − B) (≈ 4u for RK4: 8u in
-//      angle), plus the stage errors γ_{flops+2}·θ·max_i G_i as in (a), plus renormalization
+//      angle), plus the stage errors γ_{depth+2}·θ·max_i G_i as in (a), plus renormalization
 //      2u/(1 − u). Stage growth: q_i = q + (dt/2)Σ_j a_ij q_j ⊗ (0, ω_j) gives
 //      |q_i| ≤ |q|·G_i with G_1 = 1, G_i = 1 + (θ/2)·Σ_{j<i}|a_ij|·G_j, computed from the stepper's
 //      own tableau (`using tableau`; at θ = 0.1, max G_i is 1.05 for RK4 and 2.25 for
@@ -49,9 +53,29 @@
 //      publish a tableau (the exponential-map family, Munthe-Kaas, whose stages are rotation
 //      vectors) gets the cover-all G_i ≤ (1 + 13θ)^i (A = 13 ≥ half of every row sum in the
 //      library, S = its `stages`, 1 if it declares none) and Σ|b_i| ≤ S.
-// The expected form treats the per-step rounding errors as independent with zero mean, so they
-// add in quadrature: √N·(per-step bound). It is a typical size, not a bound; correlated rounding
-// (identical steps at constant rate) can exceed it, never the worst case.
+// Both forms were derived for q ⊗ P̂ and q + Σ b_i k̃_i; with the increment contract the plain
+// policy computes q + q ⊗ δ̂ (stepper_traits.hpp), whose rounding, u·|q| + 2γ_4·|q||δ̂| per step
+// (Higham §3.1), is below the product term above for every step angle below 1.7 rad, so the form
+// stands as an upper bound.
+//
+//  (c) The compensated accumulation (propagation/compensated_accumulation.hpp, which derives its
+//      constants c1, c2 and the bound on the renormalization factor κ): the attitude's own
+//      rounding, N·(product + renormalization) above, is replaced by
+//          c1·u·2|δ̂| + c2·u² + 4u·(κ beyond the policy's 8u)
+//      per step, with |δ̂| ≤ θ/2 + (the increment's rounding) for the exponential-map family
+//      (|exp(φ/2) − 1| = 2 sin(θ/4)) and ≤ B + (its rounding) for Runge–Kutta; κ beyond 8u is the
+//      step's own norm change: the increment's rounding (as an angle, an upper bound on the
+//      relative norm change) and, for Runge–Kutta, |P| − 1 ≤ B. What remains is the rounding of
+//      the increment itself, relative to θ. Over N steps the floor is then about
+//      (c·u)·(angle traversed) + N·c2·u², c the increment's and the accumulation's constants
+//      together, instead of N·18u. Valid while the attitude stays within 2⁻¹⁰ of the unit sphere
+//      (every renormalization policy of renormalization.hpp keeps it there at the step angles the
+//      bounds cover); the factor 1/(1 − 2⁻¹⁰) for |q| ≠ 1 is included.
+//
+// There is no "expected" (random-walk) form: correlated rounding (a vibration that repeats with
+// the sample pattern, a still attitude) exceeds √N·(per-step bound) by factors of 1.5 to 24 on
+// the project's own motions, so it described nothing a user could rely on; the compensated
+// accumulation makes the worst case itself usable in float.
 
 #include <array>
 #include <cmath>
@@ -60,7 +84,9 @@
 #include <limits>
 #include <type_traits>
 
+#include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/propagation/butcher_tableau.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
 
 namespace halfspin {
@@ -84,6 +110,17 @@ struct stage_count {
 template <class Stepper>
 struct stage_count<Stepper, std::void_t<decltype(Stepper::stages)>> {
   static constexpr std::size_t value = Stepper::stages;
+};
+
+// Most roundings on a path from an input to the stepper's rotation vector or stages: its declared
+// rounding_depth, else its flops (an upper count).
+template <class Stepper, class = void>
+struct rounding_depth {
+  static constexpr int value = Stepper::flops;
+};
+template <class Stepper>
+struct rounding_depth<Stepper, std::void_t<decltype(Stepper::rounding_depth)>> {
+  static constexpr int value = Stepper::rounding_depth;
 };
 
 // Stage growth of the roundoff model (header comment (b)): `growth` bounds every stage's
@@ -148,47 +185,125 @@ template <class Stepper>
 inline constexpr bool is_additive_quaternion_stepper =
     detail::has_state_order<Stepper>::value || detail::has_embedded_order<Stepper>::value;
 
-// Worst-case rounding angle (rad) of ONE step of Stepper in T, renormalization included, for a
-// step whose rotation angle is at most theta = D0·dt (rad). Derivation in the header comment.
+namespace detail {
+
+// The rounding of exp(φ/2) − 1 (rad, as an angle) for |φ| ≤ theta. A stepper whose rounding depth
+// covers φ only (it declares rounding_depth) forms its increment with one
+// quaternion_exp_minus_one, whose series branch (θ² below ScalarTraits' threshold, certain when
+// θ²(1 + γ₄) is) rounds as follows (own derivation, Higham's model): t = |φ|² within γ₃;
+// sin(θ/2)/θ = ½ + P with |P| ≤ 1.01·t/48 and P within γ₁₀ of its absolute evaluation (6 roundings
+// of Horner and its coefficients, t up to the cube), so after the addition (u) and the scaling of
+// φ (u) the vector part is within 1.01·2u + γ₁₀·1.02·t/24 of its size θ/2 (relative to ½ − |P|);
+// cos(θ/2) − 1 within γ₉ of 1.01·θ²/8. So |δ̂ − δ| ≤ θ·(1.01u + γ₁₀·θ²/47 + γ₉·θ/7.9), turning
+// 1 + δ by at most 2x/(1 − x) with x that bound. Otherwise (the libm branch, or a stepper charged
+// its flops) the cover-all γ₁₄·θ of the header comment.
 template <class Stepper, class T>
-constexpr T roundoff_per_step(T theta) noexcept {
-  constexpr std::size_t stages = detail::stage_count<Stepper>::value;
-  const detail::StageGrowth<T> stage = detail::stage_growth<Stepper, T>::of(theta);
-  const T growth = stage.growth;
-  const T renormalization =
-      detail::angle_of_relative_perturbation(std::numeric_limits<T>::epsilon() / T(2));
+constexpr T exponential_rounding(T theta) noexcept {
+  const T theta2 = theta * theta;
+  constexpr bool declares_depth = rounding_depth<Stepper>::value != Stepper::flops;
+  if (declares_depth &&
+      theta2 * (T(1) + gamma_rounding<T>(4)) < ScalarTraits<T>::exp_series_angle_squared) {
+    const T u = std::numeric_limits<T>::epsilon() / T(2);
+    return angle_of_relative_perturbation(theta *
+                                          (T(1.01) * u + gamma_rounding<T>(10) * theta2 / T(47) +
+                                           gamma_rounding<T>(9) * theta / T(7.9)));
+  }
+  return gamma_rounding<T>(14) * theta;
+}
+
+// The rounding of the increment itself (rad, as an angle), for a step rotating by ≤ theta: the
+// rotation vector or stages (γ_{depth+2}·θ·G), then for the exponential-map family the
+// exponential and its series' truncation, for Runge–Kutta (with `with_stage_sum`) the weighted
+// sum of the stages, γ_S·B relative to |q| (the plain form counts that sum with q + Σ instead).
+template <class Stepper, class T>
+constexpr T increment_rounding(T theta, bool with_stage_sum) noexcept {
+  constexpr std::size_t stages = stage_count<Stepper>::value;
+  const StageGrowth<T> stage = stage_growth<Stepper, T>::of(theta);
   const T increment =
-      detail::gamma_rounding<T>(static_cast<std::int64_t>(Stepper::flops) + 2) * theta * growth;
+      gamma_rounding<T>(static_cast<std::int64_t>(rounding_depth<Stepper>::value) + 2) * theta *
+      stage.growth;
   if constexpr (is_additive_quaternion_stepper<Stepper>) {
-    const T spread = stage.spread;  // B
-    if (!(spread < T(1))) {
-      return std::numeric_limits<T>::infinity();
+    if (!with_stage_sum) {
+      return increment;
     }
-    const T x = detail::gamma_rounding<T>(static_cast<std::int64_t>(stages)) * (T(1) + spread) /
-                (T(1) - spread);
-    return detail::angle_of_relative_perturbation(x) + renormalization + increment;
+    return increment + angle_of_relative_perturbation(
+                           gamma_rounding<T>(static_cast<std::int64_t>(stages)) * stage.spread);
   } else {
-    const T product = detail::angle_of_relative_perturbation(T(2) * detail::gamma_rounding<T>(4));
+    static_cast<void>(with_stage_sum);
     const T theta2 = theta * theta;
     const T theta4 = theta2 * theta2;
     const T series_truncation = theta4 * theta4 * theta * T(2e-7);  // θ⁹/5·10⁶
-    return product + renormalization + increment + detail::gamma_rounding<T>(14) * theta +
-           series_truncation;
+    return increment + exponential_rounding<Stepper, T>(theta) + series_truncation;
   }
+}
+
+// Worst-case rounding angle (rad) of one step of Stepper in T with Accumulation, renormalized
+// every step, for a step whose rotation angle is at most theta = D0·dt (rad).
+template <class Stepper, class T, class Accumulation>
+struct per_step_rounding;
+
+template <class Stepper, class T>
+struct per_step_rounding<Stepper, T, PlainAccumulation> {
+  static constexpr T of(T theta) noexcept {
+    constexpr std::size_t stages = stage_count<Stepper>::value;
+    const T renormalization =
+        angle_of_relative_perturbation(std::numeric_limits<T>::epsilon() / T(2));
+    const T increment = increment_rounding<Stepper, T>(theta, false);
+    if constexpr (is_additive_quaternion_stepper<Stepper>) {
+      const T spread = stage_growth<Stepper, T>::of(theta).spread;  // B
+      if (!(spread < T(1))) {
+        return std::numeric_limits<T>::infinity();
+      }
+      const T x =
+          gamma_rounding<T>(static_cast<std::int64_t>(stages)) * (T(1) + spread) / (T(1) - spread);
+      return angle_of_relative_perturbation(x) + renormalization + increment;
+    } else {
+      const T product = angle_of_relative_perturbation(T(2) * gamma_rounding<T>(4));
+      return product + renormalization + increment;
+    }
+  }
+};
+
+template <class Stepper, class T>
+struct per_step_rounding<Stepper, T, CompensatedAccumulation> {
+  static constexpr T of(T theta) noexcept {
+    constexpr T u = std::numeric_limits<T>::epsilon() / T(2);
+    constexpr T near_unit = T(1) / (T(1) - T(1.0 / 1024));  // |q| ≥ 1 − 2⁻¹⁰
+    const T increment = increment_rounding<Stepper, T>(theta, true);
+    T size = theta / T(2);  // |δ| of exp(φ/2) − 1
+    T norm_change = increment;
+    if constexpr (is_additive_quaternion_stepper<Stepper>) {
+      const T spread = stage_growth<Stepper, T>::of(theta).spread;  // B ≥ |δ| and ≥ ||P| − 1|
+      if (!(spread < T(1))) {
+        return std::numeric_limits<T>::infinity();
+      }
+      size = spread;
+      norm_change += spread;
+    }
+    size += increment;
+    const T accumulation =
+        (T(CompensatedAccumulation::rounding_c1) * u * T(2) * size +
+         T(CompensatedAccumulation::rounding_c2) * u * u + T(4) * u * norm_change) *
+        near_unit;
+    return increment + accumulation;
+  }
+};
+
+}  // namespace detail
+
+// Worst-case rounding angle (rad) of ONE step of Stepper in T, renormalization included, for a
+// step whose rotation angle is at most theta = D0·dt (rad), with the plain (default) or the
+// compensated accumulation. Derivation in the header comment.
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
+constexpr T roundoff_per_step(T theta) noexcept {
+  return detail::per_step_rounding<Stepper, T, Accumulation>::of(theta);
 }
 
 // Worst-case roundoff floor (rad) of `steps` steps of Stepper in T, each of rotation ≤ theta
 // (rad): steps × roundoff_per_step (triangle inequality in the bi-invariant angle metric).
-template <class Stepper, class T>
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
 constexpr T roundoff_floor_worst(T theta, std::int64_t steps) noexcept {
-  return static_cast<T>(steps) * roundoff_per_step<Stepper, T>(theta);
-}
-
-// Expected (random-walk) roundoff floor (rad): √steps × roundoff_per_step, a typical size for
-// uncorrelated rounding, not a bound.
-template <class Stepper, class T>
-T roundoff_floor_expected(T theta, std::int64_t steps) noexcept {
-  return std::sqrt(static_cast<T>(steps)) * roundoff_per_step<Stepper, T>(theta);
+  return static_cast<T>(steps) * roundoff_per_step<Stepper, T, Accumulation>(theta);
 }
 
 }  // namespace halfspin

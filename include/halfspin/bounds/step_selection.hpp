@@ -3,7 +3,9 @@
 // inside a budget, for a stepper and scalar type.
 //
 // The total bound B(dt) = steps·local(dt) + steps·roundoff(dt) is U-shaped in dt: the truncation
-// part falls as dt^p when dt shrinks (p the global order), the roundoff part grows as 1/dt. The
+// part falls as dt^p when dt shrinks (p the global order), the roundoff part grows as 1/dt (with
+// the compensated accumulation only its small N·c2·u² part does; the rest is fixed by the angle
+// traversed, so the least bound sits at much smaller steps). The
 // search runs on a geometric grid of `grid_points` steps over [dt_min, dt_max]:
 //  1. the grid point of least B is the minimizer (to within one grid ratio); if its B misses the
 //     budget, no step in the range meets it: status budget_unreachable, with that minimum;
@@ -54,16 +56,12 @@ struct StepSearch {
   T dt_max = T(1);
   std::size_t grid_points = 241;  // 40 per decade over six decades
   T relative_tolerance = T(1e-3);
-  // worst_case: the step meets the budget by a bound; expected: by the random-walk roundoff
-  // term (horizon_bound.hpp), a typical size — for float over long horizons, where the
-  // worst-case rounding term alone can exceed the budget.
-  RoundoffModel roundoff = RoundoffModel::worst_case;
 };
 
 // Largest step (s) whose worst-case horizon bound (rad) over horizon_s (s) meets budget_rad (rad)
-// for Stepper in T (or whose expected error does, with search.roundoff = expected); see the header
+// for Stepper in T with Accumulation (the propagator's policy: plain by default); see the header
 // comment for the search and the status values.
-template <class Stepper, class T>
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
 StepSelection<T> select_step(const MotionDescription<T>& description, T budget_rad, T horizon_s,
                              const StepSearch<T>& search = StepSearch<T>{}) noexcept {
   StepSelection<T> r{};
@@ -81,7 +79,7 @@ StepSelection<T> select_step(const MotionDescription<T>& description, T budget_r
     return std::exp(log_min + log_step * static_cast<T>(i));
   };
   auto bound = [&](T dt) noexcept {
-    return horizon_error<Stepper>(description, dt, horizon_s, search.roundoff);
+    return horizon_error_bound<Stepper, T, Accumulation>(description, dt, horizon_s);
   };
   auto finish = [&](StepSelectionStatus status, T dt, T b) noexcept {
     r.status = status;

@@ -25,11 +25,21 @@
 //   So the pair moves from its exact value by at most 9·u·|δ| + 2u² in the quaternion 2-norm
 //   (2γ₄/u → 8, plus 1; |q| ≈ 1), on top of the increment's own rounding (the stepper's; relative
 //   to |δ| too, since δ is formed without cancellation).
-//   A renormalization (below) adds κ·q_hi: its rounding u·|κ| plus 2u² for the four additions,
-//   with |κ| ≤ 2u when it runs every step (the attitude's norm error is a few u).
-//   As a rotation angle each is at most twice as much, and |δ| ≈ θ/2 for a step that rotates by θ:
-//   per step ≤ c1·u·θ + c2·u² (rad) with c1 = 9 and c2 = 4 + 8 = 12 (4 without renormalization),
-//   over N steps ≤ c1·u·(angle traversed) + N·c2·u², instead of the plain policy's N·c·u.
+//   A renormalization (below) adds fl(κ̂·q_hi) where scaling the pair would add κ̂·(q_hi + q_lo):
+//   the rounding of the product (u·|κ̂|), the missing κ̂·q_lo (≤ u·|κ̂|) and the four additions
+//   (2u²) move the direction by at most 2u·|κ̂| + 2u²; an error in κ̂ itself is parallel to the
+//   attitude and changes only its norm. |κ̂| is the norm error the policy corrects: what the
+//   previous renormalization left (its own rounding, a few u: |q|² in γ₄, the factor, the
+//   read-back; at most 8u for every policy of renormalization.hpp) plus the step's norm change,
+//   plus the policy's rounding of this factor (again at most 8u): |κ̂| ≤ 16u + (norm change).
+//   As a rotation angle each is at most twice as much, and |δ| ≤ θ/2 for a step that rotates by θ
+//   (|exp(φ/2) − 1| = 2 sin(θ/4)): per step ≤ c1·u·2|δ| + c2·u² + 4u·(norm change) (rad) with
+//   c1 = 9 and c2 = 4 + 4 + 64 = 72 (4 without renormalization), that is ≤ c1·u·θ + c2·u² for the
+//   exponential-map family; over N steps ≤ c1·u·(angle traversed) + N·c2·u², instead of the
+//   plain policy's N·c·u (bounds/roundoff_floor.hpp (c) adds the increment's own rounding).
+//   A renormalization policy that runs less often corrects the sum of the steps' norm changes at
+//   once, so the total of 4u·|κ̂| over a run is the same. The bound assumes the attitude stays
+//   within 2⁻¹⁰ of the unit sphere (the branch below that scales both words is not covered).
 // Renormalization acts on the pair: the propagator's policy scales the rounded attitude as it
 // does for the plain policy, the factor 1 + κ is read back from its result (an error there
 // changes only the norm, which a scale cannot turn into a direction error), and κ·q_hi (a number
@@ -109,10 +119,11 @@ inline constexpr bool error_free_sums = !reassociation_possible && std::is_float
 struct CompensatedAccumulation {
   static constexpr const char* name = "compensated";
   static constexpr int flops = 28 + 4 * 10;  // q_hi ⊗ δ, four double-word additions
-  // Rounding per step as a rotation angle (rad): ≤ c1·u·θ + c2·u² for a step rotating by θ,
-  // renormalized every step (header comment); u the unit roundoff of T.
+  // Rounding per step as a rotation angle (rad): ≤ c1·u·2|δ| + c2·u² + 4u·(the step's norm
+  // change), ≤ c1·u·θ + c2·u² for a step rotating by θ whose increment keeps the norm (header
+  // comment); u the unit roundoff of T.
   static constexpr int rounding_c1 = 9;
-  static constexpr int rounding_c2 = 12;
+  static constexpr int rounding_c2 = 72;
 
   template <class T>
   struct State {

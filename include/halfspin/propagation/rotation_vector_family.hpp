@@ -373,6 +373,34 @@ constexpr int rotation_vector_flops(const RotationVectorRule<W>& r) noexcept {
   return n;
 }
 
+// Rounding depth of φ = α̂ + β̂: the most roundings on any path from a sample to φ, counting the
+// rule's weights rounded to T at compile time as one each (for the roundoff model of
+// bounds/roundoff_floor.hpp: by induction over the expression tree of Higham, Accuracy and
+// Stability of Numerical Algorithms, 2nd ed., Lemma 3.1, the computed φ̂ differs from φ by at most
+// γ_depth times φ evaluated with absolute values, a sharper count than the number of flops).
+// Upper counts from the code below:
+//   α̂: an integer weight other than 1 (1), the sum of k terms (k − 1), the scaling (delta-angles
+//      with a denominator: the rounded inverse and the product, 2; rates: dt × inverse, the
+//      inverse's own rounding and the product, 3): at most k + 3;
+//   β̂: a cross product's component (2), the sum over the pairs of one separation (W − 2 at most),
+//      the weight (rounded, and the product: 2; rates 4 with dt²), the sum over the separations
+//      (W − 2 at most): at most 2W + 2;
+//   φ: their sum, 1 more.
+template <std::size_t W>
+constexpr int rotation_vector_rounding_depth(const RotationVectorRule<W>& r) noexcept {
+  int terms = 0;
+  bool commutator = false;
+  for (std::size_t i = 0; i < W; ++i) {
+    terms += r.quadrature[i] != 0 ? 1 : 0;
+  }
+  for (std::size_t m = 1; m < W; ++m) {
+    commutator = commutator || r.commutator.numerators[m - 1] != 0;
+  }
+  const int alpha = terms + 3;
+  const int beta = commutator ? 2 * static_cast<int>(W) + 2 : 0;
+  return (alpha > beta ? alpha : beta) + (commutator ? 1 : 0);
+}
+
 template <std::size_t W>
 constexpr bool has_commutator(const RotationVectorRule<W>& r) noexcept {
   for (std::size_t m = 1; m < W; ++m) {
@@ -451,6 +479,8 @@ struct RotationVectorStepper {
   static constexpr bool has_estimate = detail::has_commutator(rule);
   static constexpr int flops = detail::rotation_vector_flops(rule) +
                                quaternion_exp_minus_one_series_flops + apply_increment_flops;
+  // Most roundings on a path from a sample to φ (bounds/roundoff_floor.hpp reads it).
+  static constexpr int rounding_depth = detail::rotation_vector_rounding_depth(rule);
   static_assert(layout != SampleLayout::rate_function, "the family reads samples");
   static_assert(detail::quadrature_degree(rule) >= 0, "the quadrature weights must be consistent");
 

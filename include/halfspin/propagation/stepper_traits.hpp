@@ -36,6 +36,9 @@
 // norm, which can be lower than the attitude order (Kutta's RK3: state 3, attitude 4).
 // Coning-compensation steppers also declare `coning_order`: the order of the attitude error under
 // pure classical coning at small cone angles (2N for the N-sample algorithms), higher than `order`.
+// A stepper may declare `rounding_depth`: the most roundings on any path from an input to its
+// rotation vector (bounds/roundoff_floor.hpp; the rotation-vector family derives it from its rule).
+// Without it the roundoff model counts `flops`, an upper count.
 // Every stepper names its family's data as `family` (a rotation-vector rule, a Butcher tableau
 // with its input form, ...); the bounds layer dispatches on it, so a stepper and its bound are
 // derived from the same data and cannot disagree.
