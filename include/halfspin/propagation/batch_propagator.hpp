@@ -31,8 +31,12 @@
 //                = 1 − θ²/8 + θ⁴/384 − θ⁶/46080 + θ⁸/10321920 − …
 //     sin(θ/2)/θ = ½ Σ_k (−1)^k (θ/2)^{2k}/(2k+1)!
 //                = ½ − θ²/48 + θ⁴/3840 − θ⁶/645120 + θ⁸/185794560 − …
-// Both are kept through θ⁸ (Horner in θ², so no square root). For θ/2 < 1 the terms decrease and
-// alternate, so the truncation is below the first dropped term:
+// Both are kept through θ⁸ (Horner in θ², so no square root) from the core's series threshold
+// up (θ² ≥ ScalarTraits::exp_series_angle_squared: 0.1 float, 1e-4 double); below it the θ⁸
+// coefficients are selected to zero, which makes the evaluation the core's θ⁶ series operation
+// for operation (its dropped θ⁸ term is at most 1e-4/10321920 = 8e-5 ε in float, 4e-8 ε in
+// double, within the same criterion). For θ/2 < 1 the terms decrease and alternate, so the
+// truncation is below the first dropped term:
 //     cos:            (θ/2)^10/10!        = θ^10/3715891200
 //     sin(θ/2)/θ · Δθ_i (|Δθ_i| ≤ θ): ½ (θ/2)^10/11! · θ = (θ/2)^11/11!, smaller by (θ/2)/11.
 // Requiring the dropped term below 1e-3 ε (the criterion of the core exponential map,
@@ -47,9 +51,12 @@
 // sin/cos.
 //
 // Agreement with the scalar path: below the core's series threshold (θ² < 0.1 float, 1e-4
-// double) Propagator<T, Coning1Sample, R> evaluates the same product and renormalization with a
-// series one term shorter; the extra θ⁸ term changes a result by at most an ulp, rarely (the
-// tests measure the worst case). Above it the scalar path uses sin/cos, equally accurate.
+// double) a lane performs the operations of Propagator<T, Coning1Sample, R> in the same order
+// (the same series, product and renormalization), so the two are bit-identical step after step
+// where the compiler does not contract a·b + c into fused multiply-adds (the default x86-64
+// target has none; with FMA, -march=native or aarch64, vector and scalar code may contract
+// differently: an ulp per step at most, random-walking). Above the threshold the scalar path uses
+// sin/cos, equally accurate: an ulp or so per step. The tests measure both.
 //
 // Validation, per lane, in the order of validate_delta_angle (gyro_input.hpp) for the counts:
 // non-finite delta-angle or dt → rejected_non_finite; dt ≤ 0 → rejected_non_positive_step;
@@ -74,6 +81,7 @@
 #include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
@@ -98,14 +106,18 @@ struct BatchExponentialSeries<double> {
 
 // exp(φ/2) − 1 for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through
 // θ⁸: returns cos(θ/2) − 1 in c_minus_one and sin(θ/2)/θ in s_over_angle (θ² given as t).
-// Straight-line code.
+// Below the core's series threshold (ScalarTraits::exp_series_angle_squared) the θ⁸ coefficients
+// are selected to zero: t·0 + c₆ is exactly c₆ for finite t ≥ 0, so the evaluation is then the
+// core's series (detail::half_angle_series) operation for operation, and a lane gets the scalar
+// path's increment bit for bit. Straight-line code (the select is a mask, not a branch).
 template <class T>
 constexpr void batch_exponential_series(T t, T& c_minus_one, T& s_over_angle) noexcept {
-  c_minus_one =
-      t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * (T(-1.0L / 46080) + t * T(1.0L / 10321920))));
+  const bool core_range = t < ScalarTraits<T>::exp_series_angle_squared;
+  const T c8 = core_range ? T(0) : T(1.0L / 10321920);
+  const T s8 = core_range ? T(0) : T(1.0L / 185794560);
+  c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * (T(-1.0L / 46080) + t * c8)));
   s_over_angle =
-      T(0.5) + t * (T(-1.0L / 48) +
-                    t * (T(1.0L / 3840) + t * (T(-1.0L / 645120) + t * T(1.0L / 185794560))));
+      T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * (T(-1.0L / 645120) + t * s8)));
 }
 
 // Totals over all lanes since construction. A lane-step is one lane's update in one call.
