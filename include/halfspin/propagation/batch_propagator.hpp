@@ -16,7 +16,7 @@
 // Why a separate class and not N Propagators: the lane loop is written so that g++ and clang++
 // vectorize it at -O2/-O3 on the default x86-64 target (SSE2: 4 float or 2 double lanes per
 // instruction). The lane body is straight-line: no function pointers, no calls to sin/cos/sqrt,
-// and no data-dependent branch. Five things make that possible:
+// and no data-dependent branch. Six things make that possible:
 //   - the exponential is a branch-free series, valid up to max_step_angle (below) per step;
 //   - validation is a mask computed with comparisons (a NaN fails every comparison), and the
 //     update is a select: a rejected lane stores back its own bits (both words of a compensated
@@ -29,14 +29,17 @@
 //   - counting the rejections by class needs a branch, so it is done after the lane loop, in a
 //     scalar pass that runs only when some lane was rejected (rare in a Monte Carlo run);
 //   - the state is double-buffered and the input lives in the object, so the compilers can see
-//     that nothing overlaps and need no run-time alias checks (see the members for why).
+//     that nothing overlaps and need no run-time alias checks (see the members for why);
+//   - the lane loop is flattened ([[gnu::flatten]]: every call in it inlined), so that no
+//     inlining heuristic can leave a call in the lane body (see step_lanes).
 // Checked in the assembly (objdump -d) of g++ 12 and clang++ 14 at -O2 and -O3, default x86-64
 // target, for float and double, N = 4, 8, 64 and 1024, both accumulation policies and both
 // renormalizations: the lane loop is all packed arithmetic (mulps/addps/subps/divps,
 // mulpd/addpd/subpd/divpd; the selects in and/andn/or or blend forms), no scalar ss/sd
-// arithmetic or comparison and no call. The packed add/sub/mul/div count per vector of lanes
-// equals the flop count below (float, first-order: 103 plain, 222 compensated). N = 1 is scalar
-// code, naturally.
+// arithmetic or comparison and no call; the same in bench/bench_batch.cpp, a unit with many
+// instantiations (before the flattening g++ left the compensated lanes scalar there). The packed
+// add/sub/mul/div count per vector of lanes equals the flop count below (float, first-order: 103
+// plain, 222 compensated). N = 1 is scalar code, naturally.
 //
 // The series and its accuracy (derivation). With θ = |Δθ|,
 //     cos(θ/2)   =   Σ_k (−1)^k (θ/2)^{2k}/(2k)!
@@ -359,10 +362,14 @@ class BatchPropagator {
   constexpr const GyroLimits<T>& limits() const noexcept { return limits_; }
 
  private:
-  // The lane loop, reading copy From and writing the other; returns the lanes accepted.
+  // The lane loop, reading copy From and writing the other; returns the lanes accepted. Flattened
+  // (every call in it inlined, recursively): a call left in the lane body stops vectorization,
+  // and g++ 12 stops inlining once a translation unit has grown by its inline-unit-growth limit
+  // (a benchmark unit with many instantiations left CompensatedAccumulation::scaled out of line,
+  // and the compensated lanes scalar).
   template <std::size_t From>
   // cppcheck-suppress unusedPrivateFunction ; called as step_lanes<0>() / <1>() by step()
-  std::size_t step_lanes() noexcept {
+  [[gnu::flatten]] std::size_t step_lanes() noexcept {
     const Lanes& dx = samples_.dx;
     const Lanes& dy = samples_.dy;
     const Lanes& dz = samples_.dz;

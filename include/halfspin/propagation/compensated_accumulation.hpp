@@ -225,12 +225,12 @@ struct CompensatedAccumulation {
   // attitude(s) or kept reaches every outcome; only the NaN's sign bit, which the two forms may
   // read differently, is left to chance). Types without a same-size unsigned integer (long
   // double) take with_attitude. Cost: the near-unit path's flops (above) plus a division and
-  // rescaled()'s 20 flops, 5 sign-bit masks and 11 selects (and, and-not, or) instead of
-  // comparisons. Always inlined: clang++ 14 judges it too costly to inline into a lane loop
-  // (cost 455 against 375 at -O3), and a call stops vectorization.
+  // rescaled()'s 20 flops, 7 sign clears, 4 sign-bit masks and 14 selects (and, and-not, or)
+  // instead of comparisons. A loop that calls it must inline it to vectorize; clang++ 14 judges
+  // it too costly to inline by its own heuristics, so BatchPropagator flattens its lane loop.
   template <class T>
-  [[gnu::always_inline]] static constexpr State<T> with_attitude_branch_free(
-      const State<T>& s, const Quaternion<T>& kept) noexcept {
+  static constexpr State<T> with_attitude_branch_free(const State<T>& s,
+                                                      const Quaternion<T>& kept) noexcept {
     if constexpr (!detail::SignSelectBits<T>::available) {
       return with_attitude(s, kept);
     } else {
