@@ -1,9 +1,11 @@
 // ns per attitude-step of the batch (structure-of-arrays) propagator for desktop Monte Carlo,
 // against a loop over N scalar propagators doing the same work: the one-sample delta-angle update
 // q ⊗ exp(Δθ/2), first-order renormalization, validation of every sample and the elapsed-time sum.
-//   batch/exponential_map_x<N>/<scalar>               BatchPropagator<T, N>::step(), samples
-//   written in place batch/loop_of_propagators_x<N>/<scalar>  N × Propagator<T,
-//   Coning1Sample>::push(Δθ, dt)
+//   batch/exponential_map_x<N>/<scalar>              BatchPropagator<T, N>::step(), samples
+//                                                    written in place
+//   batch/exponential_map_compensated_x<N>/<scalar>  the same with CompensatedAccumulation
+//   batch/loop_of_propagators_x<N>/<scalar>          N × Propagator<T, Coning1Sample>::push(Δθ, dt)
+//   batch/loop_of_compensated_propagators_x<N>/<scalar>  the same with CompensatedAccumulation
 // items = attitude-steps (N per iteration); the counter `per_attitude_step` is the time of one
 // (seconds, printed with an SI prefix: "2.1n" is 2.1 ns). The speed-up is the ratio of the two at
 // the same N and scalar. Inputs: |Δθ| up to 0.01 rad, seeded, the same every iteration (the
@@ -18,6 +20,7 @@
 #include <vector>
 
 #include "halfspin/propagation/batch_propagator.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/propagator.hpp"
 
@@ -60,9 +63,10 @@ void report(benchmark::State& state, std::size_t lanes) {
       benchmark::Counter(attitude_steps, benchmark::Counter::kIsRate | benchmark::Counter::kInvert);
 }
 
-template <class T, std::size_t N>
+template <class T, std::size_t N, class Accumulation = PlainAccumulation>
 void batch_exponential_map(benchmark::State& state) {
-  auto batch = std::make_unique<BatchPropagator<T, N>>(initial_attitude<T>(), limits<T>);
+  auto batch = std::make_unique<BatchPropagator<T, N, FirstOrderRenormalization, Accumulation>>(
+      initial_attitude<T>(), limits<T>);
   batch->samples() = seeded_samples<T, N>();
   std::size_t accepted = 0;
   for (auto _ : state) {
@@ -80,10 +84,10 @@ void batch_exponential_map(benchmark::State& state) {
   report(state, N);
 }
 
-template <class T, std::size_t N>
+template <class T, std::size_t N, class Accumulation = PlainAccumulation>
 void loop_of_propagators(benchmark::State& state) {
-  std::vector<Propagator<T, Coning1Sample>> lanes(
-      N, Propagator<T, Coning1Sample>(initial_attitude<T>(), limits<T>));
+  using Lane = Propagator<T, Coning1Sample, FirstOrderRenormalization, Accumulation>;
+  std::vector<Lane> lanes(N, Lane(initial_attitude<T>(), limits<T>));
   const BatchSamples<T, N> s = seeded_samples<T, N>();
   std::uint64_t bad = 0;
   for (auto _ : state) {
@@ -116,3 +120,19 @@ BENCHMARK(loop_of_propagators<float, 8>)->Name("batch/loop_of_propagators_x8/flo
 BENCHMARK(loop_of_propagators<double, 8>)->Name("batch/loop_of_propagators_x8/double");
 BENCHMARK(loop_of_propagators<float, 1024>)->Name("batch/loop_of_propagators_x1024/float");
 BENCHMARK(loop_of_propagators<double, 1024>)->Name("batch/loop_of_propagators_x1024/double");
+BENCHMARK(batch_exponential_map<float, 8, CompensatedAccumulation>)
+    ->Name("batch/exponential_map_compensated_x8/float");
+BENCHMARK(batch_exponential_map<double, 8, CompensatedAccumulation>)
+    ->Name("batch/exponential_map_compensated_x8/double");
+BENCHMARK(batch_exponential_map<float, 1024, CompensatedAccumulation>)
+    ->Name("batch/exponential_map_compensated_x1024/float");
+BENCHMARK(batch_exponential_map<double, 1024, CompensatedAccumulation>)
+    ->Name("batch/exponential_map_compensated_x1024/double");
+BENCHMARK(loop_of_propagators<float, 8, CompensatedAccumulation>)
+    ->Name("batch/loop_of_compensated_propagators_x8/float");
+BENCHMARK(loop_of_propagators<double, 8, CompensatedAccumulation>)
+    ->Name("batch/loop_of_compensated_propagators_x8/double");
+BENCHMARK(loop_of_propagators<float, 1024, CompensatedAccumulation>)
+    ->Name("batch/loop_of_compensated_propagators_x1024/float");
+BENCHMARK(loop_of_propagators<double, 1024, CompensatedAccumulation>)
+    ->Name("batch/loop_of_compensated_propagators_x1024/double");

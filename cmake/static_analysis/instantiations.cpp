@@ -20,6 +20,8 @@ template class TwoSpeedAccumulator<double>;
 template class BatchPropagator<float, 8>;
 template class BatchPropagator<double, 4>;
 template class BatchPropagator<float, 3, NoRenormalization>;
+template class BatchPropagator<float, 8, FirstOrderRenormalization, CompensatedAccumulation>;
+template class BatchPropagator<double, 4, NoRenormalization, CompensatedAccumulation>;
 
 }  // namespace halfspin
 

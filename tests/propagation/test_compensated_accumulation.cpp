@@ -3,11 +3,14 @@
 // the plain policy cannot follow at all in float.
 #include <catch2/catch.hpp>
 
+#include <array>
 #include <cmath>
 #include <cstdint>
+#include <cstring>
 #include <limits>
 #include <random>
 #include <type_traits>
+#include <vector>
 
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/exponential_map.hpp"
@@ -187,5 +190,114 @@ TEST_CASE("renormalizing a pair far from the unit sphere scales both words") {
     const Quaternion<L> after = test::widen(r.hi) + test::widen(r.lo);
     CHECK(std::fabs(std::sqrt(squared_norm(after)) - 1) <= 8 * u_float);
     CHECK(angle_between(test::widen(q), after) <= 8 * u_float);
+  }
+}
+
+namespace {
+
+template <class T>
+bool same_bits(T a, T b) {
+  return std::memcmp(&a, &b, sizeof(T)) == 0;
+}
+template <class T>
+bool same_bits(const CompensatedAccumulation::State<T>& a,
+               const CompensatedAccumulation::State<T>& b) {
+  const std::array<T, 8> x{a.hi.w, a.hi.x, a.hi.y, a.hi.z, a.lo.w, a.lo.x, a.lo.y, a.lo.z};
+  const std::array<T, 8> y{b.hi.w, b.hi.x, b.hi.y, b.hi.z, b.lo.w, b.lo.x, b.lo.y, b.lo.z};
+  for (std::size_t i = 0; i < 8; ++i) {
+    if (!same_bits(x[i], y[i])) {
+      return false;
+    }
+  }
+  return true;
+}
+template <class T>
+bool finite_state(const CompensatedAccumulation::State<T>& s) {
+  return is_finite(s.hi) && is_finite(s.lo);
+}
+
+}  // namespace
+
+TEMPLATE_TEST_CASE("the branch-free read-back is with_attitude bit for bit", "", float, double) {
+  // with_attitude_branch_free (for vectorized loops) against with_attitude on: pairs built by
+  // steps of random size from random attitudes of random scale, read back from each
+  // renormalization policy's result and from multiples f·a with f near 1, at the 2⁻¹⁰ boundary
+  // and far from 1, and from unrelated quaternions; ties between the largest components; and
+  // non-finite inputs, where both must give a non-finite state.
+  using T = TestType;
+  using C = CompensatedAccumulation;
+  test::RandomRotations random(17);
+  std::mt19937 rng(19);
+  std::uniform_real_distribution<T> unit(T(-1), T(1));
+  const std::array<T, 12> factors{T(1),
+                                  T(1) + std::numeric_limits<T>::epsilon(),
+                                  T(1) - std::numeric_limits<T>::epsilon(),
+                                  T(1) + T(1.0 / 1024),
+                                  T(1) - T(1.0 / 1024),
+                                  T(1) + T(1.0 / 512),
+                                  T(1) - T(1.0 / 512),
+                                  T(0.5),
+                                  T(2),
+                                  T(1e3),
+                                  T(1e-3),
+                                  T(0.9)};
+  int compared = 0;
+  bool identical = true;
+  for (int i = 0; i < 2000; ++i) {
+    const T scale = std::pow(T(10), T(3) * unit(rng));
+    C::State<T> s = C::start(scale * random.quaternion<T>());
+    for (int k = 0; k < 3; ++k) {
+      const Vector3<T> phi =
+          random.unit_vector<T>() * std::pow(T(10), T(-4) * std::fabs(unit(rng)));
+      s = C::advanced(s, quaternion_exp_minus_one(phi));
+    }
+    const Quaternion<T> a = C::attitude(s);
+    std::vector<Quaternion<T>> kept{FirstOrderRenormalization{}.apply(a),
+                                    ExactRenormalization{}.apply(a), NoRenormalization{}.apply(a),
+                                    Quaternion<T>{unit(rng), unit(rng), unit(rng), unit(rng)}};
+    for (const T f : factors) {
+      kept.push_back(f * a);
+    }
+    for (const Quaternion<T>& k : kept) {
+      identical =
+          identical && same_bits(C::with_attitude_branch_free(s, k), C::with_attitude(s, k));
+      ++compared;
+    }
+  }
+  // Exactly representable components, so that f·a is exact and κ hits ±2⁻¹⁰ exactly (near-unit
+  // path, ≤) or just beyond it; ties between the largest components (the first in w, x, y, z
+  // order is taken); signed zeros.
+  const std::array<Quaternion<T>, 5> exact{Quaternion<T>{T(0.5), T(0.25), T(-0.125), T(0.0625)},
+                                           Quaternion<T>{T(-0.25), T(0.5), T(-0.5), T(0.125)},
+                                           Quaternion<T>{T(0.5), T(-0.5), T(0.5), T(-0.5)},
+                                           Quaternion<T>{-T(0), T(0), T(-0.75), T(0.75)},
+                                           Quaternion<T>{T(0), T(0), T(0), T(1)}};
+  for (const Quaternion<T>& q : exact) {
+    const C::State<T> s = C::start(q);
+    for (const T f : factors) {
+      identical = identical &&
+                  same_bits(C::with_attitude_branch_free(s, f * q), C::with_attitude(s, f * q));
+      ++compared;
+    }
+  }
+  INFO(compared << " read-backs compared");
+  CHECK(identical);
+  // The boundary itself is on the near-unit side in both: κ = 2⁻¹⁰ exactly adds κ·q_hi.
+  const C::State<T> s = C::start(exact[0]);
+  const T f = T(1) + T(1.0 / 1024);
+  CHECK(same_bits(C::with_attitude_branch_free(s, f * exact[0]), C::scaled(s, T(1.0 / 1024))));
+
+  // Non-finite attitude or kept: both results are not finite.
+  const T nan = std::numeric_limits<T>::quiet_NaN();
+  const T inf = std::numeric_limits<T>::infinity();
+  const std::array<Quaternion<T>, 4> bad{
+      Quaternion<T>{nan, T(0.5), T(0.5), T(0.5)}, Quaternion<T>{T(0.5), inf, T(0.5), T(0.5)},
+      Quaternion<T>{T(0.5), T(0.5), -inf, inf}, Quaternion<T>{T(0), T(0), T(0), T(0)}};
+  for (const Quaternion<T>& q : bad) {
+    const C::State<T> state = C::start(q);
+    for (const Quaternion<T>& k : {q, FirstOrderRenormalization{}.apply(q), exact[0]}) {
+      CHECK(!finite_state(C::with_attitude(state, k)));
+      CHECK(!finite_state(C::with_attitude_branch_free(state, k)));
+    }
   }
 }

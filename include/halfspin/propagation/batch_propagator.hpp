@@ -4,7 +4,9 @@
 // one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of Coning1Sample) and a
 // renormalization. The stepper contract is the scalar path's (stepper_traits.hpp): each lane forms
 // the increment δ = exp(Δθ/2) − 1 without cancellation (the series of cos(θ/2) − 1 has no
-// constant term) and applies it with apply_increment, q + q ⊗ δ. Input per call, also
+// constant term) and applies it through the accumulation policy: PlainAccumulation (q + q ⊗ δ
+// rounded in T, the default) or CompensatedAccumulation (the lane's attitude held as the pair
+// q_hi + q_lo, compensated_accumulation.hpp; see "Compensated lanes" below). Input per call, also
 // structure-of-arrays (BatchSamples, written in place through samples() or copied in by step(dx,
 // dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame, integral of ω over the lane's sample
 // interval) and a per-lane interval dt (s). dt is per lane so that lanes may run with jittered or
@@ -14,25 +16,42 @@
 // Why a separate class and not N Propagators: the lane loop is written so that g++ and clang++
 // vectorize it at -O2/-O3 on the default x86-64 target (SSE2: 4 float or 2 double lanes per
 // instruction). The lane body is straight-line: no function pointers, no calls to sin/cos/sqrt,
-// and no data-dependent branch. Four things make that possible:
+// and no data-dependent branch. Six things make that possible:
 //   - the exponential is a branch-free series, valid up to max_step_angle (below) per step;
 //   - validation is a mask computed with comparisons (a NaN fails every comparison), and the
-//     update is a select: a rejected lane stores back its own bits, so it stays bit-identical;
+//     update is a select: a rejected lane stores back its own bits (both words of a compensated
+//     lane), so it stays bit-identical;
+//   - every value the update computes is used whatever the lane's outcome: the finiteness test
+//     (below) reads them, and the compensated read-back selects with masks made from sign bits
+//     (CompensatedAccumulation::with_attitude_branch_free). g++ computes a value used in one arm
+//     of a ?: only in that arm, a branch, and since a floating-point operation may trap it then
+//     cannot turn the branch back into a select;
 //   - counting the rejections by class needs a branch, so it is done after the lane loop, in a
 //     scalar pass that runs only when some lane was rejected (rare in a Monte Carlo run);
 //   - the state is double-buffered and the input lives in the object, so the compilers can see
-//     that nothing overlaps and need no run-time alias checks (see the members for why).
-// Checked in the assembly of g++ 12 and clang++ 14 at -O2 and -O3, default x86-64 target, for
-// float and double and N = 4 … 1024: the lane loop is all packed arithmetic (mulps/addps/subps,
-// mulpd/addpd/subpd, no scalar ss/sd ones). N = 1 is scalar code, naturally.
+//     that nothing overlaps and need no run-time alias checks (see the members for why);
+//   - the lane loop is flattened ([[gnu::flatten]]: every call in it inlined), so that no
+//     inlining heuristic can leave a call in the lane body (see step_lanes).
+// Checked in the assembly (objdump -d) of g++ 12 and clang++ 14 at -O2 and -O3, default x86-64
+// target, for float and double, N = 4, 8, 64 and 1024, both accumulation policies and both
+// renormalizations: the lane loop is all packed arithmetic (mulps/addps/subps/divps,
+// mulpd/addpd/subpd/divpd; the selects in and/andn/or or blend forms), no scalar ss/sd
+// arithmetic or comparison and no call; the same in bench/bench_batch.cpp, a unit with many
+// instantiations (before the flattening g++ left the compensated lanes scalar there). The packed
+// add/sub/mul/div count per vector of lanes equals the flop count below (float, first-order: 103
+// plain, 222 compensated). N = 1 is scalar code, naturally.
 //
 // The series and its accuracy (derivation). With θ = |Δθ|,
 //     cos(θ/2)   =   Σ_k (−1)^k (θ/2)^{2k}/(2k)!
 //                = 1 − θ²/8 + θ⁴/384 − θ⁶/46080 + θ⁸/10321920 − …
 //     sin(θ/2)/θ = ½ Σ_k (−1)^k (θ/2)^{2k}/(2k+1)!
 //                = ½ − θ²/48 + θ⁴/3840 − θ⁶/645120 + θ⁸/185794560 − …
-// Both are kept through θ⁸ (Horner in θ², so no square root). For θ/2 < 1 the terms decrease and
-// alternate, so the truncation is below the first dropped term:
+// Both are kept through θ⁸ (Horner in θ², so no square root) from the core's series threshold
+// up (θ² ≥ ScalarTraits::exp_series_angle_squared: 0.1 float, 1e-4 double); below it the θ⁸
+// coefficients are selected to zero, which makes the evaluation the core's θ⁶ series operation
+// for operation (its dropped θ⁸ term is at most 1e-4/10321920 = 8e-5 ε in float, 4e-8 ε in
+// double, within the same criterion). For θ/2 < 1 the terms decrease and alternate, so the
+// truncation is below the first dropped term:
 //     cos:            (θ/2)^10/10!        = θ^10/3715891200
 //     sin(θ/2)/θ · Δθ_i (|Δθ_i| ≤ θ): ½ (θ/2)^10/11! · θ = (θ/2)^11/11!, smaller by (θ/2)/11.
 // Requiring the dropped term below 1e-3 ε (the criterion of the core exponential map,
@@ -47,9 +66,31 @@
 // sin/cos.
 //
 // Agreement with the scalar path: below the core's series threshold (θ² < 0.1 float, 1e-4
-// double) Propagator<T, Coning1Sample, R> evaluates the same product and renormalization with a
-// series one term shorter; the extra θ⁸ term changes a result by at most an ulp, rarely (the
-// tests measure the worst case). Above it the scalar path uses sin/cos, equally accurate.
+// double) a lane performs the operations of Propagator<T, Coning1Sample, R, A> in the same order
+// (the same series, the policy's step, the renormalization and, for the compensated policy, the
+// read-back, whose branch-free form gives with_attitude's bits), so the two are bit-identical
+// step after step, for both accumulation policies, where the compiler does not contract a·b + c
+// into fused multiply-adds (the default x86-64 target has none; with FMA, -march=native or
+// aarch64, vector and scalar code may contract differently: an ulp per step at most,
+// random-walking). Above the threshold the scalar path uses sin/cos, equally accurate: one step
+// from the same state differs by at most an ulp (measured 1 ε in float, 0.5 ε plain and 1 ε
+// compensated in double). The tests check bit-identity over 10⁵ coning steps (compensated) and
+// 4000 random steps (plain).
+//
+// Compensated lanes (Accumulation = CompensatedAccumulation; the policy's header has the method,
+// its sources and its rounding bound). Each lane-step is the scalar policy's: p = q_hi ⊗ δ, then
+// DWPlusFP (TwoSum, an addition, Fast2Sum) per component of the pair; the attitude q_hi + q_lo
+// rounded once goes through the renormalization, and the factor 1 + κ it applied is read back
+// from the largest component and added to the pair as κ·q_hi (a double-word addition again).
+// The scalar read-back rescales both words instead when |κ| > 2⁻¹⁰ (far from the unit sphere).
+// That can happen here: set_lane and the constructor take any q (as Propagator's constructor and
+// reset do; normalizing there would break the agreement above), and the first step from a q of
+// norm 1000 or 1/1000 reads back κ ≈ −1 or 999. After one renormalized step ‖q‖ − 1 is a few u,
+// so |κ| stays ≪ 2⁻¹⁰ and the far path is never selected again (and never without
+// renormalization, where κ = 0). Both paths are computed every step and one is selected per word
+// (CompensatedAccumulation::with_attitude_branch_free): 21 flops and 8 selects per lane-step for
+// a path that matters only on a lane's first step, the price of straight-line code. lane(i)
+// returns q_hi + q_lo rounded, lane_state(i) both words; w(), x(), y(), z() are the high words.
 //
 // Validation, per lane, in the order of validate_delta_angle (gyro_input.hpp) for the counts:
 // non-finite delta-angle or dt → rejected_non_finite; dt ≤ 0 → rejected_non_positive_step;
@@ -59,13 +100,26 @@
 // update has no history, so a gap only loses the rotation in it; re-anchor the lane with
 // set_lane.)
 //
-// Cost per lane-step (flops, + − ×): validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15,
-// scaling Δθ 3, plain application 32, first-order renormalization 13, elapsed-time (Kahan) sum 4,
-// finiteness of the result 6: 80, plus 8 comparisons and 7 selects. Memory, all inside the object
-// (no heap): 12·N scalars of state (w, x, y, z, elapsed-time sum and carry, double-buffered), 4·N
-// of input, N accept flags and N 64-bit rejection counters: 17·N·sizeof(T) + 8·N bytes, about 144
-// kB for 1024 double lanes (allocate a large batch statically or on the heap, not on a small
-// stack).
+// Cost per lane-step (flops, + − × ÷), with first-order renormalization (36 flops in float, 41 in
+// double, renormalization.hpp; NoRenormalization saves them):
+//   plain        validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15, scaling Δθ 3,
+//                application 32, renormalization 36/41, elapsed-time (Kahan) sum 4, finiteness
+//                of the result 6: 103 (float) / 108 (double); plus 9 comparisons and 9 selects
+//                (validation 7 and finiteness 1 comparisons; the series' range 1 comparison and
+//                2 selects; the store 7 selects) and the renormalization's 6 integer/bit ops.
+//   compensated  validation 7, series 15, scaling Δθ 3, q_hi ⊗ δ 28, four DWPlusFP 40, the
+//                rounded attitude 4, renormalization 36/41, read-back 71 (3 differences for the
+//                largest component, κ 2 with a division, the range test 1, κ·q_hi and its four
+//                DWPlusFP 44, the far path 21 with a division), Kahan sum 4, finiteness 14 (the
+//                new pair and the renormalized attitude): 222 (float) / 227 (double), 2.2× the
+//                plain lane; plus the plain lane's comparisons and selects, 4 more selects for the
+//                low words, and the read-back's 14 sign-bit selects and 7 sign clears.
+// Memory, all inside the object (no heap): the state double-buffered, 12·N scalars plain (w, x,
+// y, z, elapsed-time sum and carry) and 20·N compensated (the low words add 4·N per copy), 4·N of
+// input, N accept flags and N 64-bit rejection counters, plus under 100 bytes of limits and
+// totals: 17·N·sizeof(T) + 8·N bytes plain (about 144 kB for 1024 double lanes) and
+// 25·N·sizeof(T) + 8·N compensated (about 208 kB for 1024 double lanes, 6.8 kB for 64 float
+// lanes). Allocate a large batch statically or on the heap, not on a small stack.
 
 #include <array>
 #include <cmath>
@@ -74,6 +128,8 @@
 #include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
+#include "halfspin/core/scalar_traits.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
@@ -98,14 +154,18 @@ struct BatchExponentialSeries<double> {
 
 // exp(φ/2) − 1 for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through
 // θ⁸: returns cos(θ/2) − 1 in c_minus_one and sin(θ/2)/θ in s_over_angle (θ² given as t).
-// Straight-line code.
+// Below the core's series threshold (ScalarTraits::exp_series_angle_squared) the θ⁸ coefficients
+// are selected to zero: t·0 + c₆ is exactly c₆ for finite t ≥ 0, so the evaluation is then the
+// core's series (detail::half_angle_series) operation for operation, and a lane gets the scalar
+// path's increment bit for bit. Straight-line code (the select is a mask, not a branch).
 template <class T>
 constexpr void batch_exponential_series(T t, T& c_minus_one, T& s_over_angle) noexcept {
-  c_minus_one =
-      t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * (T(-1.0L / 46080) + t * T(1.0L / 10321920))));
+  const bool core_range = t < ScalarTraits<T>::exp_series_angle_squared;
+  const T c8 = core_range ? T(0) : T(1.0L / 10321920);
+  const T s8 = core_range ? T(0) : T(1.0L / 185794560);
+  c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * (T(-1.0L / 46080) + t * c8)));
   s_over_angle =
-      T(0.5) + t * (T(-1.0L / 48) +
-                    t * (T(1.0L / 3840) + t * (T(-1.0L / 645120) + t * T(1.0L / 185794560))));
+      T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * (T(-1.0L / 645120) + t * s8)));
 }
 
 // Totals over all lanes since construction. A lane-step is one lane's update in one call.
@@ -142,9 +202,42 @@ struct BatchLaneVerdict {
   bool over_angle;
 };
 
+namespace detail {
+
+// The lane state of a batch in structure-of-arrays form, double-buffered by BatchPropagator: the
+// attitude's words (w, x, y, z; for the compensated policy the high words q_hi) and the elapsed
+// time's Kahan sum and carry, plus, for the compensated policy, the low words q_lo.
+template <class T, std::size_t N, bool Compensated>
+struct BatchLaneState {
+  std::array<T, N> w{};
+  std::array<T, N> x{};
+  std::array<T, N> y{};
+  std::array<T, N> z{};
+  std::array<T, N> elapsed_sum{};
+  std::array<T, N> elapsed_carry{};
+};
+template <class T, std::size_t N>
+struct BatchLaneState<T, N, true> {
+  std::array<T, N> w{};
+  std::array<T, N> x{};
+  std::array<T, N> y{};
+  std::array<T, N> z{};
+  std::array<T, N> elapsed_sum{};
+  std::array<T, N> elapsed_carry{};
+  std::array<T, N> low_w{};
+  std::array<T, N> low_x{};
+  std::array<T, N> low_y{};
+  std::array<T, N> low_z{};
+};
+
+}  // namespace detail
+
 // N attitudes (body → reference) stepped together; Renormalization is NoRenormalization or
-// FirstOrderRenormalization (stateless and straight-line, so the lane loop stays vectorizable).
-template <class T, std::size_t N, class Renormalization = FirstOrderRenormalization>
+// FirstOrderRenormalization (stateless and straight-line, so the lane loop stays vectorizable);
+// Accumulation is PlainAccumulation (q + q ⊗ δ rounded in T) or CompensatedAccumulation (each
+// lane's attitude held as the pair q_hi + q_lo, compensated_accumulation.hpp).
+template <class T, std::size_t N, class Renormalization = FirstOrderRenormalization,
+          class Accumulation = PlainAccumulation>
 class BatchPropagator {
   static_assert(std::is_floating_point<T>::value, "halfspin works on IEEE floating-point types");
   static_assert(N > 0 && N < (std::size_t(1) << 31), "1 to 2^31 − 1 lanes (counted in int32)");
@@ -152,11 +245,18 @@ class BatchPropagator {
                     std::is_same<Renormalization, FirstOrderRenormalization>::value,
                 "the batch path supports NoRenormalization and FirstOrderRenormalization "
                 "(the others need a square root or per-lane state and would stop vectorization)");
+  static_assert(std::is_same<Accumulation, PlainAccumulation>::value ||
+                    std::is_same<Accumulation, CompensatedAccumulation>::value,
+                "the batch path supports PlainAccumulation and CompensatedAccumulation");
+  static constexpr bool compensated = std::is_same<Accumulation, CompensatedAccumulation>::value;
 
  public:
   using scalar = T;
+  using accumulation = Accumulation;
   using Lanes = std::array<T, N>;
   using Samples = BatchSamples<T, N>;
+  // One lane's attitude as the accumulation policy holds it (both words for the compensated one).
+  using LaneAttitudeState = typename Accumulation::template State<T>;
   static constexpr std::size_t lanes = N;
   static constexpr T max_step_angle = BatchExponentialSeries<T>::max_step_angle;
 
@@ -212,20 +312,34 @@ class BatchPropagator {
     return {Status::ok, false};
   }
 
-  // Lane i's attitude (body → reference); i < N.
+  // Lane i's attitude (body → reference); i < N. For the compensated policy q_hi + q_lo rounded
+  // once, as Propagator::attitude() returns it.
   constexpr Quaternion<T> lane(std::size_t i) const noexcept {
-    const LaneState& s = state_[current_];
-    return {s.w[i], s.x[i], s.y[i], s.z[i]};
+    return Accumulation::attitude(lane_state(i));
   }
-  // Re-anchors lane i (after a gap, or from an external fix); counters and elapsed time are kept.
+  // Lane i's attitude as the accumulation policy holds it (compensated: both words).
+  constexpr LaneAttitudeState lane_state(std::size_t i) const noexcept {
+    return load(state_[current_], i);
+  }
+  // Re-anchors lane i at q (body → reference; compensated: q_hi = q, q_lo = 0, as
+  // Propagator::reset); counters and elapsed time are kept.
   constexpr void set_lane(std::size_t i, const Quaternion<T>& q) noexcept {
     LaneState& s = state_[current_];
-    s.w[i] = q.w;
-    s.x[i] = q.x;
-    s.y[i] = q.y;
-    s.z[i] = q.z;
+    const LaneAttitudeState a = Accumulation::start(q);
+    const Quaternion<T>& hi = high_words(a);
+    s.w[i] = hi.w;
+    s.x[i] = hi.x;
+    s.y[i] = hi.y;
+    s.z[i] = hi.z;
+    if constexpr (compensated) {
+      s.low_w[i] = a.lo.w;
+      s.low_x[i] = a.lo.x;
+      s.low_y[i] = a.lo.y;
+      s.low_z[i] = a.lo.z;
+    }
   }
-  // The components of all lanes.
+  // The components of all lanes. For the compensated policy these are the high words q_hi, within
+  // an ulp of the attitude lane(i) returns (q_hi + q_lo rounded; |q_lo| ≤ ½ulp(q_hi)).
   constexpr const Lanes& w() const noexcept { return state_[current_].w; }
   constexpr const Lanes& x() const noexcept { return state_[current_].x; }
   constexpr const Lanes& y() const noexcept { return state_[current_].y; }
@@ -248,10 +362,14 @@ class BatchPropagator {
   constexpr const GyroLimits<T>& limits() const noexcept { return limits_; }
 
  private:
-  // The lane loop, reading copy From and writing the other; returns the lanes accepted.
+  // The lane loop, reading copy From and writing the other; returns the lanes accepted. Flattened
+  // (every call in it inlined, recursively): a call left in the lane body stops vectorization,
+  // and g++ 12 stops inlining once a translation unit has grown by its inline-unit-growth limit
+  // (a benchmark unit with many instantiations left CompensatedAccumulation::scaled out of line,
+  // and the compensated lanes scalar).
   template <std::size_t From>
   // cppcheck-suppress unusedPrivateFunction ; called as step_lanes<0>() / <1>() by step()
-  std::size_t step_lanes() noexcept {
+  [[gnu::flatten]] std::size_t step_lanes() noexcept {
     const Lanes& dx = samples_.dx;
     const Lanes& dy = samples_.dy;
     const Lanes& dz = samples_.dz;
@@ -284,9 +402,22 @@ class BatchPropagator {
       T c_minus_one;
       T s;
       batch_exponential_series(t, c_minus_one, s);
-      const Quaternion<T> q{from.w[i], from.x[i], from.y[i], from.z[i]};
-      const Quaternion<T> next = Renormalization{}.apply(
-          apply_increment(q, Quaternion<T>{c_minus_one, s * ax, s * ay, s * az}));
+      // The scalar Propagator's commit (propagator.hpp, commit_if_usable), operation for
+      // operation: the policy's step, its attitude renormalized, the renormalized attitude read
+      // back into the policy's state (for the compensated policy without a branch).
+      const LaneAttitudeState q = load(from, i);
+      const LaneAttitudeState advanced =
+          Accumulation::advanced(q, Quaternion<T>{c_minus_one, s * ax, s * ay, s * az});
+      const Quaternion<T> kept = Renormalization{}.apply(Accumulation::attitude(advanced));
+      const LaneAttitudeState next_state = Accumulation::with_attitude_branch_free(advanced, kept);
+      // Component by component, and for the plain policy straight from `kept` (which is what its
+      // with_attitude returns): g++ 12 leaves a copy of a whole Quaternion<double> as one memory
+      // access it cannot vectorize.
+      const Quaternion<T>& next_high = compensated ? high_words(next_state) : kept;
+      const T next_w = next_high.w;
+      const T next_x = next_high.x;
+      const T next_y = next_high.y;
+      const T next_z = next_high.z;
       // Kahan sum of elapsed time, as Propagator keeps it.
       const T sum = from.elapsed_sum[i];
       const T carry = from.elapsed_carry[i];
@@ -296,13 +427,26 @@ class BatchPropagator {
       // A non-finite result is rejected, as in Propagator (finite input cannot produce one from a
       // finite state). Testing it here also makes every new value needed before the select, so
       // that g++ does not sink their computation into a branch it then cannot vectorize.
-      const T all = ((next.w + next.x) + (next.y + next.z)) + (total + next_carry);
+      T all = ((next_w + next_x) + (next_y + next_z)) + (total + next_carry);
+      if constexpr (compensated) {
+        // The renormalized attitude too (the scalar path checks it): the read-back uses one of
+        // its components, picked by a select, and g++ would otherwise compute each only where
+        // it is picked, in a branch.
+        all += ((next_state.lo.w + next_state.lo.x) + (next_state.lo.y + next_state.lo.z)) +
+               ((kept.w + kept.x) + (kept.y + kept.z));
+      }
       bool ok = valid;
       ok &= all - all == T(0);
-      to.w[i] = ok ? next.w : q.w;
-      to.x[i] = ok ? next.x : q.x;
-      to.y[i] = ok ? next.y : q.y;
-      to.z[i] = ok ? next.z : q.z;
+      to.w[i] = ok ? next_w : from.w[i];
+      to.x[i] = ok ? next_x : from.x[i];
+      to.y[i] = ok ? next_y : from.y[i];
+      to.z[i] = ok ? next_z : from.z[i];
+      if constexpr (compensated) {
+        to.low_w[i] = ok ? next_state.lo.w : from.low_w[i];
+        to.low_x[i] = ok ? next_state.lo.x : from.low_x[i];
+        to.low_y[i] = ok ? next_state.lo.y : from.low_y[i];
+        to.low_z[i] = ok ? next_state.lo.z : from.low_z[i];
+      }
       to.elapsed_sum[i] = ok ? total : sum;
       to.elapsed_carry[i] = ok ? next_carry : carry;
       const T taken = ok ? T(1) : T(0);
@@ -352,14 +496,24 @@ class BatchPropagator {
   // The state is double-buffered: step() reads one copy and writes the other. Writing in place
   // would let the compiler drop the store-back of a rejected lane and turn the select into a
   // conditional store, which SSE2 has no vector form for.
-  struct LaneState {
-    Lanes w{};
-    Lanes x{};
-    Lanes y{};
-    Lanes z{};
-    Lanes elapsed_sum{};
-    Lanes elapsed_carry{};
-  };
+  using LaneState = detail::BatchLaneState<T, N, compensated>;
+
+  // Lane i of a buffer as the policy's state.
+  static constexpr LaneAttitudeState load(const LaneState& s, std::size_t i) noexcept {
+    if constexpr (compensated) {
+      return {{s.w[i], s.x[i], s.y[i], s.z[i]}, {s.low_w[i], s.low_x[i], s.low_y[i], s.low_z[i]}};
+    } else {
+      return {{s.w[i], s.x[i], s.y[i], s.z[i]}};
+    }
+  }
+  // The words stored in w, x, y, z: the attitude (plain) or q_hi (compensated).
+  static constexpr const Quaternion<T>& high_words(const LaneAttitudeState& a) noexcept {
+    if constexpr (compensated) {
+      return a.hi;
+    } else {
+      return a.attitude;
+    }
+  }
 
   // Declared before the state: declared after current_, it made clang 14 give up vectorizing
   // double lanes for N ≤ 32 ("unsafe dependent memory operations"); g++ does not mind.

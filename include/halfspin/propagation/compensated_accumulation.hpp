@@ -54,6 +54,7 @@
 // builds set (tests/target replays compensated configurations on both). No libm call, no branch,
 // no heap.
 
+#include <cstdint>
 #include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
@@ -103,6 +104,44 @@ constexpr void add_to_pair(Quaternion<T>& hi, Quaternion<T>& lo, const Quaternio
   const SumAndError<T> z = double_word_plus(hi.z, lo.z, p.z);
   hi = {w.sum, x.sum, y.sum, z.sum};
   lo = {w.error, x.error, y.error, z.error};
+}
+
+// Branch-free selects on the sign bit, for with_attitude_branch_free: an unsigned integer of T's
+// size (float and double; other types have none and take the branching path).
+template <class T>
+struct SignSelectBits {
+  static constexpr bool available = false;
+};
+template <>
+struct SignSelectBits<float> {
+  static constexpr bool available = true;
+  using Bits = std::uint32_t;
+};
+template <>
+struct SignSelectBits<double> {
+  static constexpr bool available = true;
+  using Bits = std::uint64_t;
+};
+
+// |x| by clearing the sign bit.
+template <class T>
+constexpr T magnitude_bits(T x) noexcept {
+  using Bits = typename SignSelectBits<T>::Bits;
+  constexpr Bits sign = Bits(1) << (8U * sizeof(Bits) - 1U);
+  return __builtin_bit_cast(T, static_cast<Bits>(__builtin_bit_cast(Bits, x) & ~sign));
+}
+
+// a where the sign bit of key is set, else b: a mask from the sign bit, then and/and-not/or. No
+// comparison and no branch, so a compiler cannot sink the computation of a or b into a branch
+// (g++ does so for the arms of a ?: and then, since a floating-point operation may trap, cannot
+// vectorize the loop around it).
+template <class T>
+constexpr T select_if_sign(T key, T a, T b) noexcept {
+  using Bits = typename SignSelectBits<T>::Bits;
+  constexpr unsigned top = 8U * sizeof(Bits) - 1U;
+  const Bits mask = static_cast<Bits>(Bits(0) - (__builtin_bit_cast(Bits, key) >> top));
+  return __builtin_bit_cast(T, static_cast<Bits>((__builtin_bit_cast(Bits, a) & mask) |
+                                                 (__builtin_bit_cast(Bits, b) & ~mask)));
 }
 
 #if defined(__FAST_MATH__)
@@ -186,7 +225,59 @@ struct CompensatedAccumulation {
     if (kappa <= T(1.0 / 1024) && kappa >= T(-1.0 / 1024)) {
       return scaled(s, kappa);
     }
-    const T f = km / am;
+    return rescaled(s, km / am);
+  }
+  // with_attitude without a branch, for loops that must vectorize (the BatchPropagator lanes):
+  // both outcomes (scaled() and rescaled()) are computed and every choice is a select on a sign
+  // bit. The tests are with_attitude's, written as signs of exact differences: |a_i| > |a_m| as
+  // |a_m| − |a_i| < 0 and |κ| > 2⁻¹⁰ as 2⁻¹⁰ − |κ| < 0 (for finite operands a difference rounds to
+  // the sign of the exact one, and is +0 when they are equal). So the result is with_attitude's
+  // bit for bit whenever that is finite, and not finite when it is not (a NaN or an infinity in
+  // attitude(s) or kept reaches every outcome; only the NaN's sign bit, which the two forms may
+  // read differently, is left to chance). Types without a same-size unsigned integer (long
+  // double) take with_attitude. Cost: the near-unit path's flops (above) plus a division and
+  // rescaled()'s 20 flops, 7 sign clears, 4 sign-bit masks and 14 selects (and, and-not, or)
+  // instead of comparisons. A loop that calls it must inline it to vectorize; clang++ 14 judges
+  // it too costly to inline by its own heuristics, so BatchPropagator flattens its lane loop.
+  template <class T>
+  static constexpr State<T> with_attitude_branch_free(const State<T>& s,
+                                                      const Quaternion<T>& kept) noexcept {
+    if constexpr (!detail::SignSelectBits<T>::available) {
+      return with_attitude(s, kept);
+    } else {
+      using detail::magnitude_bits;
+      using detail::select_if_sign;
+      const Quaternion<T> a = attitude(s);
+      T am = a.w;
+      T km = kept.w;
+      const auto take_if_larger = [&am, &km](T ai, T ki) noexcept {
+        const T key = magnitude_bits(am) - magnitude_bits(ai);  // < 0 iff |a_i| > |a_m|
+        am = select_if_sign(key, ai, am);
+        km = select_if_sign(key, ki, km);
+      };
+      take_if_larger(a.x, kept.x);
+      take_if_larger(a.y, kept.y);
+      take_if_larger(a.z, kept.z);
+      const T kappa = (km - am) / am;
+      const T far_key = T(1.0 / 1024) - magnitude_bits(kappa);  // < 0 iff |κ| > 2⁻¹⁰
+      const State<T> near = scaled(s, kappa);
+      const State<T> far = rescaled(s, km / am);
+      return {{select_if_sign(far_key, far.hi.w, near.hi.w),
+               select_if_sign(far_key, far.hi.x, near.hi.x),
+               select_if_sign(far_key, far.hi.y, near.hi.y),
+               select_if_sign(far_key, far.hi.z, near.hi.z)},
+              {select_if_sign(far_key, far.lo.w, near.lo.w),
+               select_if_sign(far_key, far.lo.x, near.lo.x),
+               select_if_sign(far_key, far.lo.y, near.lo.y),
+               select_if_sign(far_key, far.lo.z, near.lo.z)}};
+    }
+  }
+
+ private:
+  // Both words multiplied by f and the pair renormalized with Fast2Sum (|f·hi| ≥ |f·lo|): the
+  // far-from-unit case of with_attitude. 20 flops.
+  template <class T>
+  static constexpr State<T> rescaled(const State<T>& s, T f) noexcept {
     const Quaternion<T> hi = f * s.hi;
     const Quaternion<T> lo = f * s.lo;
     const detail::SumAndError<T> w = detail::fast_two_sum(hi.w, lo.w);

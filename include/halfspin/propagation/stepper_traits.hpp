@@ -156,6 +156,13 @@ struct PlainAccumulation {
   static constexpr State<T> with_attitude(const State<T>& /*s*/, const Quaternion<T>& q) noexcept {
     return {q};
   }
+  // with_attitude in straight-line code, for loops that must vectorize (BatchPropagator's lanes):
+  // here with_attitude itself.
+  template <class T>
+  static constexpr State<T> with_attitude_branch_free(const State<T>& s,
+                                                      const Quaternion<T>& q) noexcept {
+    return with_attitude(s, q);
+  }
 };
 
 // The input a stepper's increment takes for scalar T: its sample window (rate_function steppers
