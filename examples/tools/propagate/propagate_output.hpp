@@ -38,6 +38,7 @@ struct RunSummary {  // NOLINT(clang-analyzer-optin.performance.Padding): groupe
   const char* method = "";
   const char* scalar = "";
   const char* renormalization = "";
+  const char* accumulation = "";
   std::string euler;  // sequence name, e.g. "zyx"
   PropagationCounters counters{};
   std::uint64_t samples_read = 0;
@@ -163,8 +164,8 @@ inline void print_attitude(const RunSummary& s) {
 
 // The summary on stderr after a complete run.
 inline void print_summary(const RunSummary& s) {
-  std::fprintf(stderr, "method %s, scalar %s, renormalization %s, Euler %s\n", s.method, s.scalar,
-               s.renormalization, s.euler.c_str());
+  std::fprintf(stderr, "method %s, scalar %s, renormalization %s, accumulation %s, Euler %s\n",
+               s.method, s.scalar, s.renormalization, s.accumulation, s.euler.c_str());
   detail::print_counts(s);
   detail::print_attitude(s);
 }

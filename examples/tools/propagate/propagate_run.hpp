@@ -21,6 +21,7 @@
 #include "halfspin/core/angle_between.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/scalar_traits.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/representations/euler_angles.hpp"
@@ -80,7 +81,7 @@ constexpr const char* scalar_name() noexcept {
   return std::is_same<T, float>::value ? "float" : "double";
 }
 
-template <class T, class Stepper>
+template <class T, class Stepper, class Accumulation>
 class LogRun {
  public:
   LogRun(const Options& opt, NumericCsvReader<4>& reader, GyroLogForm form, std::FILE* out,
@@ -115,7 +116,7 @@ class LogRun {
  private:
   static constexpr bool has_estimate = has_error_estimate<Stepper, T>::value;
   static constexpr int digits = std::is_same<T, float>::value ? 9 : 17;
-  using Prop = Propagator<T, Stepper, SelectedRenormalization<T>>;
+  using Prop = Propagator<T, Stepper, SelectedRenormalization<T>, Accumulation>;
   enum class Verdict { use, skip, fatal };  // of one check on a sample
 
   // The gap limit is known from --max-interval or from the first interval.
@@ -326,6 +327,7 @@ class LogRun {
     RunSummary s;
     s.method = Stepper::name;
     s.scalar = scalar_name<T>();
+    s.accumulation = Accumulation::name;
     s.renormalization = renormalize_name(opt_.renormalize);
     s.euler = seq_;
     s.counters = prop_->counters();
@@ -379,8 +381,16 @@ inline int run_log(const Options& opt, NumericCsvReader<4>& reader, GyroLogForm 
   visit_method(opt.method, [&](auto tag) {
     using S = typename decltype(tag)::type;
     if constexpr (S::layout != SampleLayout::rate_function) {
-      code = opt.use_float ? LogRun<float, S>(opt, reader, form, out, truth).run()
-                           : LogRun<double, S>(opt, reader, form, out, truth).run();
+      const bool compensated = opt.compensated.value_or(opt.use_float);
+      if (opt.use_float) {
+        code = compensated
+                   ? LogRun<float, S, CompensatedAccumulation>(opt, reader, form, out, truth).run()
+                   : LogRun<float, S, PlainAccumulation>(opt, reader, form, out, truth).run();
+      } else {
+        code = compensated
+                   ? LogRun<double, S, CompensatedAccumulation>(opt, reader, form, out, truth).run()
+                   : LogRun<double, S, PlainAccumulation>(opt, reader, form, out, truth).run();
+      }
     }
   });
   return code;
