@@ -1,6 +1,7 @@
-// ns per step through the propagator, the firmware path: Propagator<T, Stepper> with its default
-// renormalization (first_order) and GyroLimits validation of every sample, fed push(sample, dt)
-// new_samples times per iteration so that every iteration completes exactly one step:
+// ns per step through the propagator, the firmware path: Propagator<T, Stepper> with the plain
+// accumulation (double's default; float's default is the compensated one, measured below), the
+// default renormalization (first_order) and GyroLimits validation of every sample, fed push(sample,
+// dt) new_samples times per iteration so that every iteration completes exactly one step:
 // propagator/<method>/<scalar>, for every sample-driven stepper; rate-function steppers go through
 // advance(rate, dt) with the same linear rate as their bare step. Compare with
 // step/<method>/<scalar> (bench_steppers.cpp) for the cost of validation, history and

@@ -137,7 +137,7 @@ template <class T, std::size_t N>
 LongRun<T, N> long_run(std::uint64_t seed, int steps, T largest_angle) {
   test::RandomRotations random(seed);
   auto batch = make_batch<T, N>(Quaternion<T>::identity(), wide_limits<T>);
-  std::vector<Propagator<T, Coning1Sample, FirstOrderRenormalization>> scalar;
+  std::vector<Propagator<T, Coning1Sample, FirstOrderRenormalization, PlainAccumulation>> scalar;
   for (std::size_t i = 0; i < N; ++i) {
     const Quaternion<T> q0 = random.quaternion<T>();
     batch->set_lane(i, q0);

@@ -70,7 +70,9 @@ TEMPLATE_TEST_CASE("the propagator reproduces the stepper driven by hand, bit fo
   using T = TestType;
   test::RandomRotations rng(501);
   const Quaternion<T> q0 = rng.quaternion<T>();
-  Propagator<T, Magnus4, FirstOrderRenormalization> p(q0, limits<T>);
+  // The plain accumulation: the stepper's step() applies its increment plainly (the float
+  // default, compensated, is held to the same steps in test_compensated_accumulation.cpp).
+  Propagator<T, Magnus4, FirstOrderRenormalization, PlainAccumulation> p(q0, limits<T>);
   FirstOrderRenormalization policy;
   Quaternion<T> manual = q0;
   std::array<Vector3<T>, 3> window{};

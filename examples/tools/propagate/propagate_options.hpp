@@ -236,10 +236,9 @@ inline std::string set_number(const std::string& option, const std::string& text
 
 inline bool takes_value(const std::string& option) {
   static constexpr std::array<const char*, 13> options{
-      "--output",     "--method",       "--renormalize", "--renormalize-period",
-      "--initial",    "--scalar",       "--euler",       "--renormalize-threshold",
-      "--start-time", "--max-interval", "--max-rate",    "--truth",
-      "--accumulation"};
+      "--output",   "--method", "--renormalize",           "--renormalize-period", "--initial",
+      "--scalar",   "--euler",  "--renormalize-threshold", "--start-time",         "--max-interval",
+      "--max-rate", "--truth",  "--accumulation"};
   for (const char* o : options) {
     if (option == o) return true;
   }

@@ -1,7 +1,8 @@
 #pragma once
 // The propagator: owns the attitude and the fixed-size sample history its stepper needs,
 // validates every input, runs the stepper, applies the increment it returns through the
-// accumulation policy (stepper_traits.hpp: PlainAccumulation, q + q ⊗ δ rounded in T), runs the
+// accumulation policy (compensated in float, plain in double by default: DefaultAccumulation
+// below), runs the
 // renormalization policy, and keeps counters and the last per-step error estimate. The stepper
 // computes one increment; the propagator decides when and with what input.
 //
@@ -27,9 +28,11 @@
 #include <cstddef>
 #include <cstdint>
 #include <limits>
+#include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/renormalization.hpp"
 #include "halfspin/propagation/status.hpp"
@@ -59,8 +62,18 @@ struct PropagationCounters {
   }
 };
 
+// The accumulation policy of a Propagator<T, …> that names none: compensated in float, plain in
+// double. In float the plain policy's rounding, not the method, decides the error over minutes
+// (the demo scenario: 3.9e-5 rad plain, 1.1e-6 compensated, 5.4e-7 in double; and its worst-case
+// bound, N·c·u, meets no ordinary budget), for 1.1–1.5× the host time and +78 Cortex-M4F cycles
+// per step; in double the plain rounding is 10⁻¹⁶ per step and the pair would cost for nothing.
+// Name PlainAccumulation to trade that accuracy for cycles.
+template <class T>
+using DefaultAccumulation =
+    std::conditional_t<std::is_same<T, float>::value, CompensatedAccumulation, PlainAccumulation>;
+
 template <class T, class Stepper, class Renormalization = FirstOrderRenormalization,
-          class Accumulation = PlainAccumulation>
+          class Accumulation = DefaultAccumulation<T>>
 class Propagator {
  public:
   using scalar = T;
