@@ -324,7 +324,10 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
     chosen.found = true;
     chosen.method = r.name;
     chosen.delta = info != nullptr && carries_delta_angles(info->layout);
-    chosen.step_s = static_cast<double>(r.candidates[r.index].step_s);
+    // A whole number of gyro periods by construction; in float, periods/rate carries a rounding
+    // (3/1000 is 0.0030000000261 as a float) that must not reach the file.
+    chosen.step_s =
+        std::round(static_cast<double>(r.candidates[r.index].step_s) * o.gyro_rate) / o.gyro_rate;
     chosen.bound_rad = static_cast<double>(r.bound_rad);
     std::printf(
         "  recommended: %s, step %.4e s (%.1f Hz updates, %s log), %s %.3e rad "
