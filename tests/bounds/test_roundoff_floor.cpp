@@ -11,6 +11,7 @@
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
 #include "halfspin/core/exponential_map.hpp"
+#include "halfspin/propagation/commutator_free_4.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
@@ -207,6 +208,8 @@ TEST_CASE("roundoff floor: one compensated step's rounding stays under its per-s
   check_compensated_per_step_bound<MuntheKaas4RateFunction, float>(29);
   check_compensated_per_step_bound<RungeKutta3KuttaSampled, float>(31);
   check_compensated_per_step_bound<DormandPrince54RateFunction, float>(33);
+  check_compensated_per_step_bound<CommutatorFree4, float>(35);
+  check_compensated_per_step_bound<Coning3Sample, float>(37);
 }
 
 namespace {
@@ -325,6 +328,22 @@ TEST_CASE("roundoff floor: 10^6 compensated float steps stay under the compensat
   long_run_slow_coning<Coning2Sample, float, CompensatedAccumulation>();
   long_run_slow_coning<Magnus4, float, CompensatedAccumulation>();
 }
+
+// The families' bounds on their rotation vectors (own derivation, rotation_vector_family.hpp and
+// commutator_free_family.hpp), which the compensated floor takes |δ| from: delta-angles that tile
+// the step sum to at most θ; the Simpson and midpoint rate rules have weights summing to 1;
+// CF4's two exponentials weigh the rates by (3, 4, −1)/12 and (−1, 4, 3)/12, 16/12 in all; the
+// one-sample-plus-previous correction Δθ_prev × Δθ/12 is at most θ²/12.
+static_assert(Coning3Sample::rotation_linear == 1.0L && Coning2Sample::rotation_linear == 1.0L,
+              "tiling delta-angles: |alpha| <= theta");
+static_assert(Magnus4::rotation_linear == 1.0L &&
+                  ExponentialMapMidpointMean::rotation_linear == 1.0L,
+              "positive rate weights summing to one");
+static_assert(CommutatorFree4::rotation_linear == 16.0L / 12.0L &&
+                  CommutatorFree4::rotation_quadratic == 0.0L,
+              "CF4: 16/12");
+static_assert(Coning1SamplePlusPrevious::rotation_quadratic == 1.0L / 12.0L,
+              "the previous sample is not inside the step: no quarter");
 
 // Issue 4 item 5: the floor can be checked at compile time (firmware start-up configuration).
 // The value is the hand count of the header: exponential-map family at θ = 0, one float step,

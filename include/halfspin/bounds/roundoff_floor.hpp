@@ -62,8 +62,10 @@
 //      constants c1, c2 and the bound on the renormalization factor κ): the attitude's own
 //      rounding, N·(product + renormalization) above, is replaced by
 //          c1·u·2|δ̂| + c2·u² + 4u·(κ beyond the policy's 8u)
-//      per step, with |δ̂| ≤ θ/2 + (the increment's rounding) for the exponential-map family
-//      (|exp(φ/2) − 1| = 2 sin(θ/4)) and ≤ B + (its rounding) for Runge–Kutta; κ beyond 8u is the
+//      per step, with |δ̂| ≤ (angle of P)/2 + (the increment's rounding): the angle from the
+//      family's bound on its rotation vectors (rotation_linear·θ + rotation_quadratic·θ², the
+//      rotation-vector and commutator-free families), θ·G for the other exponential-map steppers,
+//      and |δ̂| ≤ B + (its rounding) for Runge–Kutta; κ beyond 8u is the
 //      step's own norm change: the increment's rounding (as an angle, an upper bound on the
 //      relative norm change) and, for Runge–Kutta, |P| − 1 ≤ B. What remains is the rounding of
 //      the increment itself, relative to θ. Over N steps the floor is then about
@@ -122,6 +124,16 @@ template <class Stepper>
 struct rounding_depth<Stepper, std::void_t<decltype(Stepper::rounding_depth)>> {
   static constexpr int value = Stepper::rounding_depth;
 };
+
+// |δ| = |P − 1| ≤ (angle of P)/2 for a step rotating by ≤ theta: from the family's bound on its
+// rotation vectors where it declares one (rotation_linear·θ + rotation_quadratic·θ²: the
+// rotation-vector and commutator-free families), else θ·G with the stage growth G below (the
+// cover-all of the header comment).
+template <class Stepper, class = void>
+struct declares_rotation_bound : std::false_type {};
+template <class Stepper>
+struct declares_rotation_bound<Stepper, std::void_t<decltype(Stepper::rotation_linear)>>
+    : std::true_type {};
 
 // Stage growth of the roundoff model (header comment (b)): `growth` bounds every stage's
 // |q_i|/|q| and `spread` bounds B = Σ_i|x_i|/|q|, for a step of rotation ≤ theta. From the
@@ -270,7 +282,14 @@ struct per_step_rounding<Stepper, T, CompensatedAccumulation> {
     constexpr T u = std::numeric_limits<T>::epsilon() / T(2);
     constexpr T near_unit = T(1) / (T(1) - T(1.0 / 1024));  // |q| ≥ 1 − 2⁻¹⁰
     const T increment = increment_rounding<Stepper, T>(theta, true);
-    T size = theta / T(2);  // |δ| of exp(φ/2) − 1
+    T size = T(0);  // |δ| of P − 1
+    if constexpr (declares_rotation_bound<Stepper>::value) {
+      size = (static_cast<T>(Stepper::rotation_linear) +
+              static_cast<T>(Stepper::rotation_quadratic) * theta) *
+             theta / T(2);
+    } else {
+      size = stage_growth<Stepper, T>::of(theta).growth * theta / T(2);
+    }
     T norm_change = increment;
     if constexpr (is_additive_quaternion_stepper<Stepper>) {
       const T spread = stage_growth<Stepper, T>::of(theta).spread;  // B ≥ |δ| and ≥ ||P| − 1|

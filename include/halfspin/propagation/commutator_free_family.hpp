@@ -188,6 +188,24 @@ struct CommutatorFreeStepper {
       detail::commutator_free_flops(rule) +
       static_cast<int>(exponentials) * quaternion_exp_minus_one_series_flops +
       apply_increment_flops;
+  // The exponentials' rotation vectors together are at most rotation_linear·θ long for a step
+  // rotating by ≤ θ (each is Σ_i a_ji s_i, |s_i| ≤ θ for rates × dt, Σ|s_i| ≤ θ for
+  // delta-angles), so the step's P is within that angle of 1 (the roundoff model's
+  // |δ| ≤ rotation_linear·θ/2).
+  static constexpr long double rotation_linear = [] {
+    long double sum = 0.0L;
+    for (std::size_t j = 0; j < exponentials; ++j) {
+      long double row = 0.0L;  // Σ_i |a_ji| for rates, max_i |a_ji| for delta-angles
+      for (std::size_t i = 0; i < window; ++i) {
+        const auto w = static_cast<long double>(rule.weights[j][i] < 0 ? -rule.weights[j][i]
+                                                                       : rule.weights[j][i]);
+        row = detail::carries_rates(layout) ? row + w : (w > row ? w : row);
+      }
+      sum += row;
+    }
+    return sum / static_cast<long double>(rule.denominator);
+  }();
+  static constexpr long double rotation_quadratic = 0.0L;
   static_assert(layout != SampleLayout::rate_function, "the family reads samples");
   static_assert(exponentials >= 1, "at least one exponential");
   static_assert(detail::quadrature_degree(detail::first_order_part(rule)) >= 0,

@@ -401,6 +401,38 @@ constexpr int rotation_vector_rounding_depth(const RotationVectorRule<W>& r) noe
   return (alpha > beta ? alpha : beta) + (commutator ? 1 : 0);
 }
 
+// Bounds on |φ| for a step of rotation ≤ θ = D0·dt: |α̂| ≤ (Σ|w_i|/denominator)·θ for rates
+// (|s_i|·dt ≤ θ) and ≤ (max|w_i|/denominator)·θ for delta-angles that tile the step
+// (Σ|s_i| ≤ θ); |β̂| ≤ (Σ_m |c_m|·(W − m))·θ² for rates (each |s_i × s_j|·dt² ≤ θ²) and for a
+// rule that reads the previous step's delta-angle (|s_0| ≤ θ too), a quarter of it for
+// delta-angles that tile the step (|s_i||s_j| ≤ θ_i·θ_j ≤ θ²/4 where θ_i + θ_j ≤ θ). The roundoff
+// model (bounds/roundoff_floor.hpp) takes |δ| = |exp(φ/2) − 1| ≤ |φ|/2 from them.
+template <std::size_t W>
+constexpr long double rotation_vector_quadrature_magnitude(
+    const RotationVectorRule<W>& r) noexcept {
+  long double sum = 0.0L;
+  long double largest = 0.0L;
+  for (std::size_t i = 0; i < W; ++i) {
+    const long double w =
+        static_cast<long double>(r.quadrature[i] < 0 ? -r.quadrature[i] : r.quadrature[i]);
+    sum += w;
+    largest = w > largest ? w : largest;
+  }
+  return (carries_rates(r.layout) ? sum : largest) /
+         static_cast<long double>(r.quadrature_denominator);
+}
+template <std::size_t W>
+constexpr long double rotation_vector_commutator_magnitude(
+    const RotationVectorRule<W>& r) noexcept {
+  long double sum = 0.0L;
+  for (std::size_t m = 1; m < W; ++m) {
+    const std::int32_t c = r.commutator.numerators[m - 1];
+    sum += static_cast<long double>(c < 0 ? -c : c) * static_cast<long double>(W - m);
+  }
+  sum /= static_cast<long double>(r.commutator.denominator);
+  return r.layout == SampleLayout::delta_angles ? sum / 4.0L : sum;
+}
+
 template <std::size_t W>
 constexpr bool has_commutator(const RotationVectorRule<W>& r) noexcept {
   for (std::size_t m = 1; m < W; ++m) {
@@ -481,6 +513,11 @@ struct RotationVectorStepper {
                                quaternion_exp_minus_one_series_flops + apply_increment_flops;
   // Most roundings on a path from a sample to φ (bounds/roundoff_floor.hpp reads it).
   static constexpr int rounding_depth = detail::rotation_vector_rounding_depth(rule);
+  // |φ| ≤ rotation_linear·θ + rotation_quadratic·θ² for a step rotating by ≤ θ (the roundoff
+  // model's |δ| ≤ |φ|/2).
+  static constexpr long double rotation_linear = detail::rotation_vector_quadrature_magnitude(rule);
+  static constexpr long double rotation_quadratic =
+      detail::rotation_vector_commutator_magnitude(rule);
   static_assert(layout != SampleLayout::rate_function, "the family reads samples");
   static_assert(detail::quadrature_degree(rule) >= 0, "the quadrature weights must be consistent");
 
