@@ -38,7 +38,9 @@
 // pure classical coning at small cone angles (2N for the N-sample algorithms), higher than `order`.
 // A stepper may declare `rounding_depth`: the most roundings on any path from an input to its
 // rotation vector (bounds/roundoff_floor.hpp; the rotation-vector family derives it from its rule).
-// Without it the roundoff model counts `flops`, an upper count.
+// Without it the roundoff model counts `flops`, an upper count. It may also declare
+// `rotation_linear` and `rotation_quadratic` (long double): |φ| ≤ rotation_linear·θ +
+// rotation_quadratic·θ² for a step rotating by ≤ θ (the compensated roundoff floor's |δ|).
 // Every stepper names its family's data as `family` (a rotation-vector rule, a Butcher tableau
 // with its input form, ...); the bounds layer dispatches on it, so a stepper and its bound are
 // derived from the same data and cannot disagree.
