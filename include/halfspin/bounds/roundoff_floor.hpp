@@ -276,20 +276,25 @@ struct per_step_rounding<Stepper, T, PlainAccumulation> {
   }
 };
 
+// |δ| = |P − 1| ≤ (angle of P)/2 for a step rotating by ≤ theta (declares_rotation_bound above).
+template <class Stepper, class T>
+constexpr T increment_size(T theta) noexcept {
+  if constexpr (declares_rotation_bound<Stepper>::value) {
+    return (static_cast<T>(Stepper::rotation_linear) +
+            static_cast<T>(Stepper::rotation_quadratic) * theta) *
+           theta / T(2);
+  } else {
+    return stage_growth<Stepper, T>::of(theta).growth * theta / T(2);
+  }
+}
+
 template <class Stepper, class T>
 struct per_step_rounding<Stepper, T, CompensatedAccumulation> {
   static constexpr T of(T theta) noexcept {
     constexpr T u = std::numeric_limits<T>::epsilon() / T(2);
     constexpr T near_unit = T(1) / (T(1) - T(1.0 / 1024));  // |q| ≥ 1 − 2⁻¹⁰
     const T increment = increment_rounding<Stepper, T>(theta, true);
-    T size = T(0);  // |δ| of P − 1
-    if constexpr (declares_rotation_bound<Stepper>::value) {
-      size = (static_cast<T>(Stepper::rotation_linear) +
-              static_cast<T>(Stepper::rotation_quadratic) * theta) *
-             theta / T(2);
-    } else {
-      size = stage_growth<Stepper, T>::of(theta).growth * theta / T(2);
-    }
+    T size = increment_size<Stepper, T>(theta);  // |δ| of P − 1
     T norm_change = increment;
     if constexpr (is_additive_quaternion_stepper<Stepper>) {
       const T spread = stage_growth<Stepper, T>::of(theta).spread;  // B ≥ |δ| and ≥ ||P| − 1|
