@@ -24,6 +24,7 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from cycle_estimate import P, classify  # noqa: E402  (same timing table)
 
 FUNCTION = "halfspin_footprint_step"
+PUSH_FUNCTION = "halfspin_footprint_push"  # the propagator images' entry point
 
 
 def disassembly(elf):
@@ -67,9 +68,9 @@ def executed_pcs(machine, elf):
         return pcs
 
 
-def price(elf, machine="mps2-an386"):
+def price(elf, machine="mps2-an386", function=FUNCTION):
     insns, symbols = disassembly(elf)
-    start = symbols[FUNCTION][0]
+    start = symbols[function][0]
     main_lo, main_hi = symbols["main"]
     pcs = executed_pcs(machine, elf)
     calls = 0
@@ -99,7 +100,7 @@ def price(elf, machine="mps2-an386"):
         cycles += c
         count += 1
     if calls == 0:
-        raise SystemExit(f"{FUNCTION} never ran in {elf}")
+        raise SystemExit(f"{function} never ran in {elf}")
     return count / calls, cycles / calls, calls
 
 
@@ -109,14 +110,24 @@ def main(argv):
         return 2
     footprint = os.path.join(argv[1], "footprint")
     images = sorted(f for f in os.listdir(footprint) if f.endswith("_float_step.elf"))
-    print("Cortex-M4F cycles per step from the executed path under qemu (float, step function "
-          "with callees; timing table from memory, zero wait states).\n")
-    print("| stepper | executed instructions per step | estimated cycles per step |")
-    print("|---|---:|---:|")
+    print("Cortex-M4F cycles from the executed path under qemu (float; timing table from memory, "
+          "zero wait states). Step: the step function with callees (increment and accumulation, "
+          "no renormalization). Propagator: one push() of a sample into the validating "
+          "propagator (first-order renormalization), averaged over every push of the image, "
+          "including those that only store a sample of a multi-sample window.\n")
+    print("| stepper | executed instructions per step | estimated cycles per step "
+          "| executed instructions per sample, propagator | estimated cycles per sample, "
+          "propagator |")
+    print("|---|---:|---:|---:|---:|")
     for image in images:
         name = image[len("footprint_"):-len("_float_step.elf")]
         n, c, _ = price(os.path.join(footprint, image))
-        print(f"| `{name}` | {n:.0f} | {c:.0f} |")
+        propagator = os.path.join(footprint, image[:-len("step.elf")] + "propagator.elf")
+        if os.path.exists(propagator):
+            pn, pc, _ = price(propagator, function=PUSH_FUNCTION)
+            print(f"| `{name}` | {n:.0f} | {c:.0f} | {pn:.0f} | {pc:.0f} |")
+        else:
+            print(f"| `{name}` | {n:.0f} | {c:.0f} | – | – |")
     return 0
 
 

@@ -83,6 +83,77 @@ TEST_CASE("double-word plus word: relative error at most 2u², result normalized
   CHECK(worst <= 2 * u_float * u_float);
 }
 
+TEST_CASE("double-word plus a smaller word: Fast2Sum gives the TwoSum form's bits") {
+  // The renormalization adds κ·q_hi with |κ| ≤ 2⁻¹⁰, so |y| ≤ |hi|, where Fast2Sum's pair is
+  // TwoSum's (Dekker 1971; both error-free): double_word_plus_smaller must equal double_word_plus
+  // bit for bit, including y of hi's own magnitude, opposite signs and zeros.
+  std::mt19937 rng(7);
+  std::uniform_real_distribution<float> fraction(-1.0f, 1.0f);
+  int differing = 0;
+  for (int i = 0; i < 100000; ++i) {
+    const float hi = random_float(rng, -4, 2);
+    const float lo = fraction(rng) * std::ldexp(1.0f, std::ilogb(hi) - 24);
+    // |y| ≤ |hi|: a random fraction of hi, some at ±hi and ±hi·2⁻¹⁰ exactly, some zero.
+    const int kind = i % 5;
+    const float y = kind == 0   ? -hi
+                    : kind == 1 ? hi * std::ldexp(fraction(rng) >= 0 ? 1.0f : -1.0f, -10)
+                    : kind == 2 ? 0.0f
+                                : hi * fraction(rng) * std::ldexp(1.0f, -(i % 30));
+    const detail::SumAndError<float> a = detail::double_word_plus(hi, lo, y);
+    const detail::SumAndError<float> b = detail::double_word_plus_smaller(hi, lo, y);
+    if (std::memcmp(&a.sum, &b.sum, sizeof(float)) != 0 ||
+        std::memcmp(&a.error, &b.error, sizeof(float)) != 0) {
+      ++differing;
+    }
+  }
+  CHECK(differing == 0);
+}
+
+TEMPLATE_TEST_CASE("the read-back takes the policy's factor: direction kept, norm the policy's", "",
+                   FirstOrderRenormalization, ExactRenormalization) {
+  // with_attitude reads κ = f − 1 from Σ(|kept_i| − |a_i|)/Σ|a_i| and adds κ·q_hi to the pair.
+  // Derived bounds (compensated_accumulation.hpp): the direction moves by at most 4u·|κ| + 4u²
+  // (as an angle; 2u·|κ| + 2u² in the 2-norm), and the factor read back differs from the policy's
+  // per-component factors f(1 + ε_i), |ε_i| ≤ 2u, by at most 2u + 4u·|κ|, so the pair's norm is
+  // within (4u + 4u·|κ|)·‖a‖ of ‖kept‖ (both are ε-weighted means), plus the 2u·|κ| + 2u² above.
+  std::mt19937 rng(23);
+  test::RandomRotations random(29);
+  std::uniform_real_distribution<float> c(-1.0f, 1.0f);
+  L worst_direction = 0;
+  L worst_norm = 0;
+  for (int i = 0; i < 20000; ++i) {
+    // A pair near the unit sphere (norm error up to 10⁻⁴, what a Runge–Kutta step may leave), with
+    // a low word from a few steps.
+    CompensatedAccumulation::State<float> s =
+        CompensatedAccumulation::start((1.0f + 1e-4f * c(rng)) * random.quaternion<float>());
+    for (int k = 0; k < 3; ++k) {
+      s = CompensatedAccumulation::advanced(
+          s, quaternion_exp_minus_one(Vector3<float>{c(rng), c(rng), c(rng)} * 1e-3f));
+    }
+    const Quaternion<float> a = CompensatedAccumulation::attitude(s);
+    TestType policy;
+    const Quaternion<float> kept = policy.apply(a);
+    const CompensatedAccumulation::State<float> r = CompensatedAccumulation::with_attitude(s, kept);
+    const Quaternion<L> before = test::widen(s.hi) + test::widen(s.lo);
+    const Quaternion<L> after = test::widen(r.hi) + test::widen(r.lo);
+    const L na = std::sqrt(squared_norm(test::widen(a)));
+    const L nk = std::sqrt(squared_norm(test::widen(kept)));
+    const L kappa = std::fabs(nk / na - 1);
+    const L u = u_float;
+    const L direction_bound = 4 * u * kappa + 4 * u * u;
+    const L norm_bound = (4 * u + 4 * u * kappa) * na + 2 * u * kappa + 2 * u * u;
+    const L direction = angle_between(before, after);
+    const L norm_gap = std::fabs(std::sqrt(squared_norm(after)) - nk);
+    worst_direction = std::fmax(worst_direction, direction / direction_bound);
+    worst_norm = std::fmax(worst_norm, norm_gap / norm_bound);
+    REQUIRE(direction <= direction_bound);
+    REQUIRE(norm_gap <= norm_bound);
+  }
+  test::report_worst(std::string("read-back direction measured/bound ") + TestType::name,
+                     worst_direction);
+  test::report_worst(std::string("read-back norm measured/bound ") + TestType::name, worst_norm);
+}
+
 TEST_CASE("compensated float keeps rotations the plain policy rounds away, within its bound") {
   // 10⁶ steps of 10⁻⁹ rad about a fixed axis (|δ| = 5·10⁻¹⁰, below half an ulp of 1 in float):
   // the plain policy returns the start attitude every step; the compensated one must follow the
@@ -222,8 +293,8 @@ TEMPLATE_TEST_CASE("the branch-free read-back is with_attitude bit for bit", "",
   // with_attitude_branch_free (for vectorized loops) against with_attitude on: pairs built by
   // steps of random size from random attitudes of random scale, read back from each
   // renormalization policy's result and from multiples f·a with f near 1, at the 2⁻¹⁰ boundary
-  // and far from 1, and from unrelated quaternions; ties between the largest components; and
-  // non-finite inputs, where both must give a non-finite state.
+  // and far from 1, and from unrelated quaternions; signed zeros; and non-finite inputs, where
+  // both must give a non-finite state.
   using T = TestType;
   using C = CompensatedAccumulation;
   test::RandomRotations random(17);
@@ -264,9 +335,8 @@ TEMPLATE_TEST_CASE("the branch-free read-back is with_attitude bit for bit", "",
       ++compared;
     }
   }
-  // Exactly representable components, so that f·a is exact and κ hits ±2⁻¹⁰ exactly (near-unit
-  // path, ≤) or just beyond it; ties between the largest components (the first in w, x, y, z
-  // order is taken); signed zeros.
+  // Exactly representable components, so that f·a is exact and κ lands on ±2⁻¹⁰ (near-unit
+  // path, ≤) or just beyond it; equal magnitudes; signed zeros.
   const std::array<Quaternion<T>, 5> exact{Quaternion<T>{T(0.5), T(0.25), T(-0.125), T(0.0625)},
                                            Quaternion<T>{T(-0.25), T(0.5), T(-0.5), T(0.125)},
                                            Quaternion<T>{T(0.5), T(-0.5), T(0.5), T(-0.5)},
@@ -300,4 +370,68 @@ TEMPLATE_TEST_CASE("the branch-free read-back is with_attitude bit for bit", "",
       CHECK(!finite_state(C::with_attitude_branch_free(state, k)));
     }
   }
+}
+
+namespace {
+// A policy of a user's own with only `apply` (the exact form): the compensated propagator reads
+// its factor back from the result.
+struct ApplyOnlyRenormalization {
+  template <class T>
+  Quaternion<T> apply(const Quaternion<T>& q) noexcept {
+    return normalized(q);
+  }
+};
+}  // namespace
+
+// Which path the propagator takes (stepper_traits.hpp, renormalizes_by_scaling).
+static_assert(
+    renormalizes_by_scaling<CompensatedAccumulation, FirstOrderRenormalization, float>::value,
+    "compensated + first order: by the policy's scale");
+static_assert(renormalizes_by_scaling<CompensatedAccumulation,
+                                      PeriodicRenormalization<ExactRenormalization>, float>::value,
+              "the wrappers pass their inner policy's scale on");
+static_assert(!renormalizes_by_scaling<PlainAccumulation, FirstOrderRenormalization, float>::value,
+              "the plain accumulation keeps the policy's result");
+static_assert(
+    !renormalizes_by_scaling<CompensatedAccumulation, ApplyOnlyRenormalization, float>::value,
+    "a policy without scaling: the factor is read back");
+static_assert(
+    !renormalizes_by_scaling<CompensatedAccumulation,
+                             PeriodicRenormalization<ApplyOnlyRenormalization>, float>::value,
+    "nor with a wrapper around it");
+
+TEST_CASE("a policy with only apply: the compensated propagator reads its factor back") {
+  // The read-back path (with_attitude) and the scaling path (with_scaling, ExactRenormalization)
+  // apply the same factor to rounding: after 10⁵ steps of a tumbling rotation both are within the
+  // compensated bound of the truth and within a few u of each other's norm.
+  const int steps = 100000;
+  const float dt = 1e-3f;
+  const Vector3<float> rate{0.3f, -0.2f, 0.5f};
+  const Quaternion<float> start =
+      test::narrow<float>(normalized(Quaternion<L>{0.9L, 0.2L, -0.3L, 0.1L}));
+  const GyroLimits<float> limits{35.0f, 0.01f};
+  Propagator<float, ExponentialMapHoldEnd, ApplyOnlyRenormalization, CompensatedAccumulation>
+      read_back(start, limits);
+  Propagator<float, ExponentialMapHoldEnd, ExactRenormalization, CompensatedAccumulation> scaling(
+      start, limits);
+  for (int k = 0; k < steps; ++k) {
+    REQUIRE(read_back.push(rate, dt) == Status::ok);
+    REQUIRE(scaling.push(rate, dt) == Status::ok);
+  }
+  const L theta = std::sqrt(squared_norm(test::widen(rate))) * static_cast<L>(dt);
+  const Quaternion<L> truth =
+      test::widen(start) * quaternion_exp(test::widen(rate) * (static_cast<L>(dt) * steps));
+  // The increment's own rounding (hold-end exponential: a few u·θ per step) and the
+  // accumulation's c1·u·θ + c2·u² per step.
+  const L bound = (CompensatedAccumulation::rounding_c1 + 4) * u_float * theta * steps +
+                  steps * CompensatedAccumulation::rounding_c2 * u_float * u_float;
+  const L e_read_back = angle_between(test::widen(read_back.attitude()), truth);
+  const L e_scaling = angle_between(test::widen(scaling.attitude()), truth);
+  INFO("read-back " << static_cast<double>(e_read_back) << " rad, scaling "
+                    << static_cast<double>(e_scaling) << " rad, bound "
+                    << static_cast<double>(bound) << " rad");
+  CHECK(e_read_back <= bound);
+  CHECK(e_scaling <= bound);
+  CHECK(std::fabs(test::norm_ld(read_back.attitude()) - 1) <= 6 * u_float);
+  CHECK(std::fabs(test::norm_ld(scaling.attitude()) - 1) <= 6 * u_float);
 }

@@ -8,6 +8,7 @@
 #include <cstring>
 #include <limits>
 #include <memory>
+#include <random>
 #include <string>
 
 #include "halfspin/core/exponential_map.hpp"
@@ -287,4 +288,90 @@ TEMPLATE_TEST_CASE("periodic and threshold policies fire when they say", "[propa
   REQUIRE(threshold.apply(off) == Quaternion<T>::identity());
   const Quaternion<T> near = T(1.0001) * Quaternion<T>::identity();  // 2e-4 < 1e-3
   REQUIRE(threshold.apply(near) == near);
+}
+
+TEMPLATE_TEST_CASE("scaling: the factor each policy's apply scales by, and f − 1 to a few u",
+                   "[propagation]", float, double) {
+  // The compensated accumulation scales its pair by Scaling{f, f − 1} instead of rounding it to
+  // one quaternion and reading apply's factor back (renormalization.hpp). Checked against long
+  // double: apply(q) = f·q to the policies' own rounding (per component ≤ 8u·f·‖q‖ first order,
+  // 4u exact), and minus_one within 4u·(f_LD + |f_LD − 1|) of the exact f_LD − 1, f_LD the factor
+  // the policy's formula gives in long double (1/‖q‖ exact; p·(3 − p²s)/2 first order, with the
+  // same p and s): an error in f − 1 changes only the norm the pair is pulled to. Inside the
+  // first-order range, minus_one is (1 − s)/2 bit for bit. Norm errors from 10⁻⁶ (a step) to
+  // 10³ (far off the unit sphere).
+  using T = TestType;
+  using L = long double;
+  const L u = static_cast<L>(std::numeric_limits<T>::epsilon()) / 2;
+  test::RandomRotations random(31);
+  std::mt19937 rng(37);
+  std::uniform_real_distribution<double> exponent(-6.0, 3.0);
+  std::bernoulli_distribution shrink(0.5);
+  L worst_apply = 0;
+  L worst_minus_one = 0;
+  for (int i = 0; i < 20000; ++i) {
+    const double e = std::pow(10.0, exponent(rng));
+    const T scale = static_cast<T>(shrink(rng) ? 1.0 / (1.0 + e) : 1.0 + e);
+    const Quaternion<T> q = scale * random.quaternion<T>();
+    const T s = squared_norm(q);
+    // First order.
+    {
+      FirstOrderRenormalization policy;
+      const Scaling<T> f = policy.scaling(q);
+      const Quaternion<T> kept = policy.apply(q);
+      const T p = detail::first_order_prescale(s);
+      const L pl = static_cast<L>(p);
+      const L f_ld = pl * (L(1.5) - L(0.5) * pl * pl * static_cast<L>(s));
+      const L gap_minus_one = std::fabs(static_cast<L>(f.minus_one) - (f_ld - 1));
+      const L minus_one_bound = 4 * u * (f_ld + std::fabs(f_ld - 1));
+      worst_minus_one = std::fmax(worst_minus_one, gap_minus_one / minus_one_bound);
+      REQUIRE(gap_minus_one <= minus_one_bound);
+      if (p == T(1)) {
+        REQUIRE(f.minus_one == T(0.5) - T(0.5) * s);
+      }
+      // apply's factor comes from ‖p·q‖² rounded (not p²·s): γ₄-close; its step is a Newton
+      // step, so within the range a relative difference in s of γ₄ moves f by ≤ γ₄·|s| / 2.
+      const L q_norm = test::norm_ld(test::widen(q));
+      const std::array<T, 4> kc{kept.w, kept.x, kept.y, kept.z};
+      const std::array<T, 4> qc{q.w, q.x, q.y, q.z};
+      for (std::size_t k = 0; k < 4; ++k) {
+        const L gap =
+            std::fabs(static_cast<L>(kc[k]) - static_cast<L>(f.factor) * static_cast<L>(qc[k]));
+        worst_apply = std::fmax(worst_apply, gap / (8 * u * f_ld * q_norm));
+        REQUIRE(gap <= 8 * u * f_ld * q_norm);
+      }
+    }
+    // Exact.
+    {
+      ExactRenormalization policy;
+      const Scaling<T> f = policy.scaling(q);
+      const Quaternion<T> kept = policy.apply(q);
+      const L q_norm = test::norm_ld(q);
+      const L f_ld = 1 / q_norm;
+      REQUIRE(std::fabs(static_cast<L>(f.minus_one) - (f_ld - 1)) <=
+              4 * u * (f_ld + std::fabs(f_ld - 1)));
+      const std::array<T, 4> kc{kept.w, kept.x, kept.y, kept.z};
+      const std::array<T, 4> qc{q.w, q.x, q.y, q.z};
+      for (std::size_t k = 0; k < 4; ++k) {
+        REQUIRE(std::fabs(static_cast<L>(kc[k]) -
+                          static_cast<L>(f.factor) * static_cast<L>(qc[k])) <= 4 * u);
+      }
+    }
+  }
+  test::report_worst(std::string("scaling: apply vs factor, of bound ") + test::type_name<T>(),
+                     worst_apply);
+  test::report_worst(std::string("scaling: minus_one, of bound ") + test::type_name<T>(),
+                     worst_minus_one);
+  // None, and the wrappers: the same steps counted as apply counts them.
+  CHECK(NoRenormalization{}.scaling(Quaternion<T>{T(2), T(0), T(0), T(0)}).minus_one == T(0));
+  PeriodicRenormalization<ExactRenormalization> periodic;
+  periodic.period = 3;
+  const Quaternion<T> twice{T(2), T(0), T(0), T(0)};
+  CHECK(periodic.scaling(twice).factor == T(1));
+  CHECK(periodic.scaling(twice).factor == T(1));
+  CHECK(periodic.scaling(twice).factor == T(0.5));
+  CHECK(periodic.scaling(twice).minus_one == T(0));
+  ThresholdRenormalization<T, ExactRenormalization> threshold;
+  CHECK(threshold.scaling(twice).factor == T(0.5));
+  CHECK(threshold.scaling(Quaternion<T>{T(1), T(0), T(0), T(0)}).minus_one == T(0));
 }

@@ -39,7 +39,7 @@
 // arithmetic or comparison and no call; the same in bench/bench_batch.cpp, a unit with many
 // instantiations (before the flattening g++ left the compensated lanes scalar there). The packed
 // add/sub/mul/div count per vector of lanes equals the flop count below (float, first-order: 103
-// plain, 222 compensated). N = 1 is scalar code, naturally.
+// plain, 220 compensated). N = 1 is scalar code, naturally.
 //
 // The series and its accuracy (derivation). With θ = |Δθ|,
 //     cos(θ/2)   =   Σ_k (−1)^k (θ/2)^{2k}/(2k)!
@@ -81,14 +81,15 @@
 // its sources and its rounding bound). Each lane-step is the scalar policy's: p = q_hi ⊗ δ, then
 // DWPlusFP (TwoSum, an addition, Fast2Sum) per component of the pair; the attitude q_hi + q_lo
 // rounded once goes through the renormalization, and the factor 1 + κ it applied is read back
-// from the largest component and added to the pair as κ·q_hi (a double-word addition again).
+// from the sums of the components' magnitudes and added to the pair as κ·q_hi (a double-word
+// addition again).
 // The scalar read-back rescales both words instead when |κ| > 2⁻¹⁰ (far from the unit sphere).
 // That can happen here: set_lane and the constructor take any q (as Propagator's constructor and
 // reset do; normalizing there would break the agreement above), and the first step from a q of
 // norm 1000 or 1/1000 reads back κ ≈ −1 or 999. After one renormalized step ‖q‖ − 1 is a few u,
 // so |κ| stays ≪ 2⁻¹⁰ and the far path is never selected again (and never without
 // renormalization, where κ = 0). Both paths are computed every step and one is selected per word
-// (CompensatedAccumulation::with_attitude_branch_free): 21 flops and 8 selects per lane-step for
+// (CompensatedAccumulation::with_attitude_branch_free): 24 flops and 8 selects per lane-step for
 // a path that matters only on a lane's first step, the price of straight-line code. lane(i)
 // returns q_hi + q_lo rounded, lane_state(i) both words; w(), x(), y(), z() are the high words.
 //
@@ -108,12 +109,13 @@
 //                (validation 7 and finiteness 1 comparisons; the series' range 1 comparison and
 //                2 selects; the store 7 selects) and the renormalization's 6 integer/bit ops.
 //   compensated  validation 7, series 15, scaling Δθ 3, q_hi ⊗ δ 28, four DWPlusFP 40, the
-//                rounded attitude 4, renormalization 36/41, read-back 71 (3 differences for the
-//                largest component, κ 2 with a division, the range test 1, κ·q_hi and its four
-//                DWPlusFP 44, the far path 21 with a division), Kahan sum 4, finiteness 14 (the
-//                new pair and the renormalized attitude): 222 (float) / 227 (double), 2.2× the
-//                plain lane; plus the plain lane's comparisons and selects, 4 more selects for the
-//                low words, and the read-back's 14 sign-bit selects and 7 sign clears.
+//                rounded attitude 4, renormalization 36/41, read-back 69 (the sums of magnitudes
+//                and their differences 10, a reciprocal and κ 2, the range test 1, κ·q_hi and its
+//                four DWPlusFP with Fast2Sum 32, the far path 24: the factor 4 and the scaling
+//                20), Kahan sum 4, finiteness 14 (the new pair and the renormalized attitude):
+//                220 (float) / 225 (double), 2.1× the plain lane; plus the plain lane's
+//                comparisons and selects, 4 more selects for the low words, and the read-back's
+//                8 sign-bit selects and 9 sign clears.
 // Memory, all inside the object (no heap): the state double-buffered, 12·N scalars plain (w, x,
 // y, z, elapsed-time sum and carry) and 20·N compensated (the low words add 4·N per copy), 4·N of
 // input, N accept flags and N 64-bit rejection counters, plus under 100 bytes of limits and
@@ -249,6 +251,10 @@ class BatchPropagator {
                     std::is_same<Accumulation, CompensatedAccumulation>::value,
                 "the batch path supports PlainAccumulation and CompensatedAccumulation");
   static constexpr bool compensated = std::is_same<Accumulation, CompensatedAccumulation>::value;
+  // Whether the lanes renormalize by the policy's scale (stepper_traits.hpp), as the scalar
+  // Propagator with the same policies does.
+  static constexpr bool by_scaling =
+      renormalizes_by_scaling<Accumulation, Renormalization, T>::value;
 
  public:
   using scalar = T;
@@ -408,8 +414,11 @@ class BatchPropagator {
       const LaneAttitudeState q = load(from, i);
       const LaneAttitudeState advanced =
           Accumulation::advanced(q, Quaternion<T>{c_minus_one, s * ax, s * ay, s * az});
-      const Quaternion<T> kept = Renormalization{}.apply(Accumulation::attitude(advanced));
-      const LaneAttitudeState next_state = Accumulation::with_attitude_branch_free(advanced, kept);
+      const Quaternion<T> next = Accumulation::attitude(advanced);
+      // The compensated lanes scale the pair by the policy's factor (with_scaling, without a
+      // branch), the plain ones keep the policy's result.
+      const Quaternion<T> kept = by_scaling ? next : Renormalization{}.apply(next);
+      const LaneAttitudeState next_state = renormalized(advanced, next, kept);
       // Component by component, and for the plain policy straight from `kept` (which is what its
       // with_attitude returns): g++ 12 leaves a copy of a whole Quaternion<double> as one memory
       // access it cannot vectorize.
@@ -429,11 +438,9 @@ class BatchPropagator {
       // that g++ does not sink their computation into a branch it then cannot vectorize.
       T all = ((next_w + next_x) + (next_y + next_z)) + (total + next_carry);
       if constexpr (compensated) {
-        // The renormalized attitude too (the scalar path checks it): the read-back uses one of
-        // its components, picked by a select, and g++ would otherwise compute each only where
-        // it is picked, in a branch.
-        all += ((next_state.lo.w + next_state.lo.x) + (next_state.lo.y + next_state.lo.z)) +
-               ((kept.w + kept.x) + (kept.y + kept.z));
+        // The low words too (the scalar path checks the renormalized pair's attitude), so that
+        // g++ computes both outcomes of the scaling's select before it.
+        all += (next_state.lo.w + next_state.lo.x) + (next_state.lo.y + next_state.lo.z);
       }
       bool ok = valid;
       ok &= all - all == T(0);
@@ -499,6 +506,17 @@ class BatchPropagator {
   using LaneState = detail::BatchLaneState<T, N, compensated>;
 
   // Lane i of a buffer as the policy's state.
+  // The lane's state after renormalization: scaled by the policy's factor, or from the policy's
+  // result kept (Propagator::commit_if_usable, without a branch).
+  static constexpr LaneAttitudeState renormalized(const LaneAttitudeState& advanced,
+                                                  const Quaternion<T>& next,
+                                                  const Quaternion<T>& kept) noexcept {
+    if constexpr (by_scaling) {
+      return Accumulation::with_scaling_branch_free(advanced, Renormalization{}.scaling(next));
+    } else {
+      return Accumulation::with_attitude_branch_free(advanced, kept);
+    }
+  }
   static constexpr LaneAttitudeState load(const LaneState& s, std::size_t i) noexcept {
     if constexpr (compensated) {
       return {{s.w[i], s.x[i], s.y[i], s.z[i]}, {s.low_w[i], s.low_x[i], s.low_y[i], s.low_z[i]}};

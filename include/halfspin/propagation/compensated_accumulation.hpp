@@ -26,13 +26,15 @@
 //   (2γ₄/u → 8, plus 1; |q| ≈ 1), on top of the increment's own rounding (the stepper's; relative
 //   to |δ| too, since δ is formed without cancellation).
 //   A renormalization (below) adds fl(κ̂·q_hi) where scaling the pair would add κ̂·(q_hi + q_lo):
-//   the rounding of the product (u·|κ̂|), the missing κ̂·q_lo (≤ u·|κ̂|) and the four additions
-//   (2u²) move the direction by at most 2u·|κ̂| + 2u²; an error in κ̂ itself is parallel to the
-//   attitude and changes only its norm. |κ̂| is the norm error the policy corrects: what the
-//   previous renormalization left (its own rounding, a few u: |q|² in γ₄, the factor, the
-//   read-back; at most 8u for every policy of renormalization.hpp) plus the step's norm change,
-//   plus the policy's rounding of this factor (again at most 8u): |κ̂| ≤ 16u + (norm change).
-//   As a rotation angle each is at most twice as much, and |δ| ≤ θ/2 for a step that rotates by θ
+//   the rounding of the product (u·|κ̂|), the missing κ̂·q_lo (≤ u·|κ̂|) and the four double-word
+//   additions (2u²; DWPlusFP with Fast2Sum for TwoSum, the same pair since |κ̂| ≤ 2⁻¹⁰) move the
+//   direction by at most 2u·|κ̂| + 2u²; an error in κ̂ itself is parallel to the attitude and changes
+//   only its norm. |κ̂| is the norm error the policy corrects: what the previous renormalization
+//   left (its own rounding, a few u: |q|² in γ₄, the factor, the read-back of the factor, ≤ 2u +
+//   4u·|κ| (with_attitude); at most 8u for every policy of renormalization.hpp) plus the step's
+//   norm change, plus the policy's rounding of this factor (again at most 8u): |κ̂| ≤ 16u + (norm
+//   change). As a rotation angle each is at most twice as much, and |δ| ≤ θ/2 for a step that
+//   rotates by θ
 //   (|exp(φ/2) − 1| = 2 sin(θ/4)): per step ≤ c1·u·2|δ| + c2·u² + 4u·(norm change) (rad) with
 //   c1 = 9 and c2 = 4 + 4 + 64 = 72 (4 without renormalization), that is ≤ c1·u·θ + c2·u² for the
 //   exponential-map family; over N steps ≤ c1·u·(angle traversed) + N·c2·u², instead of the
@@ -54,10 +56,12 @@
 // builds set (tests/target replays compensated configurations on both). No libm call, no branch,
 // no heap.
 
+#include <cmath>
 #include <cstdint>
 #include <type_traits>
 
 #include "halfspin/core/quaternion.hpp"
+#include "halfspin/propagation/renormalization.hpp"
 
 namespace halfspin {
 
@@ -91,6 +95,15 @@ constexpr SumAndError<T> fast_two_sum(T a, T b) noexcept {
 template <class T>
 constexpr SumAndError<T> double_word_plus(T hi, T lo, T y) noexcept {
   const SumAndError<T> s = two_sum(hi, y);
+  const T v = lo + s.error;
+  return fast_two_sum(s.sum, v);
+}
+
+// double_word_plus when |y| ≤ |hi| (or hi = 0): Fast2Sum gives TwoSum's pair there, so the
+// result is double_word_plus's bit for bit, in 7 flops instead of 10.
+template <class T>
+constexpr SumAndError<T> double_word_plus_smaller(T hi, T lo, T y) noexcept {
+  const SumAndError<T> s = fast_two_sum(hi, y);
   const T v = lo + s.error;
   return fast_two_sum(s.sum, v);
 }
@@ -189,79 +202,81 @@ struct CompensatedAccumulation {
   static constexpr Quaternion<T> attitude(const State<T>& s) noexcept {
     return s.hi + s.lo;
   }
-  // The state scaled by 1 + kappa (renormalization): kappa·q_hi added like an increment.
+  // The state scaled by 1 + kappa, |kappa| ≤ 2⁻¹⁰ (renormalization): κ·q_hi added to the pair
+  // like an increment, by DWPlusFP with Fast2Sum in place of TwoSum (|q_hi| ≥ |κ·q_hi|, where the
+  // two give the same pair), so bit for bit the double-word addition. 32 flops.
   template <class T>
   static constexpr State<T> scaled(const State<T>& s, T kappa) noexcept {
-    State<T> r = s;
-    detail::add_to_pair(r.hi, r.lo, kappa * s.hi);
-    return r;
+    const Quaternion<T> t = kappa * s.hi;
+    const detail::SumAndError<T> w = detail::double_word_plus_smaller(s.hi.w, s.lo.w, t.w);
+    const detail::SumAndError<T> x = detail::double_word_plus_smaller(s.hi.x, s.lo.x, t.x);
+    const detail::SumAndError<T> y = detail::double_word_plus_smaller(s.hi.y, s.lo.y, t.y);
+    const detail::SumAndError<T> z = detail::double_word_plus_smaller(s.hi.z, s.lo.z, t.z);
+    return {{w.sum, x.sum, y.sum, z.sum}, {w.error, x.error, y.error, z.error}};
   }
   // The state after the propagator's renormalization policy turned attitude(s) = a into kept, a
   // positive multiple f·a of it (every policy of renormalization.hpp scales). The factor is read
-  // from the largest component a_m of a (|a_m| ≥ ‖a‖/2): κ = (kept_m − a_m)/a_m = f − 1, whose
-  // numerator is exact when f is within a factor 2 of 1 (Sterbenz). Near the unit sphere
-  // (|κ| ≤ 2⁻¹⁰, every step of a propagator that renormalizes) κ·q_hi is added to the pair like
-  // an increment: the direction moves by O(u·|κ|) only, and an error in κ changes only the norm,
-  // so the policy's own rounding of kept (u per component, a direction error in the plain policy)
-  // does not reach the attitude. Far from it (an attitude or a step far off the unit sphere,
-  // where adding −(1 − f)·q_hi would cancel) both words are multiplied by f and the pair is
-  // renormalized: a direction error of order u, once. Cost near the unit sphere: 3 comparisons,
-  // a subtraction, a division and scaled()'s 44 flops.
+  // back from the sums of magnitudes, S_a = Σ|a_i| ≥ ‖a‖ > 0 and S_k = Σ|kept_i|:
+  // κ = Σ(|kept_i| − |a_i|)/S_a = f − 1 and f = S_k/S_a (one division: r = 1/S_a, then two
+  // products). Each difference is exact when f is within a factor 2 of 1 (Sterbenz), so κ's
+  // relative error is a few u, plus the policy's own rounding of kept (ε_i, at most 2u per
+  // component for the policies of renormalization.hpp), which enters as their mean weighted by
+  // |a_i|. Near the unit sphere (|κ| ≤ 2⁻¹⁰, every step of a propagator that renormalizes)
+  // κ·q_hi is added to the pair like an increment: the direction moves by O(u·|κ|) only, and an
+  // error in κ changes only the norm, so the policy's own rounding of kept (u per component, a
+  // direction error in the plain policy) does not reach the attitude. Far from it (an attitude or
+  // a step far off the unit sphere, where adding −(1 − f)·q_hi would cancel) both words are
+  // multiplied by f and the pair is renormalized: a direction error of order u, once. Cost near
+  // the unit sphere: 8 magnitudes, 4 subtractions, 6 additions, a division, a product and
+  // scaled()'s 32 flops, with no comparison but the range test (reading κ from the largest
+  // component instead took a search of 3 compare-and-selects: 45 more Cortex-M4F cycles).
   template <class T>
   static constexpr State<T> with_attitude(const State<T>& s, const Quaternion<T>& kept) noexcept {
-    const Quaternion<T> a = attitude(s);
-    T am = a.w;
-    T km = kept.w;
-    const auto take_if_larger = [&am, &km](T ai, T ki) noexcept {
-      if ((ai < T(0) ? -ai : ai) > (am < T(0) ? -am : am)) {
-        am = ai;
-        km = ki;
-      }
-    };
-    take_if_larger(a.x, kept.x);
-    take_if_larger(a.y, kept.y);
-    take_if_larger(a.z, kept.z);
-    const T kappa = (km - am) / am;
-    if (kappa <= T(1.0 / 1024) && kappa >= T(-1.0 / 1024)) {
-      return scaled(s, kappa);
+    return with_scaling(s, read_back(attitude(s), kept));
+  }
+  // The state scaled by f = scale.factor (a renormalization policy's `scaling` of attitude(s),
+  // renormalization.hpp), without rounding the pair to one quaternion and reading f back: near the
+  // unit sphere (|f − 1| ≤ 2⁻¹⁰) scale.minus_one·q_hi is added to the pair (scaled), far from it
+  // both words are multiplied by f (rescaled). The propagator takes this path when its policy
+  // has `scaling`; the rounding analysis is with_attitude's with κ = scale.minus_one. Cost near
+  // the unit sphere: the range test and scaled()'s 32 flops.
+  template <class T>
+  static constexpr State<T> with_scaling(const State<T>& s, const Scaling<T>& scale) noexcept {
+    if (scale.minus_one <= T(1.0 / 1024) && scale.minus_one >= T(-1.0 / 1024)) {
+      return scaled(s, scale.minus_one);
     }
-    return rescaled(s, km / am);
+    return rescaled(s, scale.factor);
   }
   // with_attitude without a branch, for loops that must vectorize (the BatchPropagator lanes):
-  // both outcomes (scaled() and rescaled()) are computed and every choice is a select on a sign
-  // bit. The tests are with_attitude's, written as signs of exact differences: |a_i| > |a_m| as
-  // |a_m| − |a_i| < 0 and |κ| > 2⁻¹⁰ as 2⁻¹⁰ − |κ| < 0 (for finite operands a difference rounds to
-  // the sign of the exact one, and is +0 when they are equal). So the result is with_attitude's
-  // bit for bit whenever that is finite, and not finite when it is not (a NaN or an infinity in
-  // attitude(s) or kept reaches every outcome; only the NaN's sign bit, which the two forms may
-  // read differently, is left to chance). Types without a same-size unsigned integer (long
-  // double) take with_attitude. Cost: the near-unit path's flops (above) plus a division and
-  // rescaled()'s 20 flops, 7 sign clears, 4 sign-bit masks and 14 selects (and, and-not, or)
-  // instead of comparisons. A loop that calls it must inline it to vectorize; clang++ 14 judges
-  // it too costly to inline by its own heuristics, so BatchPropagator flattens its lane loop.
+  // both outcomes (scaled() and rescaled()) are computed and the choice is a select on a sign
+  // bit. The range test is with_attitude's, written as the sign of an exact difference: |κ| >
+  // 2⁻¹⁰ as 2⁻¹⁰ − |κ| < 0 (for finite operands a difference rounds to the sign of the exact one,
+  // and is +0 when they are equal). So the result is with_attitude's bit for bit whenever that is
+  // finite, and not finite when it is not (a NaN or an infinity in attitude(s) or kept reaches
+  // every outcome; only the NaN's sign bit, which the two forms may read differently, is left to
+  // chance). Types without a same-size unsigned integer (long double) take with_attitude. Cost:
+  // the near-unit path's flops (above) plus rescaled()'s 20 flops, a sign clear, a sign-bit mask
+  // and 8 selects (and, and-not, or). A loop that calls it must inline it to vectorize; clang++ 14
+  // judges it too costly to inline by its own heuristics, so BatchPropagator flattens its lane
+  // loop.
   template <class T>
   static constexpr State<T> with_attitude_branch_free(const State<T>& s,
                                                       const Quaternion<T>& kept) noexcept {
+    return with_scaling_branch_free(s, read_back(attitude(s), kept));
+  }
+  // with_scaling without a branch, in the same way (the result is with_scaling's bit for bit
+  // whenever that is finite).
+  template <class T>
+  static constexpr State<T> with_scaling_branch_free(const State<T>& s,
+                                                     const Scaling<T>& scale) noexcept {
     if constexpr (!detail::SignSelectBits<T>::available) {
-      return with_attitude(s, kept);
+      return with_scaling(s, scale);
     } else {
       using detail::magnitude_bits;
       using detail::select_if_sign;
-      const Quaternion<T> a = attitude(s);
-      T am = a.w;
-      T km = kept.w;
-      const auto take_if_larger = [&am, &km](T ai, T ki) noexcept {
-        const T key = magnitude_bits(am) - magnitude_bits(ai);  // < 0 iff |a_i| > |a_m|
-        am = select_if_sign(key, ai, am);
-        km = select_if_sign(key, ki, km);
-      };
-      take_if_larger(a.x, kept.x);
-      take_if_larger(a.y, kept.y);
-      take_if_larger(a.z, kept.z);
-      const T kappa = (km - am) / am;
-      const T far_key = T(1.0 / 1024) - magnitude_bits(kappa);  // < 0 iff |κ| > 2⁻¹⁰
-      const State<T> near = scaled(s, kappa);
-      const State<T> far = rescaled(s, km / am);
+      const T far_key = T(1.0 / 1024) - magnitude_bits(scale.minus_one);  // < 0 iff |κ| > 2⁻¹⁰
+      const State<T> near = scaled(s, scale.minus_one);
+      const State<T> far = rescaled(s, scale.factor);
       return {{select_if_sign(far_key, far.hi.w, near.hi.w),
                select_if_sign(far_key, far.hi.x, near.hi.x),
                select_if_sign(far_key, far.hi.y, near.hi.y),
@@ -274,6 +289,17 @@ struct CompensatedAccumulation {
   }
 
  private:
+  // The factor f = 1 + κ that turned a into kept (with_attitude), as f and κ.
+  template <class T>
+  static constexpr Scaling<T> read_back(const Quaternion<T>& a,
+                                        const Quaternion<T>& kept) noexcept {
+    using std::fabs;
+    const T aw = fabs(a.w), ax = fabs(a.x), ay = fabs(a.y), az = fabs(a.z);
+    const T kw = fabs(kept.w), kx = fabs(kept.x), ky = fabs(kept.y), kz = fabs(kept.z);
+    const T difference = ((kw - aw) + (kx - ax)) + ((ky - ay) + (kz - az));
+    const T reciprocal = T(1) / ((aw + ax) + (ay + az));
+    return {((kw + kx) + (ky + kz)) * reciprocal, difference * reciprocal};
+  }
   // Both words multiplied by f and the pair renormalized with Fast2Sum (|f·hi| ≥ |f·lo|): the
   // far-from-unit case of with_attitude. 20 flops.
   template <class T>

@@ -4,7 +4,13 @@
 // names a rotation (every conversion here is scale-invariant or divides by ‖q‖²), but the drift
 // scales vectors rotated with `rotate` and grows without bound. Each policy is a small object the
 // propagator owns (some count steps); `apply` takes the post-step attitude and returns the one to
-// keep. Cost per step in flops is noted with each.
+// keep. Every policy here only scales q, and `scaling` returns that scale as the pair
+// Scaling{f, f − 1} (f − 1 computed without cancellation where the policy can), standing in for
+// `apply` where the propagator holds the attitude as more than one quaternion: the compensated
+// accumulation (compensated_accumulation.hpp) multiplies its pair by f instead of rounding it to
+// one quaternion, scaling it and reading the factor back. A policy of your own needs only
+// `apply`; without `scaling` the factor is read back from apply's result. Cost per step in flops
+// is noted with each.
 //
 // How far ‖q‖ strays under each policy (the bounds computed by norm_error_bound at the end of this
 // header; model of Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., §2.2–3.1: each
@@ -42,11 +48,22 @@
 #include <cmath>
 #include <cstdint>
 #include <limits>
+#include <utility>
 
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/scalar_traits.hpp"
 
 namespace halfspin {
+
+// The factor a policy scales an attitude by: factor = f and minus_one = f − 1, both to a few
+// u·(f + |f − 1|) (minus_one not as 1 − f rounded from a rounded f where the policy can do
+// better: first order inside its range gives it exactly from the rounded ‖q‖²). An error in
+// either changes only the norm the attitude is pulled to, not its direction.
+template <class T>
+struct Scaling {
+  T factor;
+  T minus_one;
+};
 
 // Leaves q as it is: for Lie-group steppers that stay on the unit sphere to roundoff, and for
 // measuring drift. Cost 0.
@@ -56,14 +73,25 @@ struct NoRenormalization {
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     return q;
   }
+  template <class T>
+  constexpr Scaling<T> scaling(const Quaternion<T>& /*q*/) noexcept {
+    return {T(1), T(0)};
+  }
 };
 
-// q/‖q‖ every step: exact to rounding. Cost 7 + one square root + 4 divisions.
+// q/‖q‖ every step: exact to rounding. Cost 7 + one square root + 4 divisions (scaling: 7 + one
+// square root + 1 division + 1).
 struct ExactRenormalization {
   static constexpr const char* name = "exact";
   template <class T>
   Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     return normalized(q);
+  }
+  // f = 1/‖q‖ (relative error u beyond the norm's), f − 1 exact from it (Sterbenz, f in [½, 2]).
+  template <class T>
+  Scaling<T> scaling(const Quaternion<T>& q) noexcept {
+    const T f = T(1) / norm(q);
+    return {f, f - T(1)};
   }
 };
 
@@ -201,6 +229,18 @@ struct FirstOrderRenormalization {
     const T factor = T(1.5) - T(0.5) * squared_norm(r);
     return factor * r;
   }
+  // The same factor, p·(3 − p²·s)/2 with s = fl(‖q‖²) and p the prescale (1 inside the range,
+  // where p²·s = s exactly and the step is apply's). f − 1 = p·(1 − p²s)/2 + (p − 1): inside the
+  // range (1 − s)/2, exact (Sterbenz and a power of 2), so the compensated pair's norm is
+  // corrected by the Newton step itself, with no rounding of q. Branch-free, as apply. Cost: 7 +
+  // the prescale + 8 (apply: 7 + the prescale + 15).
+  template <class T>
+  constexpr Scaling<T> scaling(const Quaternion<T>& q) noexcept {
+    const T s = squared_norm(q);
+    const T p = detail::first_order_prescale(s);
+    const T half_defect = T(0.5) - T(0.5) * ((p * p) * s);
+    return {p * (T(1) + half_defect), p * half_defect + (p - T(1))};
+  }
 };
 
 // Applies Inner every `period` steps and leaves q alone otherwise (a CPU-budget trade: the
@@ -221,6 +261,17 @@ struct PeriodicRenormalization {
     }
     return q;
   }
+  // Present when Inner has it (I = Inner makes the test depend on the call, so that a missing
+  // member removes this one instead of failing).
+  template <class T, class I = Inner>
+  constexpr auto scaling(const Quaternion<T>& q) noexcept
+      -> decltype(std::declval<I&>().scaling(q)) {
+    if (++count >= period) {
+      count = 0;
+      return static_cast<I&>(inner).scaling(q);
+    }
+    return {T(1), T(0)};
+  }
 };
 
 // Applies Inner only when | ‖q‖² − 1 | exceeds `threshold` (dimensionless; | ‖q‖ − 1 | is about
@@ -234,6 +285,16 @@ struct ThresholdRenormalization {
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     const T e = squared_norm(q) - T(1);
     return (e > threshold || e < -threshold) ? inner.apply(q) : q;
+  }
+  // Present when Inner has it (as PeriodicRenormalization::scaling).
+  template <class I = Inner>
+  constexpr auto scaling(const Quaternion<T>& q) noexcept
+      -> decltype(std::declval<I&>().scaling(q)) {
+    const T e = squared_norm(q) - T(1);
+    if (e > threshold || e < -threshold) {
+      return static_cast<I&>(inner).scaling(q);
+    }
+    return {T(1), T(0)};
   }
 };
 

@@ -167,6 +167,20 @@ struct PlainAccumulation {
   }
 };
 
+// Whether the propagator renormalizes state of Accumulation through the policy's scale (the
+// policy's `scaling(q)` and the accumulation's `with_scaling(state, scale)`: both present, as for
+// CompensatedAccumulation with every policy of renormalization.hpp) rather than through its result
+// (`apply(q)`, then `with_attitude(state, kept)`).
+template <class Accumulation, class Renormalization, class T, class = void>
+struct renormalizes_by_scaling : std::false_type {};
+template <class Accumulation, class Renormalization, class T>
+struct renormalizes_by_scaling<
+    Accumulation, Renormalization, T,
+    std::void_t<decltype(Accumulation::with_scaling(
+        std::declval<const typename Accumulation::template State<T>&>(),
+        std::declval<Renormalization&>().scaling(std::declval<const Quaternion<T>&>())))>>
+    : std::true_type {};
+
 // The input a stepper's increment takes for scalar T: its sample window (rate_function steppers
 // take a callable instead and have no window type).
 template <class Stepper, class T>
