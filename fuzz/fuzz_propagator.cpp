@@ -182,12 +182,13 @@ std::uint64_t rejection_counter(const PropagationCounters& c, Status s) {
   return 0;
 }
 
-// The compensated accumulation (compensated_accumulation.hpp) reads the policy's scale back from
-// the largest component (a subtraction and a division: relative error ≤ 2u on the scale, which
-// becomes the norm's; far from the unit sphere both words are scaled and renormalized, ≤ 2u),
-// adds κ·q_hi with four double-word additions (≤ 2u² each), and its public attitude
-// fl(q_hi + q_lo) rounds once more (≤ u): 6 ε on top of the plain tolerance, with margin. Its
-// per-step drift without a policy is below the plain one (it rounds q ⊗ δ, of size |δ|, not q).
+// The compensated accumulation (compensated_accumulation.hpp) scales its pair by the policy's
+// factor (renormalization.hpp `scaling`: f and f − 1 to a few u·(f + |f − 1|), at most as far
+// from the norm the policy's apply reaches as apply's own rounding; far from the unit sphere both
+// words are scaled and renormalized, ≤ 2u), adds κ·q_hi with four double-word additions (≤ 2u²
+// each), and its public attitude fl(q_hi + q_lo) rounds once more (≤ u): 6 ε on top of the plain
+// tolerance, with margin. Its per-step drift without a policy is below the plain one (it rounds
+// q ⊗ δ, of size |δ|, not q).
 template <class T>
 constexpr T compensated_extra = T(6) * eps<T>;
 

@@ -76,11 +76,12 @@ foreach(entry IN LISTS HALFSPIN_FOOTPRINT_STEPPERS)
     endforeach()
   endforeach()
 endforeach()
-# The compensated accumulation (compensated_accumulation.hpp) on a few steppers, float: its
-# flash and, in the step images, its cycles (increment + accumulation, reported by
+# The compensated accumulation (compensated_accumulation.hpp) on a few steppers, float, the two
+# cheapest among them: its flash and its cycles, per step in the step images (increment +
+# accumulation) and per sample in the propagator images (reported by
 # bench/target/cycle_trace.py as "<stepper>+compensated").
-foreach(stepper_name IN ITEMS exponential_map_hold_end coning_2_sample coning_3_sample magnus_4
-                             runge_kutta_4_sampled commutator_free_4)
+foreach(stepper_name IN ITEMS exponential_map_hold_end coning_1_sample coning_2_sample
+                             coning_3_sample magnus_4 runge_kutta_4_sampled commutator_free_4)
   list(FIND _catalogue_names ${stepper_name} at)
   if(at EQUAL -1)
     message(FATAL_ERROR "footprint.cmake: ${stepper_name} is not in the stepper catalogue")
