@@ -505,7 +505,6 @@ class BatchPropagator {
   // conditional store, which SSE2 has no vector form for.
   using LaneState = detail::BatchLaneState<T, N, compensated>;
 
-  // Lane i of a buffer as the policy's state.
   // The lane's state after renormalization: scaled by the policy's factor, or from the policy's
   // result kept (Propagator::commit_if_usable, without a branch).
   static constexpr LaneAttitudeState renormalized(const LaneAttitudeState& advanced,
@@ -517,6 +516,7 @@ class BatchPropagator {
       return Accumulation::with_attitude_branch_free(advanced, kept);
     }
   }
+  // Lane i of a buffer as the policy's state.
   static constexpr LaneAttitudeState load(const LaneState& s, std::size_t i) noexcept {
     if constexpr (compensated) {
       return {{s.w[i], s.x[i], s.y[i], s.z[i]}, {s.low_w[i], s.low_x[i], s.low_y[i], s.low_z[i]}};

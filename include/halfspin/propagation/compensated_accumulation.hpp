@@ -34,11 +34,10 @@
 //   4u·|κ| (with_attitude); at most 8u for every policy of renormalization.hpp) plus the step's
 //   norm change, plus the policy's rounding of this factor (again at most 8u): |κ̂| ≤ 16u + (norm
 //   change). As a rotation angle each is at most twice as much, and |δ| ≤ θ/2 for a step that
-//   rotates by θ
-//   (|exp(φ/2) − 1| = 2 sin(θ/4)): per step ≤ c1·u·2|δ| + c2·u² + 4u·(norm change) (rad) with
-//   c1 = 9 and c2 = 4 + 4 + 64 = 72 (4 without renormalization), that is ≤ c1·u·θ + c2·u² for the
-//   exponential-map family; over N steps ≤ c1·u·(angle traversed) + N·c2·u², instead of the
-//   plain policy's N·c·u (bounds/roundoff_floor.hpp (c) adds the increment's own rounding).
+//   rotates by θ (|exp(φ/2) − 1| = 2 sin(θ/4)): per step ≤ c1·u·2|δ| + c2·u² + 4u·(norm change)
+//   (rad) with c1 = 9 and c2 = 4 + 4 + 64 = 72 (4 without renormalization), that is ≤ c1·u·θ +
+//   c2·u² for the exponential-map family; over N steps ≤ c1·u·(angle traversed) + N·c2·u², instead
+//   of the plain policy's N·c·u (bounds/roundoff_floor.hpp (c) adds the increment's own rounding).
 //   A renormalization policy that runs less often corrects the sum of the steps' norm changes at
 //   once, so the total of 4u·|κ̂| over a run is the same. The bound assumes the attitude stays
 //   within 2⁻¹⁰ of the unit sphere (the branch below that scales both words is not covered).
@@ -257,7 +256,7 @@ struct CompensatedAccumulation {
   // and is +0 when they are equal). So the result is with_attitude's bit for bit whenever that is
   // finite, and not finite when it is not (a NaN or an infinity in attitude(s) or kept reaches
   // every outcome; only the NaN's sign bit, which the two forms may read differently, is left to
-  // chance). Types without a same-size unsigned integer (long double) take with_attitude. Cost:
+  // chance). Types without a same-size unsigned integer (long double) take with_scaling. Cost:
   // the near-unit path's flops (above) plus rescaled()'s 20 flops, a sign clear, a sign-bit mask
   // and 8 selects (and, and-not, or). A loop that calls it must inline it to vectorize; clang++ 14
   // judges it too costly to inline by its own heuristics, so BatchPropagator flattens its lane
