@@ -53,10 +53,10 @@ template <class T>
 MotionDescription<T> describe_oscillation() {
   // ω = 2πfA·cos(2πft + phase)·n: a sinusoid of amplitude 2πfA along n.
   MotionDescription<T> d{};
-  d.vibration.count = 1;
-  d.vibration.component[0].amplitude =
-      test::narrow<T>(oscillation.axis * (two_pi * oscillation.frequency * oscillation.amplitude));
-  d.vibration.component[0].frequency_hz = static_cast<T>(oscillation.frequency);
+  d.vibration.add(VibrationLine<T>::along_axis(
+      static_cast<T>(oscillation.frequency),
+      test::narrow<T>(oscillation.axis * (two_pi * oscillation.frequency * oscillation.amplitude)),
+      static_cast<T>(oscillation.phase)));
   return d;
 }
 

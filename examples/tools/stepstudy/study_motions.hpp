@@ -122,10 +122,10 @@ inline bool make_study_motion(std::string_view name, StudyMotion& out) {
     s.truth = erase(oscillation_motion<LD>(), [d](double t) { return d.rate(t); });
     const double peak = 2.0 * pi<double> * d.frequency * d.amplitude;
     s.summary = "single-axis oscillation 0.15 rad at 2.5 Hz (phase 0.3 rad) about (2, 3, 6)/7";
-    s.description.vibration.count = 1;
-    s.description.vibration.component[0].amplitude = d.axis * peak;
-    s.description.vibration.component[0].frequency_hz = d.frequency;
-    s.description_summary = "VibrationSpec: one sinusoid, " + format("%.4f rad/s at 2.5 Hz", peak);
+    s.description.vibration.add(
+        VibrationLine<double>::along_axis(d.frequency, d.axis * peak, d.phase));
+    s.description_summary =
+        "VibrationSpec: one line along the axis, " + format("%.4f rad/s at 2.5 Hz", peak);
     s.default_step_min = 1e-3;
     s.default_step_max = 5e-2;
   } else if (name == "coning") {
@@ -172,21 +172,7 @@ inline bool make_study_motion(std::string_view name, StudyMotion& out) {
 // The description in scalar T (the bounds' roundoff floor is the scalar's).
 template <class T>
 MotionDescription<T> description_in(const MotionDescription<double>& d) {
-  MotionDescription<T> r{};
-  for (std::size_t k = 0; k < 6; ++k) {
-    r.maneuver.derivative[k] = static_cast<T>(d.maneuver.derivative[k]);
-  }
-  r.vibration.count = d.vibration.count;
-  for (std::size_t i = 0; i < d.vibration.component.size(); ++i) {
-    const auto& c = d.vibration.component[i];
-    r.vibration.component[i].amplitude = {static_cast<T>(c.amplitude.x),
-                                          static_cast<T>(c.amplitude.y),
-                                          static_cast<T>(c.amplitude.z)};
-    r.vibration.component[i].frequency_hz = static_cast<T>(c.frequency_hz);
-  }
-  r.coning.half_angle = static_cast<T>(d.coning.half_angle);
-  r.coning.frequency_hz = static_cast<T>(d.coning.frequency_hz);
-  return r;
+  return d.converted<T>();
 }
 
 }  // namespace halfspin::tools::stepstudy

@@ -163,9 +163,10 @@ constexpr T commutator_free_step(const CommutatorFreeRule<W, E>& r, const RateEn
   }
   const RotationVectorRule<W> first = first_order_part(r);
   const std::array<SampleMoments<T>, W> s = rule_sample_moments<T>(first);
-  const T sum = magnus_bounds::quadrature_error(first, e, h) +
-                magnus_bounds::coning_term_error(s, second_order_pairs(r), e, h) +
-                magnus_bounds::bortz_remainder(e, h) + product_remainder(r, s, e, h);
+  const T sum =
+      magnus_bounds::quadrature_error(first, e, h) +
+      magnus_bounds::coning_term_error(s, second_order_pairs(r), magnus_bounds::single(e), h) +
+      magnus_bounds::bortz_remainder(e, h) + product_remainder(r, s, e, h);
   return magnus_bounds::finish(e, h, sum);
 }
 

@@ -40,6 +40,7 @@
 
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/core/angle_between.hpp"
+#include "halfspin/core/exponential_map.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
@@ -77,6 +78,41 @@ struct ConingClosedForm {
 
 }  // namespace detail
 
+// The inputs one step of a sample-driven Stepper reads on the closed-form coning from 0 to dt (s),
+// in long double, as its layout asks (zero_previous: the propagator's very first step, whose
+// previous delta-angle is zero).
+template <class Stepper>
+std::array<Vector3<long double>, Stepper::window> coning_step_inputs(
+    const detail::ConingClosedForm& m, long double dt, bool zero_previous = false) noexcept {
+  constexpr std::size_t window = Stepper::window;
+  constexpr std::size_t periods = periods_per_step(Stepper::layout, window);
+  const long double h = dt / static_cast<long double>(periods);
+  std::array<Vector3<long double>, window> input{};
+  for (std::size_t i = 0; i < window; ++i) {
+    const long double k = static_cast<long double>(i);
+    switch (Stepper::layout) {
+      case SampleLayout::rate_at_end:
+        input[i] = m.rate(dt);
+        break;
+      case SampleLayout::rates_spanning:
+        input[i] = m.rate(k * h);
+        break;
+      case SampleLayout::delta_angles:
+        input[i] = m.delta_angle(k * h, (k + 1.0L) * h);
+        break;
+      case SampleLayout::delta_angles_with_previous:
+        // [0] the previous step's last delta-angle, over (−h, 0] (zero for the propagator's
+        // very first step, which has no previous sample).
+        input[i] = (i == 0 && zero_previous) ? Vector3<long double>{0.0L, 0.0L, 0.0L}
+                                             : m.delta_angle((k - 1.0L) * h, k * h);
+        break;
+      case SampleLayout::rate_function:
+        break;
+    }
+  }
+  return input;
+}
+
 // The attitude after one step of Stepper from the exact coning attitude at 0 (rad, s), in long
 // double, with the closed-form inputs its layout asks for.
 template <class Stepper>
@@ -87,33 +123,7 @@ Quaternion<long double> coning_step_end(const detail::ConingClosedForm& m, long 
     return Stepper::step(
         start, [&m](long double tau) noexcept { return m.rate(tau); }, dt);
   } else {
-    constexpr std::size_t window = Stepper::window;
-    constexpr std::size_t periods = periods_per_step(Stepper::layout, window);
-    const long double h = dt / static_cast<long double>(periods);
-    std::array<Vector3<long double>, window> input{};
-    for (std::size_t i = 0; i < window; ++i) {
-      const long double k = static_cast<long double>(i);
-      switch (Stepper::layout) {
-        case SampleLayout::rate_at_end:
-          input[i] = m.rate(dt);
-          break;
-        case SampleLayout::rates_spanning:
-          input[i] = m.rate(k * h);
-          break;
-        case SampleLayout::delta_angles:
-          input[i] = m.delta_angle(k * h, (k + 1.0L) * h);
-          break;
-        case SampleLayout::delta_angles_with_previous:
-          // [0] the previous step's last delta-angle, over (−h, 0] (zero for the propagator's
-          // very first step, which has no previous sample).
-          input[i] = (i == 0 && zero_previous) ? Vector3<long double>{0.0L, 0.0L, 0.0L}
-                                               : m.delta_angle((k - 1.0L) * h, k * h);
-          break;
-        case SampleLayout::rate_function:
-          break;
-      }
-    }
-    return Stepper::step(start, input, dt);
+    return Stepper::step(start, coning_step_inputs<Stepper>(m, dt, zero_previous), dt);
   }
 }
 
@@ -134,6 +144,23 @@ T coning_step_error(const ConingSpec<T>& coning, T dt) noexcept {
   return static_cast<T>(coning_step_error<Stepper>(static_cast<long double>(coning.half_angle),
                                                    static_cast<long double>(coning.frequency_hz),
                                                    static_cast<long double>(dt)));
+}
+
+// The same step's error as rotation vectors (rad): |log(P̂) − log(P*)| for the stepper's increment
+// P̂ = q(0)* ⊗ q̂(dt) and the exact one P* = q(0)* ⊗ q(dt) (principal logarithms). At least the
+// angle above (section 0 of magnus_family_bounds.hpp); for a rotation-vector stepper, whose P̂
+// is exp(φ̂/2), it is |φ̂ − φ*|, the quantity that section's split adds up (mixed_motion_bound.hpp).
+// Same at every step (header comment: the logarithm commutes with the rotation by r).
+template <class Stepper>
+long double coning_step_rotation_vector_error(long double half_angle, long double frequency_hz,
+                                              long double dt) noexcept {
+  const detail::ConingClosedForm m{half_angle,
+                                   2.0L * 3.141592653589793238462643383279502884L * frequency_hz};
+  const Quaternion<long double> start_inverse = conjugate(m.attitude(0.0L));
+  const Vector3<long double> method =
+      quaternion_log(start_inverse * normalized(coning_step_end<Stepper>(m, dt)));
+  const Vector3<long double> exact = quaternion_log(start_inverse * m.attitude(dt));
+  return norm(method - exact);
 }
 
 // Extra error (rad) of the propagator's first step under pure coning for a stepper that uses the

@@ -10,7 +10,10 @@
 // sum over a horizon is then replaced by the smaller exact-structure form where the error turns
 // with the cone (truncation_bound below); for any other motion
 // LocalErrorBound<Stepper>::local(description.envelope(), dt), the rigorous per-step bound over
-// every rate with those derivative bounds. A stepper without a LocalErrorBound specialization gets
+// every rate with those derivative bounds, or where the motion has cones (coning, vibration
+// lines) beside other motion and the stepper is an exponential-map, Magnus or coning step, the
+// smaller bound that keeps the cones' exact error and bounds what the rest adds
+// (mixed_motion_bound.hpp). A stepper without a LocalErrorBound specialization gets
 // +∞ for non-coning motions ("no bound known": we do not guess), so the recommendation can list it
 // as unbounded instead of failing to compile.
 //
@@ -28,6 +31,7 @@
 #include "halfspin/bounds/commutator_free_bounds.hpp"
 #include "halfspin/bounds/coning_error.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
+#include "halfspin/bounds/mixed_motion_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
 #include "halfspin/bounds/runge_kutta_bounds.hpp"
@@ -43,18 +47,21 @@ std::int64_t steps_for_horizon(T dt, T horizon_s) noexcept {
   return n < T(1) ? std::int64_t{1} : static_cast<std::int64_t>(n);
 }
 
-// Local truncation bound (rad) of one step of length dt (s): exact under pure coning, else the
-// stepper's LocalErrorBound over the description's envelope, +∞ where neither applies.
+// Local truncation bound (rad) of one step of length dt (s): exact under pure coning; else the
+// smaller of the stepper's LocalErrorBound over the description's envelope and, where the motion
+// has cones and the family can split them off, the bound that keeps them exact
+// (mixed_motion_bound.hpp); +∞ where none applies.
 template <class Stepper, class T>
 T local_truncation_bound(const MotionDescription<T>& description, T dt) noexcept {
   if (description.is_pure_coning()) {
     return coning_step_error<Stepper>(description.coning, dt);
   }
+  T envelope_bound = std::numeric_limits<T>::infinity();
   if constexpr (has_local_error_bound<Stepper, T>::value) {
-    return LocalErrorBound<Stepper>::template local<T>(description.envelope(), dt);
-  } else {
-    return std::numeric_limits<T>::infinity();
+    envelope_bound = LocalErrorBound<Stepper>::template local<T>(description.envelope(), dt);
   }
+  const T split = split_local_bound<Stepper>(description, dt);
+  return split < envelope_bound ? split : envelope_bound;
 }
 
 // Rotation angle bound (rad) of one step of length dt (s), θ = D0·dt, for the roundoff model.
@@ -110,6 +117,17 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
   } else {
     return T(0);
   }
+}
+
+// Worst-case attitude error bound (rad) after exactly `steps` steps of length dt (s): truncation +
+// the first step's extra + worst-case roundoff.
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
+T error_bound_for_steps(const MotionDescription<T>& description, T dt,
+                        std::int64_t steps) noexcept {
+  return truncation_bound<Stepper>(description, dt, steps) +
+         startup_bound<Stepper>(description, dt) +
+         roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt),
+                                                        steps);
 }
 
 // Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper

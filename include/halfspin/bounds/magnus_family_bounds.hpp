@@ -145,8 +145,32 @@ using detail::SampleMoments;
 using detail::to_scalar;
 using detail::WeightedPair;
 
+// Bounds of the products |x_i|·|y_j| of the expansion pieces of section 4 (x_i, y_j: the parts of
+// ω of derivative order i, j). For one rate, D_i·D_j. For the cross part of the bilinear forms β
+// and β̂ between two rates u and v (B(u, v) + B(v, u), mixed_motion_bound.hpp), the pieces are
+// linear in the rate, so every term x_i(u + v) × y_j(u + v) leaves x_i(u) × y_j(v) + x_i(v) ×
+// y_j(u): Du_i·Dv_j + Dv_i·Du_j (the polarization of the same bound).
+template <class T>
+struct PairProducts {
+  RateEnvelope<T> u;
+  RateEnvelope<T> v;
+  bool cross;
+  constexpr T operator()(std::size_t i, std::size_t j) const noexcept {
+    return cross ? product(u[i], v[j]) + product(v[i], u[j]) : product(u[i], u[j]);
+  }
+};
+template <class T>
+constexpr PairProducts<T> single(const RateEnvelope<T>& e) noexcept {
+  return {e, e, false};
+}
+template <class T>
+constexpr PairProducts<T> crossed(const RateEnvelope<T>& u, const RateEnvelope<T>& v) noexcept {
+  return {u, v, true};
+}
+
 // |β̂ − β| bound (rad) of section 4 for the scheme's samples and pairs, step h (s); tier 3 is
-// the expansion through o (D0..D4), tier 2 the one stopped at p (D0..D2).
+// the expansion through o (D0..D4), tier 2 the one stopped at p (D0..D2). `d(i, j)` bounds the
+// products of derivative orders i and j (PairProducts).
 template <class T>
 struct ConingTermTiers {
   T through_d3;
@@ -155,7 +179,7 @@ struct ConingTermTiers {
 template <class T, std::size_t K, std::size_t P>
 constexpr ConingTermTiers<T> coning_term_tiers(const std::array<SampleMoments<T>, K>& s,
                                                const std::array<WeightedPair, P>& pairs,
-                                               const RateEnvelope<T>& e, T h) noexcept {
+                                               const PairProducts<T>& d, T h) noexcept {
   // Exact coefficients of β (H = ½): h³/12, 0, h⁵/480, −h⁵/480 on m×p, m×q, m×o, p×q.
   Rational kp{-1, 12}, kq{0, 1}, ko{-1, 480}, kpq{1, 480};
   T r03 = T(0), r04 = T(0), r13 = T(0), r22 = T(0), r02 = T(0), r12 = T(0);
@@ -177,28 +201,27 @@ constexpr ConingTermTiers<T> coning_term_tiers(const std::array<SampleMoments<T>
     r02 += ac * (a0 * b.abs[2] + b0 * a.abs[2]);
     r12 += ac * (a1 * b.abs[2] + b1 * a.abs[2]);
   }
-  const T d0 = e[0], d1 = e[1], d2 = e[2], d3 = e[3], d4 = e[4];
   const T h3 = h * h * h, h4 = h3 * h, h5 = h4 * h, h6 = h5 * h;
   // Remainder constants of the exact side: H⁶/72, H⁵/15, H⁶/24, H⁶/36 (and H⁴/4, H⁵/6 below).
-  const T with_d4 = product(absolute(to_scalar<T>(ko)) * h5, d0, d3) +
-                    product((T(1.0L / 4608) + r04) * h6, d0, d4);
-  const T with_d3 = product((T(1.0L / 480) + r03) * h5, d0, d3);
-  const T consistency = product(absolute(to_scalar<T>(kp)) * h3, d0, d1);
-  const T squared_d2 = product((T(1.0L / 2304) + r22) * h6, d2, d2);
-  const T through_d3 = consistency + product(absolute(to_scalar<T>(kq)) * h4, d0, d2) +
+  const T with_d4 = product(absolute(to_scalar<T>(ko)) * h5, d(0, 3)) +
+                    product((T(1.0L / 4608) + r04) * h6, d(0, 4));
+  const T with_d3 = product((T(1.0L / 480) + r03) * h5, d(0, 3));
+  const T consistency = product(absolute(to_scalar<T>(kp)) * h3, d(0, 1));
+  const T squared_d2 = product((T(1.0L / 2304) + r22) * h6, d(2, 2));
+  const T through_d3 = consistency + product(absolute(to_scalar<T>(kq)) * h4, d(0, 2)) +
                        smaller(with_d4, with_d3) +
-                       product(absolute(to_scalar<T>(kpq)) * h5, d1, d2) +
-                       product((T(1.0L / 1536) + r13) * h6, d1, d3) + squared_d2;
+                       product(absolute(to_scalar<T>(kpq)) * h5, d(1, 2)) +
+                       product((T(1.0L / 1536) + r13) * h6, d(1, 3)) + squared_d2;
   // The expansion stopped at p (remainder with D2): exact side H⁴/4·D0·D2 and H⁵/6·D1·D2.
-  const T through_d2 = consistency + product((T(1.0L / 64) + r02) * h4, d0, d2) +
-                       product((T(1.0L / 192) + r12) * h5, d1, d2) + squared_d2;
+  const T through_d2 = consistency + product((T(1.0L / 64) + r02) * h4, d(0, 2)) +
+                       product((T(1.0L / 192) + r12) * h5, d(1, 2)) + squared_d2;
   return {through_d3, through_d2};
 }
 template <class T, std::size_t K, std::size_t P>
 constexpr T coning_term_error(const std::array<SampleMoments<T>, K>& s,
-                              const std::array<WeightedPair, P>& pairs, const RateEnvelope<T>& e,
+                              const std::array<WeightedPair, P>& pairs, const PairProducts<T>& d,
                               T h) noexcept {
-  const ConingTermTiers<T> t = coning_term_tiers(s, pairs, e, h);
+  const ConingTermTiers<T> t = coning_term_tiers(s, pairs, d, h);
   return smaller(t.through_d3, t.through_d2);
 }
 
@@ -214,36 +237,36 @@ constexpr RateEnvelope<T> implied(const RateEnvelope<T>& e) noexcept {
   return r;
 }
 
-// |β| ≤ ½∫|α×ω| ≤ D0·D1·h³/12 (rad): the commutator term a method without correction drops.
+// |β| ≤ ½∫|α×ω| ≤ D0·D1·h³/12 (rad): the commutator term a method without correction drops
+// (α×ω = −(∫₀ᵗ sω̇ ds)×ω, |∫₀ᵗ sω̇| ≤ D1·t²/2). Its cross part between u and v: the t·u×v and
+// t·v×u terms cancel, leaving (Du1·Dv0 + Dv1·Du0)·h³/12, the polarized form.
 template <class T>
-constexpr T dropped_coning_term(const RateEnvelope<T>& e, T h) noexcept {
-  return product(h * h * h / T(12), e[0], e[1]);
+constexpr T dropped_coning_term(const PairProducts<T>& d, T h) noexcept {
+  return product(h * h * h / T(12), d(0, 1));
 }
 
-// |R| (rad), section 3: the smallest of bounds (a), (b), (c); +∞ if D0·h > 1.
+// Bound (c) of section 3 in two parts: R = h⁵·L/5 + (R − h⁵·L/5) with L the t⁴ coefficient of N
+// (a = ω(0), b = ω̇(0), q = ω̈(0)); |h⁵L/5| ≤ leading·h⁵ and |R − h⁵L/5| ≤ rest. R obeys
+// R = S + ∫(terms linear in R) with |S| ≤ leading·h⁵ + higher, so by Grönwall |R| ≤ G·(leading·h⁵
+// + higher) and |R − S| ≤ (G − 1)·(leading·h⁵ + higher), whence rest = (G − 1)·leading·h⁵ +
+// G·higher. Both +∞ when D0·h > 1.
 template <class T>
-constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
+struct RemainderParts {
+  T leading;  // D0·D1²/240 + D0²·D2/720 + D0³·D1/720 (times h⁵ for the bound)
+  T rest;     // (rad)
+};
+template <class T>
+constexpr RemainderParts<T> bortz_remainder_parts(const RateEnvelope<T>& e, T h) noexcept {
   const T d0 = e[0], d1 = e[1], d2 = e[2], d3 = e[3];
-  if (d0 == T(0) || d1 == T(0)) {
-    return T(0);  // constant rate (or none): φ stays parallel to ω and R vanishes
-  }
   const T x = d0 * h;
   if (!(x <= T(1))) {
-    return infinity<T>();
+    return {infinity<T>(), infinity<T>()};
   }
   const T f = T(1.0L / 12) + x * x / T(700);
   const T k = T(0.5) + f * x;
   const T g = k * exp_upper(k * x) / T(6);
-  const T r4 = g / T(8) + f * (T(0.125) + g * x / T(5));
   const T h4 = h * h * h * h, h5 = h4 * h, h6 = h5 * h, h7 = h6 * h;
-  // (a)
-  const T crude = r4 * d0 * d0 * d1 * h4;
-  // (b)
   const T d0cube_d1_h5 = d0 * d0 * d0 * d1 * h5;
-  const T start_expansion =
-      product(h5 * d0, T(13.0L / 480) * d1 * d1 + product(T(7.0L / 360) * d0, d2)) +
-      (r4 / T(10) + x * (T(0.5) + g * x) / T(4200) + g / T(720)) * d0cube_d1_h5 +
-      (g / T(12) * d0 * d0 * d1 * d1 * h6 + g * g / T(7) * d1 * d0cube_d1_h5 * h * h) / T(12);
   // (c): the exact h⁵ coefficients of R, remainders O(h⁶), Grönwall factor for the R-terms.
   const T z4 = product(T(5.0L / 24) * d0, d3) + product(T(5.0L / 12) * d1, d2);
   const T kk = product(T(2.0L / 3) * d0, d2) + T(0.5) * d1 * d1;
@@ -257,10 +280,64 @@ constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
       d0 * d1 * d1 / T(240) + product(d0 * d0 / T(720), d2) + d0 * d0 * d0 * d1 / T(720);
   const T others = g * d0 * d0 * d1 * d1 * h6 / T(144) + g * g * d1 * d0cube_d1_h5 * h * h / T(84) +
                    x * (T(0.5) + g * x) / T(4200) * d0cube_d1_h5;
-  const T magnus_terms =
-      exp_upper(T(0.5) * x + x * x / T(24)) *
-      (leading * h5 + n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8) + others);
+  const T grow = exp_upper(T(0.5) * x + x * x / T(24));
+  const T higher = n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8) + others;
+  return {leading, (grow - T(1)) * leading * h5 + grow * higher};
+}
+
+// |R| (rad), section 3: the smallest of bounds (a), (b), (c); +∞ if D0·h > 1.
+template <class T>
+constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
+  const T d0 = e[0], d1 = e[1], d2 = e[2];
+  if (d0 == T(0) || d1 == T(0)) {
+    return T(0);  // constant rate (or none): φ stays parallel to ω and R vanishes
+  }
+  const T x = d0 * h;
+  if (!(x <= T(1))) {
+    return infinity<T>();
+  }
+  const T f = T(1.0L / 12) + x * x / T(700);
+  const T k = T(0.5) + f * x;
+  const T g = k * exp_upper(k * x) / T(6);
+  const T r4 = g / T(8) + f * (T(0.125) + g * x / T(5));
+  const T h4 = h * h * h * h, h5 = h4 * h, h6 = h5 * h;
+  // (a)
+  const T crude = r4 * d0 * d0 * d1 * h4;
+  // (b)
+  const T d0cube_d1_h5 = d0 * d0 * d0 * d1 * h5;
+  const T start_expansion =
+      product(h5 * d0, T(13.0L / 480) * d1 * d1 + product(T(7.0L / 360) * d0, d2)) +
+      (r4 / T(10) + x * (T(0.5) + g * x) / T(4200) + g / T(720)) * d0cube_d1_h5 +
+      (g / T(12) * d0 * d0 * d1 * d1 * h6 + g * g / T(7) * d1 * d0cube_d1_h5 * h * h) / T(12);
+  // (c)
+  const RemainderParts<T> c = bortz_remainder_parts(e, h);
+  const T magnus_terms = c.leading * h5 + c.rest;
   return smaller(crude, smaller(start_expansion, magnus_terms));
+}
+
+// |R(u + v) − R(u)| (rad) for two rates u, v with envelopes eu, ev: the h⁵ parts differ by at most
+// the terms of leading(Du + Dv) that carry a v factor (L is a sum of products of a, b, q, each
+// linear in the rate; the polarization of the triangle-inequality bound), written out so that no
+// subtraction rounds below them; the rests are bounded separately. Also at most |R(u + v)| +
+// |R(u)|; the smaller is returned.
+template <class T>
+constexpr T bortz_remainder_difference(const RateEnvelope<T>& eu, const RateEnvelope<T>& ev,
+                                       T h) noexcept {
+  const RateEnvelope<T> es = eu + ev;
+  const T separate = bortz_remainder(es, h) + bortz_remainder(eu, h);
+  const RemainderParts<T> ps = bortz_remainder_parts(es, h);
+  const RemainderParts<T> pu = bortz_remainder_parts(eu, h);
+  const T u0 = eu[0], u1 = eu[1];
+  const T v0 = ev[0], v1 = ev[1], v2 = ev[2];
+  const T s0 = es[0], s1 = es[1], s2 = es[2];
+  // s0·s1² − u0·u1² = v0·s1² + u0·v1·(s1 + u1); s0²·s2 − u0²·u2 = v0·(s0 + u0)·s2 + u0²·v2;
+  // s0³·s1 − u0³·u1 = v0·(s0² + s0·u0 + u0²)·s1 + u0³·v1.
+  const T first = product(v0, s1 * s1) + product(u0 * v1, s1 + u1);
+  const T second = product(v0 * (s0 + u0), s2) + product(u0 * u0, v2);
+  const T third = product(v0 * (s0 * s0 + s0 * u0 + u0 * u0), s1) + product(u0 * u0 * u0, v1);
+  const T h5 = h * h * h * h * h;
+  const T difference = (first / T(240) + second / T(720) + third / T(720)) * h5 + ps.rest + pu.rest;
+  return smaller(separate, difference);
 }
 
 // Sum of the parts, with the range checks of section 0.
@@ -365,15 +442,22 @@ constexpr T quadrature_error(const RotationVectorRule<W>& r, const RateEnvelope<
   return smaller(zero_form, top_form);
 }
 
+// The commutator part |β̂ − β| (rad) of a member, for the products d (one rate or a cross part).
+template <class T, std::size_t W>
+constexpr T commutator_error(const RotationVectorRule<W>& r, const PairProducts<T>& d,
+                             T h) noexcept {
+  return detail::has_commutator(r)
+             ? coning_term_error(detail::rule_sample_moments<T>(r), detail::rule_pairs(r), d, h)
+             : dropped_coning_term(d, h);
+}
+
 // The bound of one step of a member of the family: quadrature, commutator and remainder.
 template <class T, std::size_t W>
 constexpr T rotation_vector_step(const RotationVectorRule<W>& r, const RateEnvelope<T>& given,
                                  T h) noexcept {
   const RateEnvelope<T> e = implied(given);
-  const T beta = detail::has_commutator(r) ? coning_term_error(detail::rule_sample_moments<T>(r),
-                                                               detail::rule_pairs(r), e, h)
-                                           : dropped_coning_term(e, h);
-  return finish(e, h, quadrature_error(r, e, h) + beta + bortz_remainder(e, h));
+  return finish(
+      e, h, quadrature_error(r, e, h) + commutator_error(r, single(e), h) + bortz_remainder(e, h));
 }
 
 }  // namespace magnus_bounds
@@ -390,6 +474,66 @@ struct FamilyLocalErrorBound<RotationVectorStepper<Rule>> {
   template <class T>
   static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
     return detail::magnus_bounds::rotation_vector_step(Rule::value, e, h);
+  }
+
+  // For a rate split into cones u_1..u_n, whose own errors the caller has exactly (as rotation
+  // vectors: |φ̂ − φ*| of each cone alone, coning_error.hpp), and a rest v: the bound (rad) of
+  // everything else in |φ̂ − φ*| for the whole rate. Sections 1–4: φ̂ − φ* = (α̂ − α) + (β̂ − β) − R
+  // with α̂ − α linear and β̂ − β bilinear in the rate, so for ω = Σu_j + v
+  //   φ̂ − φ*(ω) = Σ_j (φ̂ − φ*)(u_j) + Σ_j R(u_j) − R(ω) + (α̂ − α)(v)
+  //              + Σ_{j<k} X(u_j, u_k) + X(Σu_j, v) + (β̂ − β)(v, v),
+  // (with |Σ_j R(u_j) − R(ω)| bounded by bortz_remainder_difference: the change the rest makes to
+  // the first cone's R, plus the other cones' own),
+  // X(x, y) = (β̂ − β)(x, y) + (β̂ − β)(y, x), bounded by the polarized products (PairProducts).
+  // The cones–rest term is split once more: v = c + w with c = v at mid-window, a constant
+  // (|c| ≤ Dv0), and w = v − c (|w| ≤ Dv1·half_span, its derivatives v's). X(u_j, c) = M_j × c
+  // exactly (a constant's samples are c times the sample length; mixed_motion_bound.hpp computes
+  // |M_j| in long double), so |X(u_j, c)| ≤ |M_j|·Dv0; X(Σu_j, w) takes the polarized bound.
+  // Returned: |(α̂ − α)(v)| + the X bounds + |(β̂ − β)(v, v)| + Σ_j |R(u_j)| + |R(ω)|, with
+  // `total` any envelope of the whole rate. The caller adds Σ_j |(φ̂ − φ*)(u_j)| and applies
+  // `checked` (section 0's range, from `total`).
+  template <class T, std::size_t N>
+  static constexpr T split_remainder(const std::array<RateEnvelope<T>, N>& cone,
+                                     const std::array<T, N>& constant_cross, std::size_t count,
+                                     const RateEnvelope<T>& rest, const RateEnvelope<T>& total, T h,
+                                     T half_span) noexcept {
+    using namespace detail::magnus_bounds;
+    const auto& r = Rule::value;
+    const RateEnvelope<T> v = implied(rest);
+    T sum = quadrature_error(r, v, h) + commutator_error(r, single(v), h);
+    RateEnvelope<T> cones = RateEnvelope<T>::none();
+    for (std::size_t j = 0; j < count; ++j) {
+      const RateEnvelope<T> u = implied(cone[j]);
+      for (std::size_t k = j + 1; k < count; ++k) {
+        sum += commutator_error(r, crossed(u, implied(cone[k])), h);
+      }
+      sum += product(constant_cross[j], v[0]);
+      cones = cones + u;
+    }
+    // |Σ_j R(u_j) − R(ω)|: the first cone's R against the whole rate's (everything else as the
+    // second rate), each other cone's R on its own; or |R(ω)| + Σ_j |R(u_j)| with `total`.
+    T apart = bortz_remainder(implied(total), h);
+    T together = T(0);
+    RateEnvelope<T> others = v;
+    for (std::size_t j = 0; j < count; ++j) {
+      const T own = bortz_remainder(implied(cone[j]), h);
+      apart += own;
+      if (j > 0) {
+        together += own;
+        others = others + implied(cone[j]);
+      }
+    }
+    together += count > 0 ? bortz_remainder_difference(implied(cone[0]), others, h) : apart;
+    sum += smaller(apart, together);
+    RateEnvelope<T> w = v;
+    const T drift = product(v[1], half_span);
+    w.derivative[0] = smaller(T(2) * v[0], drift);
+    return sum + commutator_error(r, crossed(cones, implied(w)), h);
+  }
+  // Section 0's range check on a sum (rad): +∞ when D0·h > 1 or the sum reaches 2 rad.
+  template <class T>
+  static constexpr T checked(const RateEnvelope<T>& total, T h, T sum) noexcept {
+    return detail::magnus_bounds::finish(total, h, sum);
   }
 };
 
