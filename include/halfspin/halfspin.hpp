@@ -49,8 +49,10 @@
 #include "halfspin/propagation/two_speed.hpp"
 
 // bounds
+#include "halfspin/bounds/bound_report.hpp"
 #include "halfspin/bounds/commutator_free_bounds.hpp"
 #include "halfspin/bounds/coning_error.hpp"
+#include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/local_error_bound.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"

@@ -207,7 +207,7 @@ void check_safe(const Motion& m, const MotionDescription<T>& d, const char* name
     const test::RunError run = test::max_error<Stepper, T>(m, h, horizon);
     const T dt =
         static_cast<T>(h) * static_cast<T>(periods_per_step(Stepper::layout, Stepper::window));
-    const LD bound = test::ld(error_bound_for_steps<Stepper, T>(d, dt, run.steps));
+    const LD bound = test::ld(error_bound_after_steps<Stepper, T>(d, dt, run.steps));
     INFO(name << " " << Stepper::name << " h = " << static_cast<double>(h) << " bound "
               << static_cast<double>(bound) << " measured " << static_cast<double>(run.error));
     CHECK(bound >= run.error);
@@ -244,7 +244,7 @@ void check_no_cliff(const Motion& m, const MotionDescription<double>& d, const c
     const test::RunError run = test::max_error<Stepper, double>(m, h, horizon);
     const double dt = static_cast<double>(h) *
                       static_cast<double>(periods_per_step(Stepper::layout, Stepper::window));
-    const LD bound = test::ld(error_bound_for_steps<Stepper, double>(d, dt, run.steps));
+    const LD bound = test::ld(error_bound_after_steps<Stepper, double>(d, dt, run.steps));
     const LD envelope =
         static_cast<LD>(run.steps) *
         test::ld(LocalErrorBound<Stepper>::template local<double>(d.envelope(), dt));

@@ -1,5 +1,7 @@
 #pragma once
-// The attitude-error bound over a horizon: steps × (local truncation bound) + roundoff floor.
+// The attitude-error bound over a horizon: steps × (local truncation bound) + roundoff floor,
+// after an exact number of steps (error_bound_after_steps) or over a horizon in seconds
+// (horizon_error_bound: ceil(horizon/dt) steps).
 //
 // Why linear accumulation is rigorous: for the exact increment Φ* and the numerical Φ of a step,
 // d(q ⊗ Φ, Q ⊗ Φ*) ≤ d(q ⊗ Φ, Q ⊗ Φ) + d(Q ⊗ Φ, Q ⊗ Φ*) = d(q, Q) + d(Φ, Φ*) in the bi-invariant
@@ -40,11 +42,24 @@
 
 namespace halfspin {
 
-// Steps (≥ 1) of length dt (s) that cover horizon_s (s): ceil(horizon/dt).
-template <class T>
-std::int64_t steps_for_horizon(T dt, T horizon_s) noexcept {
-  const T n = std::ceil(horizon_s / dt);
-  return n < T(1) ? std::int64_t{1} : static_cast<std::int64_t>(n);
+// Steps (≥ 1) of length dt (s) that cover horizon_s (s): ceil(horizon/dt), the quotient rounded
+// in T. The horizon may be of any arithmetic type H (a double horizon with a float step); it is
+// converted to T with static_cast first, so the count is the one the all-T call gives. A horizon
+// computed as k·dt can round to k + 1 steps (ceil of k(1 + ε)): to mean exactly k steps, use the
+// step-count functions below (error_bound_after_steps). A non-finite or huge quotient saturates at
+// max_step_count, a NaN or non-positive one gives 1.
+inline constexpr std::int64_t max_step_count = std::int64_t{1} << 62;
+template <class T, class H>
+std::int64_t steps_for_horizon(T dt, H horizon_s) noexcept {
+  static_assert(std::is_arithmetic<H>::value, "the horizon (s) is an arithmetic type");
+  const T n = std::ceil(static_cast<T>(horizon_s) / dt);
+  if (!(n >= T(1))) {
+    return std::int64_t{1};
+  }
+  if (!(n < static_cast<T>(max_step_count))) {
+    return max_step_count;
+  }
+  return static_cast<std::int64_t>(n);
 }
 
 // Local truncation bound (rad) of one step of length dt (s): exact under pure coning; else the
@@ -119,11 +134,18 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
   }
 }
 
-// Worst-case attitude error bound (rad) after exactly `steps` steps of length dt (s): truncation +
-// the first step's extra + worst-case roundoff.
+// Worst-case attitude error bound (rad) after exactly `steps` steps of length dt (s) of Stepper in
+// T with Accumulation: truncation over the steps (linear, or the tighter coning form) + the first
+// step's extra + worst-case roundoff over the steps. Every term is non-decreasing in `steps`, so
+// the value also bounds the error at every earlier step end. 0 steps: 0 (the attitude is the
+// initial one); negative steps: NaN. +∞ where a needed derivative bound is +∞, D0·dt > 1 rad or
+// no bound exists (bound_report.hpp says which).
 template <class Stepper, class T, class Accumulation = PlainAccumulation>
-T error_bound_for_steps(const MotionDescription<T>& description, T dt,
-                        std::int64_t steps) noexcept {
+T error_bound_after_steps(const MotionDescription<T>& description, T dt,
+                          std::int64_t steps) noexcept {
+  if (steps <= 0) {
+    return steps == 0 ? T(0) : std::numeric_limits<T>::quiet_NaN();
+  }
   return truncation_bound<Stepper>(description, dt, steps) +
          startup_bound<Stepper>(description, dt) +
          roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt),
@@ -131,15 +153,12 @@ T error_bound_for_steps(const MotionDescription<T>& description, T dt,
 }
 
 // Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper
-// in T with Accumulation: ceil(horizon/dt) × local truncation bound + the first step's extra +
-// worst-case roundoff.
-template <class Stepper, class T, class Accumulation = PlainAccumulation>
-T horizon_error_bound(const MotionDescription<T>& description, T dt, T horizon_s) noexcept {
-  const std::int64_t steps = steps_for_horizon(dt, horizon_s);
-  return truncation_bound<Stepper>(description, dt, steps) +
-         startup_bound<Stepper>(description, dt) +
-         roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt),
-                                                        steps);
+// in T with Accumulation: error_bound_after_steps at steps_for_horizon(dt, horizon_s), i.e.
+// ceil(horizon/dt) steps. The horizon may be any arithmetic type, converted to T (static_cast).
+template <class Stepper, class T, class Accumulation = PlainAccumulation, class H>
+T horizon_error_bound(const MotionDescription<T>& description, T dt, H horizon_s) noexcept {
+  return error_bound_after_steps<Stepper, T, Accumulation>(description, dt,
+                                                           steps_for_horizon(dt, horizon_s));
 }
 
 }  // namespace halfspin

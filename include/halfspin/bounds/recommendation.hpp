@@ -17,6 +17,7 @@
 #include <cstddef>
 #include <cstdint>
 #include <limits>
+#include <type_traits>
 
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
@@ -79,12 +80,15 @@ CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T b
 
 // The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
 // (rad) at sample_rate_hz (Hz) gyro samples, for scalar T and the propagator's Accumulation;
-// every candidate's outcome included.
-template <class T, class Accumulation = PlainAccumulation, class... Steppers>
+// every candidate's outcome included. The horizon may be any arithmetic type, converted to T
+// (static_cast) first.
+template <class T, class Accumulation = PlainAccumulation, class... Steppers, class H>
 Recommendation<T, sizeof...(Steppers)> recommend_stepper(StepperList<Steppers...> /*list*/,
                                                          const MotionDescription<T>& description,
-                                                         T budget_rad, T horizon_s,
+                                                         T budget_rad, H horizon,
                                                          T sample_rate_hz) noexcept {
+  static_assert(std::is_arithmetic<H>::value, "the horizon (s) is an arithmetic type");
+  const T horizon_s = static_cast<T>(horizon);
   constexpr std::size_t n = sizeof...(Steppers);
   Recommendation<T, n> r{};
   if (!(sample_rate_hz > T(0)) || !(horizon_s > T(0)) || !(budget_rad > T(0))) {

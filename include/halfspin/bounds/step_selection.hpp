@@ -23,6 +23,7 @@
 #include <cstddef>
 #include <cstdint>
 #include <limits>
+#include <type_traits>
 
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
@@ -60,10 +61,13 @@ struct StepSearch {
 
 // Largest step (s) whose worst-case horizon bound (rad) over horizon_s (s) meets budget_rad (rad)
 // for Stepper in T with Accumulation (the propagator's policy: plain by default); see the header
-// comment for the search and the status values.
-template <class Stepper, class T, class Accumulation = PlainAccumulation>
-StepSelection<T> select_step(const MotionDescription<T>& description, T budget_rad, T horizon_s,
+// comment for the search and the status values. The horizon may be any arithmetic type,
+// converted to T (static_cast) first.
+template <class Stepper, class T, class Accumulation = PlainAccumulation, class H>
+StepSelection<T> select_step(const MotionDescription<T>& description, T budget_rad, H horizon,
                              const StepSearch<T>& search = StepSearch<T>{}) noexcept {
+  static_assert(std::is_arithmetic<H>::value, "the horizon (s) is an arithmetic type");
+  const T horizon_s = static_cast<T>(horizon);
   StepSelection<T> r{};
   const bool valid = budget_rad > T(0) && horizon_s > T(0) && search.dt_min > T(0) &&
                      search.dt_max > search.dt_min && std::isfinite(budget_rad) &&
