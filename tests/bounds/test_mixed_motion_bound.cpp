@@ -185,7 +185,7 @@ TEST_CASE("Bernstein's inequality: a band-limited rate's derivatives within (2π
   CHECK(axes[0] == Approx(5.0));
   CHECK(axes[2] == Approx(5.0 * std::pow(2.0 * pi<double> * b, 2.0)));
   // A partial envelope: the rest stays unknown.
-  const RateEnvelope<double> partial = RateEnvelope<double>::from_derivatives({3.0, 40.0});
+  const RateEnvelope<double> partial = RateEnvelope<double>::from_derivatives(3.0, 40.0);
   CHECK(partial.known(1));
   CHECK_FALSE(partial.known(2));
 }

@@ -5,7 +5,7 @@
 // RateEnvelope: bounds D_k ≥ max over the flight of ‖dᵏω/dtᵏ‖ (rad/s^(k+1)), k = 0..5; an unknown
 // one is +∞ (a bound that needs it is then +∞: we do not guess; horizon_bound.hpp says which D_k
 // a stepper needs). Built from what a datasheet or a flight envelope gives:
-//  - from_derivatives({D0, D1, …}): the known leading bounds, the rest unknown;
+//  - from_derivatives(D0, D1, …): the known leading bounds, the rest unknown;
 //  - from_bandwidth(max rate, B) / from_axis_rates_and_bandwidth((r_x, r_y, r_z), B): the maximum
 //    rate (magnitude, or per body axis) and the manoeuvre bandwidth B (Hz), with
 //    D_k = (2πB)ᵏ·D0 by Bernstein's inequality: a bounded function whose spectrum lies in
@@ -48,8 +48,8 @@
 #include <array>
 #include <cmath>
 #include <cstddef>
-#include <initializer_list>
 #include <limits>
+#include <type_traits>
 
 #include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/core/vector3.hpp"
@@ -64,21 +64,23 @@ struct RateEnvelope {
       std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity(),
       std::numeric_limits<T>::infinity(), std::numeric_limits<T>::infinity()};
 
-  // The known leading bounds {D0, D1, …} (rad/s, rad/s², …), at most six; the rest unknown (+∞).
-  static constexpr RateEnvelope from_derivatives(std::initializer_list<T> known) noexcept {
+  // The known leading bounds D0, D1, … (rad/s, rad/s², …), at most six, each converted to T
+  // with static_cast; the rest unknown (+∞).
+  template <class... D>
+  static constexpr RateEnvelope from_derivatives(D... known) noexcept {
+    static_assert(sizeof...(D) <= 6, "at most six derivative bounds, D0..D5");
+    static_assert((std::is_arithmetic<D>::value && ...), "derivative bounds are numbers");
     RateEnvelope e{};
-    std::size_t k = 0;
-    for (const T d : known) {
-      if (k < 6) {
-        e.derivative[k++] = d;
-      }
+    const std::array<T, sizeof...(D)> given{{static_cast<T>(known)...}};
+    for (std::size_t k = 0; k < sizeof...(D); ++k) {
+      e.derivative[k] = given[k];
     }
     return e;
   }
   // From max ‖ω‖ (rad/s), max ‖ω̇‖ (rad/s²), max ‖ω̈‖ (rad/s³); higher derivatives unknown.
   static constexpr RateEnvelope from_rate_bounds(T max_rate, T max_rate_derivative,
                                                  T max_second_derivative) noexcept {
-    return from_derivatives({max_rate, max_rate_derivative, max_second_derivative});
+    return from_derivatives(max_rate, max_rate_derivative, max_second_derivative);
   }
   // From the maximum rate magnitude (rad/s) and the manoeuvre bandwidth (Hz): D_k = (2πB)ᵏ·D0,
   // Bernstein's inequality (header comment; it assumes every rate component band-limited to B).
