@@ -233,6 +233,51 @@ TEMPLATE_LIST_TEST_CASE("bounds are safe on coning with turns and vibration line
 
 namespace {
 
+// Classical coning described as a vibration line (its lateral rate, rate amplitude Ω sin a on y
+// and z, y a quarter period ahead) plus its constant axial rate −Ω(1 − cos a) as a manoeuvre.
+template <class T>
+MotionDescription<T> coning_as_line(const ClassicalConingMotion<LD>& c, bool phases_known) {
+  MotionDescription<T> d{};
+  const LD lateral = c.cone_frequency * std::sin(c.cone_angle);
+  VibrationLine<T> line = VibrationLine<T>::from_rate_amplitude(
+      static_cast<T>(c.cone_frequency / two_pi),
+      Vector3<T>{T(0), static_cast<T>(lateral), static_cast<T>(lateral)});
+  if (phases_known) {
+    line = line.with_phases({T(0), static_cast<T>(0.5L * pi<LD>), T(0)});
+  }
+  d.vibration.add(line);
+  d.maneuver = RateEnvelope<T>::constant_rate(static_cast<T>(c.cone_frequency * c.one_minus_cos()));
+  return d;
+}
+
+// A single-axis oscillation θ·sin(2πft + φ) about n and the axisymmetric-body-like rate
+// (ω⊥ cos λt, ω⊥ sin λt, ω3) are band-limited (to f and λ/2π): described by their maximum rate and
+// that bandwidth (RateEnvelope::from_bandwidth, Bernstein's inequality).
+const ClassicalConingMotion<LD> slow_cone{0.35L, two_pi * 0.8};  // a wide, slow cone: band 0.8 Hz
+
+}  // namespace
+
+TEMPLATE_LIST_TEST_CASE("bounds are safe on vibration lines and band-limited descriptions",
+                        "[bounds][mixed]", test::CatalogueSteppers) {
+  // The cone as a line, phases known and unknown: both safe; unknown ≥ known (every phase).
+  check_safe<TestType, double>(cone, coning_as_line<double>(cone, true), "cone as a known line");
+  check_safe<TestType, double>(cone, coning_as_line<double>(cone, false),
+                               "cone as a line of unknown phases");
+  check_safe<TestType, float>(cone, coning_as_line<float>(cone, false),
+                              "cone as a line of unknown phases");
+  const double dt = 2e-3 * static_cast<double>(periods_per_step(TestType::layout, TestType::window));
+  CHECK(error_bound_after_steps<TestType, double>(coning_as_line<double>(cone, false), dt, 100) >=
+        error_bound_after_steps<TestType, double>(coning_as_line<double>(cone, true), dt, 100));
+  // Band-limited: the slow cone's rate has every component a sinusoid at 0.8 Hz or constant.
+  MotionDescription<double> band{};
+  band.maneuver = RateEnvelope<double>::from_bandwidth(
+      static_cast<double>(2.0L * slow_cone.cone_frequency * std::sin(0.5L * slow_cone.cone_angle)),
+      0.8);
+  check_safe<TestType, double>(slow_cone, band, "slow cone by max rate and bandwidth");
+}
+
+namespace {
+
 // bound/measured over 20 cone periods for a coning algorithm, with the split and with the
 // envelope alone (the cliff the split removes): at most `target` (3 for the algorithms whose
 // bound the split makes tight; the others are held to never exceed the envelope bound, and the
