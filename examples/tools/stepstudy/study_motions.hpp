@@ -159,7 +159,7 @@ inline bool make_study_motion(std::string_view name, StudyMotion& out) {
     s.summary = "demo drone: banked turn (" + format("%.4f rad/s", demo::turn_rate()) +
                 ") carrying 0.02 deg coning at 85 Hz (invented)";
     s.description = demo::description();
-    s.description_summary = "demo::description() (turn + coning as a rate envelope)";
+    s.description_summary = "demo::description() (coning + the turn as a rate envelope)";
     s.default_step_min = 1e-4;
     s.default_step_max = 4e-3;
   } else {
