@@ -1,9 +1,15 @@
-// Choosing a step size: an invented survey drone whose engine vibration cones its gyro frame
-// (0.02° half-angle at 85 Hz), on top of banked turns (|ω| ≤ 0.6 rad/s, |ω̇| ≤ 1 rad/s²,
-// |ω̈| ≤ 5 rad/s³). Budget: 0.1° over 10 minutes. Prints, for a few steppers, the largest step that
-// meets the budget under the pure-coning description and under the full envelope, and the cheapest
-// stepper at a 1 kHz gyro: in double, then in float as the board runs it, with the compensated
-// accumulation (and what the plain float accumulation allows). Caution: bounds support engineering
+// Choosing a step size, twice (both vehicles invented).
+// 1. From a datasheet: a 2 kHz gyro, manoeuvres up to 3 rad/s with a 4 Hz manoeuvre bandwidth, a
+//    120 Hz motor vibration of 0.01 rad about one axis (phase unknown), 0.05° over 20 minutes in
+//    float on the board, or over the 10 s between attitude fixes. Prints the description the
+//    library builds (Bernstein's inequality for the manoeuvre's derivatives), what meets the budget
+//    at 2 kHz over each horizon, and the longest time between fixes at that rate.
+// 2. A survey drone whose engine vibration cones its gyro frame (0.02° half-angle at 85 Hz), on
+//    top of banked turns (|ω| ≤ 0.6 rad/s, |ω̇| ≤ 1 rad/s², |ω̈| ≤ 5 rad/s³). Budget: 0.1° over 10
+//    minutes. Prints, for a few steppers, the largest step that meets the budget under the
+//    pure-coning description and with the turns added, and the cheapest stepper at a 1 kHz gyro:
+//    in double, then in float as the board runs it, with the compensated accumulation (and what
+//    the plain float accumulation allows). Caution: bounds support engineering
 // judgement; validate in hardware-in-the-loop and flight test under local airworthiness rules and
 // licensed practice.
 #include <cstdio>
@@ -17,12 +23,7 @@ constexpr double degree = 3.14159265358979323846 / 180.0;
 
 template <class T>
 MotionDescription<T> narrowed(const MotionDescription<double>& d) {
-  MotionDescription<T> r{};
-  for (std::size_t k = 0; k < d.maneuver.derivative.size(); ++k) {
-    r.maneuver.derivative[k] = static_cast<T>(d.maneuver.derivative[k]);
-  }
-  r.coning = {static_cast<T>(d.coning.half_angle), static_cast<T>(d.coning.frequency_hz)};
-  return r;
+  return d.converted<T>();
 }
 
 template <class Stepper, class T, class Accumulation>
@@ -66,19 +67,71 @@ void recommendation(const MotionDescription<double>& motion, double budget, doub
   std::printf("\n");
 }
 
+// Part 1: what the library makes of the datasheet quantities, and its answers.
+template <class Stepper>
+void fixes_row(const MotionDescription<float>& d, float dt, float budget) {
+  const FixInterval<float> f =
+      longest_fix_interval<Stepper, float, CompensatedAccumulation>(d, dt, budget);
+  if (f.status == FixIntervalStatus::ok) {
+    std::printf("  %-30s step %.2e s: fixes at most %9.3f s apart (bound there %.3e deg)\n",
+                Stepper::name, static_cast<double>(dt), static_cast<double>(f.interval_s),
+                static_cast<double>(f.bound_rad) / degree);
+  } else {
+    std::printf("  %-30s step %.2e s: %s\n", Stepper::name, static_cast<double>(dt),
+                f.status == FixIntervalStatus::unbounded ? "meets the budget at every horizon tried"
+                                                         : "not even one step meets the budget");
+  }
+}
+
+void datasheet_vehicle() {
+  const double gyro_hz = 2000.0;
+  const double budget = 0.05 * degree;
+  MotionDescription<double> d{};
+  d.maneuver = RateEnvelope<double>::from_bandwidth(3.0, 4.0);
+  d.vibration.add(VibrationLine<double>::from_angle_amplitude(120.0, {0.01, 0.0, 0.0}));
+  std::printf(
+      "1. From a datasheet: 2 kHz gyro, |w| <= 3 rad/s with a 4 Hz manoeuvre bandwidth,\n"
+      "   0.01 rad of 120 Hz vibration about x (phase unknown); budget 0.05 deg.\n"
+      "   Manoeuvre envelope (Bernstein, assuming no manoeuvre content above 4 Hz):");
+  for (std::size_t k = 0; k < 6; ++k) {
+    std::printf(" D%zu = %.3g", k, d.maneuver[k]);
+  }
+  std::printf("\n   Vibration line: rate amplitude %.3f rad/s on x\n",
+              d.vibration.line[0].rate_amplitude.x);
+  const MotionDescription<float> f = narrowed<float>(d);
+  for (const double horizon : {1200.0, 10.0}) {
+    std::printf("\n   Over %.0f s, in float (compensated accumulation):\n", horizon);
+    table<float, CompensatedAccumulation, ExponentialMapMidpointMean, Magnus4, Coning1Sample,
+          Coning2Sample, Coning3Sample>("", d, budget, horizon);
+    const auto r = recommend_stepper<float, CompensatedAccumulation>(
+        StepperList<ExponentialMapHoldEnd, ExponentialMapMidpointMean, Coning1Sample, Coning2Sample,
+                    Coning3Sample, Magnus4>{},
+        f, static_cast<float>(budget), horizon, static_cast<float>(gyro_hz));
+    std::printf("   At the 2 kHz gyro: %s", r.found ? r.name : "nothing meets the budget");
+    if (r.found) {
+      std::printf(" (step %.2e s, bound %.3e deg)",
+                  static_cast<double>(r.candidates[r.index].step_s),
+                  static_cast<double>(r.bound_rad) / degree);
+    }
+    std::printf("\n");
+  }
+  std::printf("\n   Longest time between attitude fixes at the 2 kHz gyro, float (compensated):\n");
+  fixes_row<Coning1Sample>(f, 1.0f / 2000.0f, static_cast<float>(budget));
+  fixes_row<Coning2Sample>(f, 2.0f / 2000.0f, static_cast<float>(budget));
+  fixes_row<Coning3Sample>(f, 3.0f / 2000.0f, static_cast<float>(budget));
+}
+
 }  // namespace
 
 int main() {
+  datasheet_vehicle();
+  std::printf("\n2. The survey drone:\n");
   const double budget = 0.1 * degree;
   const double horizon = 600.0;
   MotionDescription<double> coning{};
   coning.coning = {0.02 * degree, 85.0};
-  MotionDescription<double> full = coning;
-  full.coning = {};  // described by its derivative bounds instead, added to the maneuver
-  full.maneuver = RateEnvelope<double>::from_rate_bounds(0.6, 1.0, 5.0) + coning.coning.envelope();
-  full.maneuver.derivative[3] = 40.0 + coning.coning.envelope()[3];  // turns: |ω⃛| ≤ 40 rad/s⁴
-  full.maneuver.derivative[4] = 400.0 + coning.coning.envelope()[4];
-  full.maneuver.derivative[5] = 4000.0 + coning.coning.envelope()[5];
+  MotionDescription<double> full = coning;  // the cone kept exact, the turns as an envelope
+  full.maneuver = RateEnvelope<double>::from_derivatives(0.6, 1.0, 5.0, 40.0, 400.0, 4000.0);
 
   std::printf("Budget %.2f deg over %.0f s (double)\n\n", budget / degree, horizon);
   table<double, PlainAccumulation, ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled,
@@ -87,15 +140,15 @@ int main() {
   std::printf("\n");
   table<double, PlainAccumulation, ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled,
         Coning1Sample, Coning2Sample, Coning3Sample>(
-      "Turns plus vibration, as a rate envelope (worst-case linear accumulation):", full, budget,
-      horizon);
+      "Turns plus vibration (the cone exact, the turns as an envelope; linear accumulation):", full,
+      budget, horizon);
   std::printf("\n");
   recommendation<double, PlainAccumulation>(full, budget, horizon);
 
   std::printf("\nThe same in float, as the board runs it, with the compensated accumulation:\n");
   table<float, CompensatedAccumulation, ExponentialMapMidpointMean, Magnus4, RungeKutta4Sampled,
-        Coning1Sample, Coning2Sample, Coning3Sample>(
-      "Turns plus vibration, as a rate envelope:", full, budget, horizon);
+        Coning1Sample, Coning2Sample, Coning3Sample>("Turns plus vibration:", full, budget,
+                                                     horizon);
   std::printf("\n");
   recommendation<float, CompensatedAccumulation>(full, budget, horizon);
   recommendation<float, PlainAccumulation>(full, budget, horizon);
