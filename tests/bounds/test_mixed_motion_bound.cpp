@@ -250,10 +250,10 @@ MotionDescription<T> coning_as_line(const ClassicalConingMotion<LD>& c, bool pha
   return d;
 }
 
-// A single-axis oscillation θ·sin(2πft + φ) about n and the axisymmetric-body-like rate
-// (ω⊥ cos λt, ω⊥ sin λt, ω3) are band-limited (to f and λ/2π): described by their maximum rate and
-// that bandwidth (RateEnvelope::from_bandwidth, Bernstein's inequality).
-const ClassicalConingMotion<LD> slow_cone{0.35L, two_pi * 0.8};  // a wide, slow cone: band 0.8 Hz
+// A wide, slow cone: its rate is a constant plus a sinusoid at 0.8 Hz in every component, so it is
+// band-limited to 0.8 Hz and can be described by its maximum rate and that bandwidth
+// (RateEnvelope::from_bandwidth, Bernstein's inequality).
+const ClassicalConingMotion<LD> slow_cone{0.35L, two_pi * 0.8L};
 
 }  // namespace
 
@@ -298,7 +298,7 @@ void check_no_cliff(const Motion& m, const MotionDescription<double>& d, const c
     REQUIRE(run.error > 1e-11L);
     CHECK(bound <= envelope * (1 + 1e-12L));
     if (target > 0) {
-      CHECK(bound <= target * run.error);
+      CHECK(bound <= static_cast<LD>(target) * run.error);
     }
     if (report()) {
       std::printf("%-22s %-30s h=1/%-5.0f bound/measured %6.3f (envelope alone %8.3g)\n", name,
