@@ -95,10 +95,10 @@ long double coning_constant_cross(long double half_angle, long double frequency_
   const detail::ConingClosedForm m{half_angle,
                                    2.0L * 3.141592653589793238462643383279502884L * frequency_hz};
   // ½∫₀^dt (dt − 2t)·u(t) dt.
-  static constexpr long double node[4] = {
+  static constexpr std::array<long double, 4> node{
       0.1834346424956498049394761423601840L, 0.5255324099163289858177390491892463L,
       0.7966664774136267395915539364758304L, 0.9602898564975362316835608685694730L};
-  static constexpr long double weight[4] = {
+  static constexpr std::array<long double, 4> weight{
       0.3626837833783619829651504492771957L, 0.3137066458778872873379622019866013L,
       0.2223810344533744705443559944052344L, 0.1012285362903762591525313543099622L};
   constexpr int panels = 8;
@@ -106,7 +106,7 @@ long double coning_constant_cross(long double half_angle, long double frequency_
   V exact{0.0L, 0.0L, 0.0L};
   for (int j = 0; j < panels; ++j) {
     const long double mid = (static_cast<long double>(j) + 0.5L) * p;
-    for (int i = 0; i < 4; ++i) {
+    for (std::size_t i = 0; i < 4; ++i) {
       for (const long double sign : {-1.0L, 1.0L}) {
         const long double t = mid + sign * 0.5L * p * node[i];
         exact = exact + (0.25L * p * weight[i] * (dt - 2.0L * t)) * m.rate(t);
