@@ -56,6 +56,7 @@
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/local_error_bound.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
+#include "halfspin/bounds/mixed_motion_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
