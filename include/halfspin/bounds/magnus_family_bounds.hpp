@@ -245,22 +245,25 @@ constexpr T dropped_coning_term(const PairProducts<T>& d, T h) noexcept {
   return product(h * h * h / T(12), d(0, 1));
 }
 
-// Bound (c) of section 3 in two parts: R = h⁵·L/5 + (R − h⁵·L/5) with L the t⁴ coefficient of N
-// (a = ω(0), b = ω̇(0), q = ω̈(0)); |h⁵L/5| ≤ leading·h⁵ and |R − h⁵L/5| ≤ rest. R obeys
-// R = S + ∫(terms linear in R) with |S| ≤ leading·h⁵ + higher, so by Grönwall |R| ≤ G·(leading·h⁵
-// + higher) and |R − S| ≤ (G − 1)·(leading·h⁵ + higher), whence rest = (G − 1)·leading·h⁵ +
-// G·higher. Both +∞ when D0·h > 1.
+// Bound (c) of section 3 in its parts. R = S + K with S = ∫N + O: N the multilinear part
+// (½β×ω + (1/12)α×(α×ω) + (1/12)α×(β×ω), degree 3 and 4 in the rate), O the ψ×(α×ω), ψ×(ψ×ω) and
+// (f − 1/12) terms, K the terms linear in R. |∫N| ≤ multilinear = leading·h⁵ + n5·h⁶/6 + n6·h⁷/7
+// + n7·h⁸/8 (the exact h⁵ coefficients and the Taylor rests, each a term-by-term product bound:
+// a polynomial in D0..D3 with non-negative coefficients whose every monomial bounds one
+// multilinear term slot by slot); |O| ≤ others; Grönwall gives |R| ≤ grow·(multilinear + others)
+// and |K| ≤ (grow − 1)·(multilinear + others). All +∞ when D0·h > 1.
 template <class T>
 struct RemainderParts {
-  T leading;  // D0·D1²/240 + D0²·D2/720 + D0³·D1/720 (times h⁵ for the bound)
-  T rest;     // (rad)
+  T multilinear;  // rad
+  T others;       // rad
+  T grow;         // the Grönwall factor, ≥ 1
 };
 template <class T>
 constexpr RemainderParts<T> bortz_remainder_parts(const RateEnvelope<T>& e, T h) noexcept {
   const T d0 = e[0], d1 = e[1], d2 = e[2], d3 = e[3];
   const T x = d0 * h;
   if (!(x <= T(1))) {
-    return {infinity<T>(), infinity<T>()};
+    return {infinity<T>(), infinity<T>(), infinity<T>()};
   }
   const T f = T(1.0L / 12) + x * x / T(700);
   const T k = T(0.5) + f * x;
@@ -281,8 +284,8 @@ constexpr RemainderParts<T> bortz_remainder_parts(const RateEnvelope<T>& e, T h)
   const T others = g * d0 * d0 * d1 * d1 * h6 / T(144) + g * g * d1 * d0cube_d1_h5 * h * h / T(84) +
                    x * (T(0.5) + g * x) / T(4200) * d0cube_d1_h5;
   const T grow = exp_upper(T(0.5) * x + x * x / T(24));
-  const T higher = n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8) + others;
-  return {leading, (grow - T(1)) * leading * h5 + grow * higher};
+  const T multilinear = leading * h5 + n5 * h6 / T(6) + n6 * h7 / T(7) + n7 * h7 * h / T(8);
+  return {multilinear, others, grow};
 }
 
 // |R| (rad), section 3: the smallest of bounds (a), (b), (c); +∞ if D0·h > 1.
@@ -311,32 +314,32 @@ constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
       (g / T(12) * d0 * d0 * d1 * d1 * h6 + g * g / T(7) * d1 * d0cube_d1_h5 * h * h) / T(12);
   // (c)
   const RemainderParts<T> c = bortz_remainder_parts(e, h);
-  const T magnus_terms = c.leading * h5 + c.rest;
+  const T magnus_terms = c.grow * (c.multilinear + c.others);
   return smaller(crude, smaller(start_expansion, magnus_terms));
 }
 
-// |R(u + v) − R(u)| (rad) for two rates u, v with envelopes eu, ev: the h⁵ parts differ by at most
-// the terms of leading(Du + Dv) that carry a v factor (L is a sum of products of a, b, q, each
-// linear in the rate; the polarization of the triangle-inequality bound), written out so that no
-// subtraction rounds below them; the rests are bounded separately. Also at most |R(u + v)| +
-// |R(u)|; the smaller is returned.
+// |R(u + v) − R(u)| (rad) for two rates u, v with envelopes eu, ev (s = u + v). With
+// K(t) = ∫₀ᵗ [½R×ω + (1/12)α×(R×ω)] the terms linear in R, the difference Δ = R_s − R_u obeys
+//   Δ(t) = (S_s − S_u)(t) + ∫₀ᵗ [½Δ×ω_s + (1/12)α_s×(Δ×ω_s)] + ∫₀ᵗ F,
+//   F = ½R_u×v + (1/12)(α_v×(R_u×ω_s) + α_u×(R_u×v)),  |F| ≤ |R_u|·Dv0·(½ + (Ds0 + Du0)·t/12),
+// so by Grönwall (the same factor grow_s as for R_s) |Δ(h)| ≤ grow_s·(|S_s − S_u| + |R_u|·Dv0·h·
+// (½ + (Ds0 + Du0)·h/24)), every bound increasing in t. |S_s − S_u| ≤ the change of the
+// multilinear part, multilinear(Ds) − multilinear(Du) (its monomials with at least one v factor:
+// the polarization of each product bound; evaluated as a difference, plus 8ε·multilinear(Ds) for
+// its rounding), + others(Ds) + others(Du). It vanishes with v except for the O terms, which are
+// O(D0·h) smaller than the multilinear ones. Also at most |R_s| + |R_u|; the smaller is returned.
 template <class T>
 constexpr T bortz_remainder_difference(const RateEnvelope<T>& eu, const RateEnvelope<T>& ev,
                                        T h) noexcept {
   const RateEnvelope<T> es = eu + ev;
-  const T separate = bortz_remainder(es, h) + bortz_remainder(eu, h);
+  const T own = bortz_remainder(eu, h);
+  const T separate = bortz_remainder(es, h) + own;
   const RemainderParts<T> ps = bortz_remainder_parts(es, h);
   const RemainderParts<T> pu = bortz_remainder_parts(eu, h);
-  const T u0 = eu[0], u1 = eu[1];
-  const T v0 = ev[0], v1 = ev[1], v2 = ev[2];
-  const T s0 = es[0], s1 = es[1], s2 = es[2];
-  // s0·s1² − u0·u1² = v0·s1² + u0·v1·(s1 + u1); s0²·s2 − u0²·u2 = v0·(s0 + u0)·s2 + u0²·v2;
-  // s0³·s1 − u0³·u1 = v0·(s0² + s0·u0 + u0²)·s1 + u0³·v1.
-  const T first = product(v0, s1 * s1) + product(u0 * v1, s1 + u1);
-  const T second = product(v0 * (s0 + u0), s2) + product(u0 * u0, v2);
-  const T third = product(v0 * (s0 * s0 + s0 * u0 + u0 * u0), s1) + product(u0 * u0 * u0, v1);
-  const T h5 = h * h * h * h * h;
-  const T difference = (first / T(240) + second / T(720) + third / T(720)) * h5 + ps.rest + pu.rest;
+  const T change = ps.multilinear > pu.multilinear ? ps.multilinear - pu.multilinear : T(0);
+  const T rounding = T(8) * std::numeric_limits<T>::epsilon() * ps.multilinear;
+  const T forcing = product(own, ev[0] * h * (T(0.5) + (es[0] + eu[0]) * h / T(24)));
+  const T difference = ps.grow * (change + rounding + ps.others + pu.others + forcing);
   return smaller(separate, difference);
 }
 
