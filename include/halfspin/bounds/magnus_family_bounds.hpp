@@ -325,9 +325,10 @@ constexpr T bortz_remainder(const RateEnvelope<T>& e, T h) noexcept {
 // so by Grönwall (the same factor grow_s as for R_s) |Δ(h)| ≤ grow_s·(|S_s − S_u| + |R_u|·Dv0·h·
 // (½ + (Ds0 + Du0)·h/24)), every bound increasing in t. |S_s − S_u| ≤ the change of the
 // multilinear part, multilinear(Ds) − multilinear(Du) (its monomials with at least one v factor:
-// the polarization of each product bound; evaluated as a difference, plus 8ε·multilinear(Ds) for
-// its rounding), + others(Ds) + others(Du). It vanishes with v except for the O terms, which are
-// O(D0·h) smaller than the multilinear ones. Also at most |R_s| + |R_u|; the smaller is returned.
+// the polarization of each product bound; evaluated as a difference, plus 64ε·multilinear(Ds) for
+// its rounding: each part is a sum of about 20 rounded products, so either is within 20ε·itself), +
+// others(Ds) + others(Du). It vanishes with v except for the O terms, which are O(D0·h) smaller
+// than the multilinear ones. Also at most |R_s| + |R_u|; the smaller is returned.
 template <class T>
 constexpr T bortz_remainder_difference(const RateEnvelope<T>& eu, const RateEnvelope<T>& ev,
                                        T h) noexcept {
@@ -337,7 +338,7 @@ constexpr T bortz_remainder_difference(const RateEnvelope<T>& eu, const RateEnve
   const RemainderParts<T> ps = bortz_remainder_parts(es, h);
   const RemainderParts<T> pu = bortz_remainder_parts(eu, h);
   const T change = ps.multilinear > pu.multilinear ? ps.multilinear - pu.multilinear : T(0);
-  const T rounding = T(8) * std::numeric_limits<T>::epsilon() * ps.multilinear;
+  const T rounding = T(64) * std::numeric_limits<T>::epsilon() * ps.multilinear;
   const T forcing = product(own, ev[0] * h * (T(0.5) + (es[0] + eu[0]) * h / T(24)));
   const T difference = ps.grow * (change + rounding + ps.others + pu.others + forcing);
   return smaller(separate, difference);
