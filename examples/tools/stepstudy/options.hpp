@@ -349,7 +349,7 @@ inline bool parse_vibration(const std::string& text, VibrationOption& v, std::st
     v.unit = AmplitudeUnit::deg_per_s;
   } else {
     error = head + "the unit '" + f[2] +
-            "' is not one of rad, deg (angle amplitude), rad/s, deg/s " + "(rate amplitude)";
+            "' is not one of rad, deg (angle amplitude), rad/s, deg/s (rate amplitude)";
     return false;
   }
   v.phases_known = f.size() == 4;
@@ -425,7 +425,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
         return false;
       }
       if (!detail::parse_number(v, o.max_rate) || o.max_rate < 0) {
-        error = a + ": '" + v + "' is not a non-negative finite number";
+        error = a;
+        error.append(": '").append(v).append("' is not a non-negative finite number");
         return false;
       }
       if (a == "--max-rate-deg") {
@@ -444,7 +445,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
         return false;
       }
       if (!detail::parse_triple(v, o.axis_rates, false)) {
-        error = a + ": '" + v + "' is not three non-negative finite numbers X,Y,Z";
+        error = a;
+        error.append(": '").append(v).append("' is not three non-negative finite numbers X,Y,Z");
         return false;
       }
       if (a == "--axis-rates-deg") {
