@@ -5,6 +5,7 @@
 #include <cmath>
 #include <cstddef>
 #include <cstdlib>
+#include <limits>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -20,12 +21,39 @@ inline constexpr std::array<const char*, 8> default_methods{"exponential_map_mid
                                                             "munthe_kaas_4_sampled",
                                                             "dormand_prince_54_rate_function"};
 
+// The largest number of vibration lines (VibrationSpec's capacity).
+inline constexpr std::size_t max_vibration_lines = 4;
+
+// Units a vibration amplitude can be given in: an angle amplitude (rad, deg) or a rate amplitude
+// (rad/s, deg/s), per body axis.
+enum class AmplitudeUnit { rad, deg, rad_per_s, deg_per_s };
+
+// One --vibration HZ:X,Y,Z:UNIT[:PX,PY,PZ] as given.
+struct VibrationOption {
+  std::string text;  // the option's value, for messages
+  double frequency_hz = 0;
+  std::array<double, 3> amplitude{};  // in `unit`, each >= 0
+  AmplitudeUnit unit = AmplitudeUnit::rad;
+  bool phases_known = false;
+  std::array<double, 3> phase_deg{};  // deg, when known
+};
+
 // Grouped by meaning, not packed: read once from the command line.
 struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool help = false;
   std::string motion;            // truth motion name ("" in bounds-only mode)
-  bool bounds_only = false;      // --envelope and/or --coning
-  std::vector<double> envelope;  // D0..D5 (rad/s^(k+1))
+  bool bounds_only = false;      // any of the description options below
+  std::vector<double> envelope;  // D0..D5 (rad/s^(k+1)) as given; +inf = unknown
+  // The maximum rate: a magnitude (rad/s) or per body axis (rad/s); max_rate_option says which
+  // option gave it and in what unit, for the printed description.
+  bool has_max_rate = false;
+  bool has_axis_rates = false;
+  double max_rate = 0;                 // rad/s (magnitude)
+  std::array<double, 3> axis_rates{};  // rad/s (per body axis)
+  std::string max_rate_option;         // "--max-rate", "--max-rate-deg", "--axis-rates", ...
+  bool has_bandwidth = false;
+  double bandwidth_hz = 0;                 // manoeuvre bandwidth (Hz)
+  std::vector<VibrationOption> vibration;  // at most four lines
   bool has_coning = false;
   double coning_deg = 0;             // half-angle (deg)
   double coning_hz = 0;              // frequency (Hz)
@@ -46,6 +74,7 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   double horizon = 0;         // s
   double gyro_rate = 1000.0;  // Hz
   std::string recommendation_file;
+  bool fixes = false;  // --fixes: longest time between external attitude fixes per method
 };
 
 inline const char* help_text() {
@@ -55,10 +84,9 @@ inline const char* help_text() {
          "budget.\n"
          "\n"
          "Usage:\n"
-         "  halfspin-stepstudy [--motion NAME | --envelope D0,D1,D2[,...] | --coning DEG,HZ] "
-         "[options]\n"
+         "  halfspin-stepstudy [--motion NAME | description options] [options]\n"
          "\n"
-         "What to study (one of):\n"
+         "What to study: a truth motion, or a description of the vehicle (below).\n"
          "  --motion NAME        a truth motion with exact attitude (default: demo):\n"
          "                         constant     constant body rate (0.9, -0.6, 1.3) rad/s;\n"
          "                                      bounds: RateEnvelope::constant_rate(|w|)\n"
@@ -78,16 +106,54 @@ inline const char* help_text() {
          "                         demo         the invented survey drone: banked turn carrying "
          "0.02 deg\n"
          "                                      coning at 85 Hz; bounds: its rate envelope\n"
-         "  --envelope D0,D1,D2[,D3,D4,D5]\n"
-         "                       a motion known only by bounds on |w| (rad/s), |w'| (rad/s^2), "
-         "|w''|\n"
-         "                       (rad/s^3), ...; derivatives not given are unknown (+inf)\n"
-         "  --coning DEG,HZ      classical coning of half-angle DEG (deg) at HZ (Hz); alone it is "
-         "pure\n"
-         "                       coning, with --envelope it is added to the envelope\n"
-         "                       With --envelope/--coning only bounds are shown (no measured "
-         "error,\n"
-         "                       no timing) and rate-function steppers are left out.\n"
+         "\n"
+         "Or describe the vehicle (bounds only; any combination of the parts below, which add):\n"
+         "  --envelope D0[,D1,...,D5]\n"
+         "                       bounds on |w| (rad/s), |w'| (rad/s^2), |w''| (rad/s^3), ... up to "
+         "D5\n"
+         "                       (rad/s^6); an entry 'inf' or 'unknown', and every derivative not "
+         "given,\n"
+         "                       is unknown (+inf: a bound that needs it is shown as 'needs Dk')\n"
+         "  --max-rate R         the largest body rate magnitude |w| (rad/s): D0 = R\n"
+         "  --max-rate-deg R     the same in deg/s\n"
+         "  --axis-rates X,Y,Z   the largest rate about each body axis (rad/s): D0 = |(X,Y,Z)|\n"
+         "  --axis-rates-deg X,Y,Z\n"
+         "                       the same in deg/s (one of the four max-rate options; not with "
+         "--envelope)\n"
+         "  --bandwidth HZ       the manoeuvre bandwidth (Hz), with a max-rate option: D_k = "
+         "(2*pi*HZ)^k * D0\n"
+         "                       (Bernstein's inequality). It assumes every rate component is "
+         "band-limited\n"
+         "                       to HZ (no content above it at all); describe vibration above it "
+         "with\n"
+         "                       --vibration. Without --bandwidth a max rate gives D0 only, D1.. "
+         "unknown.\n"
+         "  --vibration HZ:X,Y,Z:UNIT[:PX,PY,PZ]\n"
+         "                       a sinusoidal vibration line at HZ (Hz) with amplitude X,Y,Z (>= "
+         "0) "
+         "about\n"
+         "                       the body axes in UNIT: rad or deg (angle amplitude: the rate "
+         "amplitude\n"
+         "                       is 2*pi*HZ times it) or rad/s or deg/s (rate amplitude); "
+         "optional\n"
+         "                       phases PX,PY,PZ (deg), axis i's rate being A_i*cos(2*pi*HZ*t + "
+         "P_i);\n"
+         "                       without them the phases are unknown and the bounds hold for "
+         "every\n"
+         "                       phase. Repeat for up to 4 lines.\n"
+         "                       Example: --vibration 120:0,0,0.01:rad\n"
+         "  --coning DEG,HZ      classical coning of half-angle DEG (deg) at HZ (Hz)\n"
+         "                       Without a manoeuvre part (--envelope or a max-rate option) the "
+         "motion is\n"
+         "                       only the vibration and coning given (D_k = 0 otherwise); coning "
+         "alone is\n"
+         "                       pure coning. The description as understood (each D_k with its "
+         "unit and\n"
+         "                       origin, each line's rate and angle amplitude, the coning) is "
+         "printed\n"
+         "                       before the table. With a description only bounds are shown (no "
+         "measured\n"
+         "                       error, no timing) and rate-function steppers are left out.\n"
          "\n"
          "Sweep:\n"
          "  --methods LIST       comma-separated stepper names, or 'all' (default: "
@@ -125,7 +191,12 @@ inline const char* help_text() {
          "over\n"
          "                       step ends of the angle between propagated and true attitude), "
          "bound\n"
-         "                       (rad), observed order (log-log slope to the next smaller step of "
+         "                       (rad; where there is none, why: 'needs Dk' when a derivative "
+         "bound "
+         "the\n"
+         "                       method needs is unknown (supply D0..Dk), 'step too large', 'no "
+         "bound'),\n"
+         "                       observed order (log-log slope to the next smaller step of "
          "the\n"
          "                       same method and scalar, '-' where undefined), ns per step (wall "
          "clock\n"
@@ -133,7 +204,9 @@ inline const char* help_text() {
          "motion's\n"
          "                       rate evaluations)\n"
          "  --csv FILE           the table as CSV: method,scalar,step_s,max_error_rad,bound_rad,\n"
-         "                       ns_per_step (empty fields where not measured)\n"
+         "                       ns_per_step (empty fields where not measured; bound_rad inf where "
+         "there\n"
+         "                       is none)\n"
          "  --svg FILE           two log-log charts: max error (rad) against step (s) with the "
          "bounds\n"
          "                       dashed and the budget line; max error (rad) against cost "
@@ -154,7 +227,20 @@ inline const char* help_text() {
          "double\n"
          "                       is studied, else float's. Also printed: the largest step meeting "
          "the\n"
-         "                       budget for each studied method (select_step).\n"
+         "                       budget for each studied method (select_step), or why it has no "
+         "finite\n"
+         "                       bound ('needs Dk' at the step the gyro rate gives it).\n"
+         "  --fixes              with --budget: --horizon is the time between external attitude "
+         "fixes\n"
+         "                       (attitude re-anchored from other sensors); prints, for each "
+         "studied\n"
+         "                       method at the step the gyro rate gives it (its gyro periods per "
+         "step /\n"
+         "                       --gyro-rate), the longest time between fixes over which its "
+         "worst-case\n"
+         "                       bound stays within the budget (longest_fix_interval), and "
+         "whether that\n"
+         "                       covers --horizon\n"
          "\n"
          "  --help               this text\n"
          "\n"
@@ -204,6 +290,78 @@ inline bool parse_number(const std::string& text, double& value) {
   return end - text.c_str() == static_cast<std::ptrdiff_t>(text.size()) && std::isfinite(value);
 }
 
+// Three comma-separated finite numbers, each >= 0 unless `signed_values`.
+inline bool parse_triple(std::string_view text, std::array<double, 3>& out, bool signed_values) {
+  const std::vector<std::string> parts = split(text);
+  if (parts.size() != 3) {
+    return false;
+  }
+  for (std::size_t i = 0; i < 3; ++i) {
+    if (!parse_number(parts[i], out.at(i)) || (!signed_values && out.at(i) < 0)) {
+      return false;
+    }
+  }
+  return true;
+}
+
+// Splits on ':' (the fields of --vibration).
+inline std::vector<std::string> fields(std::string_view text) {
+  std::vector<std::string> parts;
+  std::size_t start = 0;
+  while (true) {
+    const std::size_t colon = text.find(':', start);
+    if (colon == std::string_view::npos) {
+      parts.emplace_back(text.substr(start));
+      return parts;
+    }
+    parts.emplace_back(text.substr(start, colon - start));
+    start = colon + 1;
+  }
+}
+
+// One --vibration value, HZ:X,Y,Z:UNIT[:PX,PY,PZ]; false with a message in `error`.
+inline bool parse_vibration(const std::string& text, VibrationOption& v, std::string& error) {
+  const std::string head = "--vibration '" + text + "': ";
+  // The unit rad/s contains no ':', so the fields split cleanly on ':'.
+  const std::vector<std::string> f = fields(text);
+  if (f.size() != 3 && f.size() != 4) {
+    error = head + "expected HZ:X,Y,Z:UNIT or HZ:X,Y,Z:UNIT:PX,PY,PZ (e.g. 120:0,0,0.01:rad)";
+    return false;
+  }
+  v.text = text;
+  if (!parse_number(f[0], v.frequency_hz) || !(v.frequency_hz > 0)) {
+    error = head + "the frequency '" + f[0] + "' is not a positive finite number (Hz)";
+    return false;
+  }
+  if (!parse_triple(f[1], v.amplitude, false)) {
+    error = head + "the amplitude '" + f[1] + "' is not three non-negative finite numbers X,Y,Z";
+    return false;
+  }
+  if (!(v.amplitude[0] > 0 || v.amplitude[1] > 0 || v.amplitude[2] > 0)) {
+    error = head + "every amplitude is zero (no vibration)";
+    return false;
+  }
+  if (f[2] == "rad") {
+    v.unit = AmplitudeUnit::rad;
+  } else if (f[2] == "deg") {
+    v.unit = AmplitudeUnit::deg;
+  } else if (f[2] == "rad/s") {
+    v.unit = AmplitudeUnit::rad_per_s;
+  } else if (f[2] == "deg/s") {
+    v.unit = AmplitudeUnit::deg_per_s;
+  } else {
+    error = head + "the unit '" + f[2] +
+            "' is not one of rad, deg (angle amplitude), rad/s, deg/s (rate amplitude)";
+    return false;
+  }
+  v.phases_known = f.size() == 4;
+  if (v.phases_known && !parse_triple(f[3], v.phase_deg, true)) {
+    error = head + "the phases '" + f[3] + "' are not three finite numbers PX,PY,PZ (deg)";
+    return false;
+  }
+  return true;
+}
+
 }  // namespace detail
 
 // Parses argv into `o`; on bad usage returns false with a message in `error`.
@@ -247,19 +405,87 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       if (!value(v)) {
         return false;
       }
+      o.envelope.clear();  // the last --envelope counts
       for (const std::string& part : detail::split(v)) {
         double d = 0;
-        if (!detail::parse_number(part, d) || d < 0) {
-          error = "--envelope: '" + part + "' is not a non-negative finite number";
+        if (part == "inf" || part == "unknown") {
+          d = std::numeric_limits<double>::infinity();
+        } else if (!detail::parse_number(part, d) || d < 0) {
+          error =
+              "--envelope: '" + part + "' is neither a non-negative finite number nor inf/unknown";
           return false;
         }
         o.envelope.push_back(d);
       }
-      if (o.envelope.size() < 3 || o.envelope.size() > 6) {
-        error = "--envelope takes 3 to 6 values D0,D1,D2[,D3,D4,D5]";
+      if (o.envelope.size() > 6) {
+        error = "--envelope takes 1 to 6 values D0[,D1,...,D5]";
         return false;
       }
       o.bounds_only = true;
+    } else if (a == "--max-rate" || a == "--max-rate-deg") {
+      if (!value(v)) {
+        return false;
+      }
+      if (!detail::parse_number(v, o.max_rate) || o.max_rate < 0) {
+        error = a;
+        error.append(": '").append(v).append("' is not a non-negative finite number");
+        return false;
+      }
+      if (a == "--max-rate-deg") {
+        o.max_rate *= std::acos(-1.0) / 180.0;
+      }
+      if (o.has_max_rate || o.has_axis_rates) {
+        error = a + ": the maximum rate is given twice (one of --max-rate, --max-rate-deg, " +
+                "--axis-rates, --axis-rates-deg)";
+        return false;
+      }
+      o.has_max_rate = true;
+      o.max_rate_option = a;
+      o.bounds_only = true;
+    } else if (a == "--axis-rates" || a == "--axis-rates-deg") {
+      if (!value(v)) {
+        return false;
+      }
+      if (!detail::parse_triple(v, o.axis_rates, false)) {
+        error = a;
+        error.append(": '").append(v).append("' is not three non-negative finite numbers X,Y,Z");
+        return false;
+      }
+      if (a == "--axis-rates-deg") {
+        for (double& r : o.axis_rates) {
+          r *= std::acos(-1.0) / 180.0;
+        }
+      }
+      if (o.has_max_rate || o.has_axis_rates) {
+        error = a + ": the maximum rate is given twice (one of --max-rate, --max-rate-deg, " +
+                "--axis-rates, --axis-rates-deg)";
+        return false;
+      }
+      o.has_axis_rates = true;
+      o.max_rate_option = a;
+      o.bounds_only = true;
+    } else if (a == "--bandwidth") {
+      if (!positive(o.bandwidth_hz)) {
+        return false;
+      }
+      o.has_bandwidth = true;
+      o.bounds_only = true;
+    } else if (a == "--vibration") {
+      if (!value(v)) {
+        return false;
+      }
+      VibrationOption line;
+      if (!detail::parse_vibration(v, line, error)) {
+        return false;
+      }
+      if (o.vibration.size() == max_vibration_lines) {
+        error = "--vibration: at most 4 lines";
+        return false;
+      }
+      o.vibration.push_back(line);
+      o.bounds_only = true;
+    } else if (a == "--fixes") {
+      o.fixes = true;
     } else if (a == "--coning") {
       if (!value(v)) {
         return false;
@@ -375,7 +601,23 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
     }
   }
   if (o.bounds_only && !o.motion.empty()) {
-    error = "--motion cannot be combined with --envelope/--coning";
+    error =
+        "--motion cannot be combined with a description (--envelope, --max-rate*, "
+        "--axis-rates*, --bandwidth, --vibration, --coning)";
+    return false;
+  }
+  if (!o.envelope.empty() && (o.has_max_rate || o.has_axis_rates)) {
+    error = "--envelope and a max-rate option both give D0: use one";
+    return false;
+  }
+  if (o.has_bandwidth && !o.has_max_rate && !o.has_axis_rates) {
+    error =
+        "--bandwidth needs the maximum rate (--max-rate, --max-rate-deg, --axis-rates or "
+        "--axis-rates-deg)";
+    return false;
+  }
+  if (o.fixes && !o.has_budget) {
+    error = "--fixes needs --budget and --horizon (the time between fixes)";
     return false;
   }
   if (!o.bounds_only && o.motion.empty()) {

@@ -22,6 +22,8 @@
 #include <utility>
 #include <vector>
 
+#include "halfspin/bounds/bound_report.hpp"
+#include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
@@ -31,6 +33,7 @@
 #include "options.hpp"
 #include "study_motions.hpp"
 #include "svg_chart.hpp"
+#include "vehicle_description.hpp"
 
 namespace {
 
@@ -52,6 +55,7 @@ struct Row {
   std::int64_t steps = 0;
   double max_error_rad = std::numeric_limits<double>::quiet_NaN();
   double bound_rad = std::numeric_limits<double>::quiet_NaN();
+  std::string bound_note;  // why there is no finite bound ("needs D3", ...); empty when there is
   double order = std::numeric_limits<double>::quiet_NaN();
   double ns_per_step = std::numeric_limits<double>::quiet_NaN();
 };
@@ -125,6 +129,30 @@ class Progress {
   bool on_;
 };
 
+// The table's words for a report without a finite bound (bound_report.hpp); "" when it has one.
+template <class T>
+std::string bound_note(const BoundReport<T>& r) {
+  switch (r.status) {
+    case BoundStatus::ok:
+      return "";
+    case BoundStatus::needs_derivative:
+      return "needs D" + std::to_string(r.needed_derivative);
+    case BoundStatus::step_too_large:
+      return "step too large";
+    case BoundStatus::no_bound_for_stepper:
+      return "no bound";
+    case BoundStatus::invalid_arguments:
+      return "invalid";
+  }
+  return "";
+}
+
+template <class T>
+void set_bound(Row& row, const BoundReport<T>& r) {
+  row.bound_rad = static_cast<double>(r.value_rad);
+  row.bound_note = bound_note(r);
+}
+
 template <class Stepper, class T, class Accumulation>
 Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& failed) {
   Row row;
@@ -134,8 +162,8 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   const MotionDescription<T> d = description_in<T>(motion.description);
   if (o.bounds_only) {
     row.steps = steps_for_horizon(dt, o.duration);
-    row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T, Accumulation>(
-        d, static_cast<T>(dt), static_cast<T>(o.duration)));
+    set_bound(row, horizon_error_report<Stepper, T, Accumulation>(d, static_cast<T>(dt),
+                                                                  static_cast<T>(o.duration)));
     return row;
   }
   const std::int64_t steps = std::max<std::int64_t>(1, std::llround(o.duration / dt));
@@ -146,8 +174,8 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   row.steps = run.steps;
   row.max_error_rad = run.max_error_rad;
   row.ns_per_step = run.ns_per_step;
-  row.bound_rad = static_cast<double>(horizon_error_bound<Stepper, T, Accumulation>(
-      d, static_cast<T>(dt), static_cast<T>(static_cast<double>(steps) * dt)));
+  set_bound(row, horizon_error_report<Stepper, T, Accumulation>(
+                     d, static_cast<T>(dt), static_cast<T>(static_cast<double>(steps) * dt)));
   return row;
 }
 
@@ -166,15 +194,16 @@ void fill_orders(std::vector<Row>& rows) {
 }
 
 void print_table(const std::vector<Row>& rows, bool bounds_only) {
-  std::printf("%-34s %-6s %10s %10s %11s %11s %6s %10s\n", "method", "scalar", "step (s)",
+  std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s\n", "method", "scalar", "step (s)",
               bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order",
               "ns/step");
   for (const Row& r : rows) {
     const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
     const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
-    std::printf("%-34s %-6s %10.3e %10lld %11s %11s %6s %10s\n", r.method.c_str(), r.scalar.c_str(),
+    const std::string bound = r.bound_note.empty() ? sci(r.bound_rad) : r.bound_note;
+    std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s\n", r.method.c_str(), r.scalar.c_str(),
                 r.step_s, static_cast<long long>(r.steps), sci(r.max_error_rad).c_str(),
-                sci(r.bound_rad).c_str(), order.c_str(), ns.c_str());
+                bound.c_str(), order.c_str(), ns.c_str());
   }
 }
 
@@ -293,6 +322,65 @@ const char* outcome_text(CandidateOutcome c) {
   return "";
 }
 
+// The step (s) the gyro rate gives Stepper: its gyro periods per step over the sample rate, in T,
+// as recommend_stepper computes it.
+template <class Stepper, class T>
+T gyro_step(const Options& o) {
+  return static_cast<T>(periods_per_step(Stepper::layout, Stepper::window)) /
+         static_cast<T>(o.gyro_rate);
+}
+
+// --fixes: per studied method at its gyro step, the longest time between external attitude fixes
+// over which the worst-case bound stays within the budget (fix_interval.hpp).
+template <class T, class Accumulation>
+void print_fix_intervals(const Options& o, const MotionDescription<T>& d,
+                         const std::vector<std::string>& methods) {
+  std::printf(
+      "  longest time between external attitude fixes meeting the budget, per studied method at\n"
+      "  the step the %g Hz gyro gives it (longest_fix_interval; --horizon %g s asked):\n",
+      o.gyro_rate, o.horizon);
+  for (const std::string& name : methods) {
+    visit_method(name, [&](auto tag) {
+      using S = typename decltype(tag)::type;
+      const T dt = gyro_step<S, T>(o);
+      const FixInterval<T> f =
+          longest_fix_interval<S, T, Accumulation>(d, dt, static_cast<T>(o.budget));
+      const double step = static_cast<double>(dt);
+      switch (f.status) {
+        case FixIntervalStatus::ok:
+          std::printf(
+              "    %-34s step %.4e s: longest time between fixes %.6e s (%lld steps, bound %.3e "
+              "rad)%s\n",
+              S::name, step, static_cast<double>(f.interval_s), static_cast<long long>(f.steps),
+              static_cast<double>(f.bound_rad),
+              static_cast<double>(f.interval_s) >= o.horizon ? ", covers --horizon"
+                                                             : ", shorter than --horizon");
+          break;
+        case FixIntervalStatus::unbounded:
+          std::printf(
+              "    %-34s step %.4e s: longest time between fixes at least %.6e s (%lld steps, "
+              "the search cap; bound %.3e rad), covers --horizon\n",
+              S::name, step, static_cast<double>(f.interval_s), static_cast<long long>(f.steps),
+              static_cast<double>(f.bound_rad));
+          break;
+        case FixIntervalStatus::not_one_step:
+          std::printf(
+              "    %-34s step %.4e s: no time between fixes: one step's bound %.3e rad exceeds "
+              "the budget\n",
+              S::name, step, static_cast<double>(f.next_bound_rad));
+          break;
+        case FixIntervalStatus::no_bound:
+          std::printf("    %-34s step %.4e s: no finite bound (%s)\n", S::name, step,
+                      bound_note(f.first_step).c_str());
+          break;
+        case FixIntervalStatus::invalid_arguments:
+          std::printf("    %-34s step %.4e s: invalid arguments\n", S::name, step);
+          break;
+      }
+    });
+  }
+}
+
 struct Chosen {
   bool found = false;
   std::string method;
@@ -374,14 +462,22 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
                       figure, static_cast<double>(s.minimum_bound_rad),
                       static_cast<double>(s.minimizing_step_s));
           break;
-        case StepSelectionStatus::no_bound:
-          std::printf("    %-34s no finite bound for this description\n", S::name);
+        case StepSelectionStatus::no_bound: {
+          // Why, at the step the gyro rate gives this method (bound_report.hpp).
+          const std::string why = bound_note(horizon_error_report<S, T, Accumulation>(
+              d, gyro_step<S, T>(o), static_cast<T>(o.horizon)));
+          std::printf("    %-34s no finite bound for this description%s%s\n", S::name,
+                      why.empty() ? "" : ": ", why.c_str());
           break;
+        }
         case StepSelectionStatus::invalid_arguments:
           std::printf("    %-34s invalid arguments\n", S::name);
           break;
       }
     });
+  }
+  if (o.fixes) {
+    print_fix_intervals<T, Accumulation>(o, d, methods);
   }
   return chosen;
 }
@@ -416,17 +512,7 @@ int main(int argc, char** argv) {
   if (o.bounds_only) {
     motion.name = "description";
     std::string summary;
-    if (!o.envelope.empty()) {
-      for (std::size_t k = 0; k < o.envelope.size(); ++k) {
-        motion.description.maneuver.derivative[k] = o.envelope[k];
-      }
-      summary = "envelope D0..D" + std::to_string(o.envelope.size() - 1) + " given";
-    }
-    if (o.has_coning) {
-      motion.description.coning = ConingSpec<double>{o.coning_deg * degree, o.coning_hz};
-      summary += (summary.empty() ? "" : " + ") + format("coning %g deg", o.coning_deg) +
-                 format(" at %g Hz", o.coning_hz);
-    }
+    motion.description = vehicle_description(o, summary);
     motion.summary = summary;
     motion.description_summary = summary;
     motion.default_step_min = 1e-4;
@@ -509,6 +595,9 @@ int main(int argc, char** argv) {
               o.steps);
   std::printf("  accumulation: float %s, double plain (--accumulation)\n\n",
               o.compensated_float ? "compensated" : "plain");
+  if (o.bounds_only) {
+    print_vehicle_description(o, motion.description);
+  }
 
   std::vector<Row> rows;
   Progress progress(methods.size() * scalars.size() * steps.size());

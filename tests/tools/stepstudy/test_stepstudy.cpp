@@ -21,6 +21,10 @@
 #include <tuple>
 #include <vector>
 
+#include "halfspin/bounds/bound_report.hpp"
+#include "halfspin/bounds/fix_interval.hpp"
+#include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/stepper_catalogue.hpp"
 
 namespace {
@@ -253,6 +257,18 @@ TEST_CASE("help documents units, exit codes and the caution, and bad usage exits
                              "--horizon",
                              "--gyro-rate",
                              "--recommendation-file",
+                             "--max-rate",
+                             "--max-rate-deg",
+                             "--axis-rates",
+                             "--axis-rates-deg",
+                             "--bandwidth",
+                             "--vibration HZ:X,Y,Z:UNIT[:PX,PY,PZ]",
+                             "rad or deg (angle amplitude",
+                             "rad/s or deg/s (rate amplitude)",
+                             "--fixes",
+                             "needs Dk",
+                             "unknown",
+                             "(rad/s^2)",
                              "(s)",
                              "(rad)",
                              "(Hz)",
@@ -265,10 +281,10 @@ TEST_CASE("help documents units, exit codes and the caution, and bad usage exits
   }
   // Bad usage, each on its own: exit code 1 and a message on stderr.
   int n = 0;
-  for (const char* args :
-       {"--no-such-option", "--motion nowhere", "--methods rk9", "--step-min -1", "--steps 0",
-        "--budget 1e-3", "--scalar half", "--motion coning --coning 1,5", "--envelope 1,2",
-        "--step-min 1e-2 --step-max 1e-3", "--recommendation-file x.txt"}) {
+  for (const char* args : {"--no-such-option", "--motion nowhere", "--methods rk9", "--step-min -1",
+                           "--steps 0", "--budget 1e-3", "--scalar half",
+                           "--motion coning --coning 1,5", "--envelope 1,2,3,4,5,6,7",
+                           "--step-min 1e-2 --step-max 1e-3", "--recommendation-file x.txt"}) {
     INFO(args);
     const Result r = run_tool(args, "bad" + std::to_string(n++));
     CHECK(r.exit_code == 1);
@@ -322,7 +338,8 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   CHECK(text.find("stroke-dasharray=\"7 4\"") != std::string::npos);  // the dashed bounds
 }
 
-TEST_CASE("SVG series colours: distinct, visible on white; the fonts end in a generic family",
+// No ';' in a test name: catch_discover_tests splits the name there, and the halves match no test.
+TEST_CASE("SVG series colours: distinct, visible on white, and the fonts end in a generic family",
           "[tools][reference]") {
   // Bounds only and every sample-driven stepper: more series than the nine palette colours, so the
   // fallback colours are checked too.
@@ -605,4 +622,384 @@ TEST_CASE("re-running at the recommended step meets the budget on the truth moti
       CHECK(rows[0].max_error_rad <= bound);
       CHECK(rows[0].max_error_rad > 0);
     }
+}
+
+// ---- Describing a vehicle (issue 15): the description options, the printed description, the
+// table's reasons, the longest time between fixes. ----
+
+namespace {
+
+constexpr double pi_value = 3.14159265358979323846;
+
+// A bounds-only run of one method at one step (s), double, whose output is inspected.
+std::string describe_args(const std::string& description) {
+  return description + " --methods magnus_4 --scalar double --step 1e-3 --duration 1";
+}
+
+// The line of `out` that starts (after leading blanks) with `prefix`; "" if none.
+std::string line_starting(const std::string& out, const std::string& prefix) {
+  for (const std::string& line : lines_of(out)) {
+    const std::size_t first = line.find_first_not_of(' ');
+    if (first != std::string::npos && line.compare(first, prefix.size(), prefix) == 0) {
+      return line.substr(first);
+    }
+  }
+  return "";
+}
+
+// The numbers of a printed triple "(a, b, c)" after `label` in `line`.
+std::vector<double> triple_after(const std::string& line, const std::string& label) {
+  const std::size_t at = line.find(label);
+  REQUIRE(at != std::string::npos);
+  const std::size_t open = line.find('(', at + label.size());
+  const std::size_t close = line.find(')', open);
+  REQUIRE(open != std::string::npos);
+  REQUIRE(close != std::string::npos);
+  std::vector<double> values;
+  for (std::string part : split(line.substr(open + 1, close - open - 1), ',')) {
+    part.erase(0, part.find_first_not_of(' '));
+    values.push_back(number(part));
+  }
+  REQUIRE(values.size() == 3u);
+  return values;
+}
+
+// D_k as printed in "Dk = <value> <unit> ..." of the description; NaN when printed as unknown.
+double printed_derivative(const std::string& out, int k, const std::string& unit) {
+  const std::string line = line_starting(out, "D" + std::to_string(k) + " = ");
+  INFO("D" << k << " line: '" << line << "'");
+  REQUIRE(!line.empty());
+  std::istringstream in(line);
+  std::string name;
+  std::string eq;
+  std::string value;
+  std::string printed_unit;
+  in >> name >> eq >> value >> printed_unit;
+  if (value == "unknown") {
+    CHECK(printed_unit == "(" + unit + "):");
+    return std::nan("");
+  }
+  CHECK(printed_unit == unit);
+  return number(value);
+}
+
+}  // namespace
+
+TEST_CASE("description options: valid values run, malformed ones exit 1 with a message naming it",
+          "[tools]") {
+  int n = 0;
+  for (const char* args :
+       {"--envelope 1", "--envelope 1,2,unknown,inf", "--envelope 1,2,3,4,5,6", "--max-rate 3",
+        "--max-rate-deg 170 --bandwidth 4", "--axis-rates 1,2,0.5 --bandwidth 2",
+        "--axis-rates-deg 100,100,40", "--vibration 120:0,0,0.01:rad",
+        "--vibration 85:0.02,0.02,0:deg:0,90,0", "--vibration 30:0.1,0,0:rad/s",
+        "--vibration 30:1,2,3:deg/s:10,-20,370 --coning 0.5,40",
+        "--max-rate 2 --bandwidth 3 --vibration 120:0,0,0.01:rad --vibration 240:0,0,0.002:rad "
+        "--vibration 50:0.1,0.1,0:deg/s --vibration 7:0,0.001,0:rad --coning 0.01,85"}) {
+    INFO(args);
+    const Result r = run_tool(describe_args(args), "describe_ok" + std::to_string(n++));
+    INFO(r.err);
+    CHECK(r.exit_code == 0);
+    CHECK(r.out.find("Description as understood") != std::string::npos);
+  }
+  struct Bad {
+    const char* args;
+    const char* names;  // the message names the option
+  };
+  for (const Bad& b :
+       {Bad{"--envelope 1,x", "--envelope"},
+        Bad{"--envelope 1,,3", "--envelope"},
+        Bad{"--envelope -1", "--envelope"},
+        Bad{"--envelope 1,nan", "--envelope"},
+        Bad{"--envelope 1,2,3,4,5,6,7", "--envelope"},
+        Bad{"--max-rate fast", "--max-rate"},
+        Bad{"--max-rate -2", "--max-rate"},
+        Bad{"--max-rate-deg inf", "--max-rate-deg"},
+        Bad{"--axis-rates 1,2", "--axis-rates"},
+        Bad{"--axis-rates-deg 1,2,-3", "--axis-rates-deg"},
+        Bad{"--max-rate 1 --axis-rates 1,1,1", "--axis-rates"},
+        Bad{"--max-rate 1 --envelope 1,2", "--envelope"},
+        Bad{"--bandwidth 5", "--bandwidth"},
+        Bad{"--max-rate 1 --bandwidth 0", "--bandwidth"},
+        Bad{"--vibration 120", "--vibration"},
+        Bad{"--vibration 120:0,0,0.01", "--vibration"},
+        Bad{"--vibration 120:0,0,0.01:mrad", "--vibration"},
+        Bad{"--vibration -5:0,0,0.01:rad", "--vibration"},
+        Bad{"--vibration 120:0,0,-0.01:rad", "--vibration"},
+        Bad{"--vibration 120:0,0,0:rad", "--vibration"},
+        Bad{"--vibration 120:0,0,0.01:rad:0,90", "--vibration"},
+        Bad{"--vibration 120:0,0,0.01:rad:0,90,0:1", "--vibration"},
+        Bad{"--vibration 1:1,0,0:rad --vibration 2:1,0,0:rad --vibration 3:1,0,0:rad "
+            "--vibration 4:1,0,0:rad --vibration 5:1,0,0:rad",
+            "--vibration"},
+        Bad{"--motion demo --vibration 120:0,0,0.01:rad", "--motion"},
+        Bad{"--max-rate 1 --fixes", "--fixes"}}) {
+    INFO(b.args);
+    const Result r = run_tool(std::string(b.args) + " --methods magnus_4 --step 1e-3",
+                              "describe_bad" + std::to_string(n++));
+    CHECK(r.exit_code == 1);
+    CHECK(r.err.find(b.names) != std::string::npos);
+    CHECK(r.out.empty());
+  }
+}
+
+TEST_CASE("the printed description: units, unknowns, and a line's rate and angle amplitudes",
+          "[tools][reference]") {
+  // Partial envelope with an explicit unknown: D2 given as unknown, D3..D5 not given.
+  const Result e = run_tool(describe_args("--envelope 1.5,2,unknown"), "describe_envelope");
+  REQUIRE(e.exit_code == 0);
+  CHECK(printed_derivative(e.out, 0, "rad/s") == 1.5);
+  CHECK(printed_derivative(e.out, 1, "rad/s^2") == 2.0);
+  CHECK(std::isnan(printed_derivative(e.out, 2, "rad/s^3")));
+  CHECK(line_starting(e.out, "D2 = ").find("given as unknown") != std::string::npos);
+  for (int k = 3; k <= 5; ++k) {
+    CHECK(std::isnan(printed_derivative(e.out, k, "rad/s^" + std::to_string(k + 1))));
+    CHECK(line_starting(e.out, "D" + std::to_string(k) + " = ").find("not given") !=
+          std::string::npos);
+  }
+  CHECK(e.out.find(" inf") == std::string::npos);
+
+  // 0.5 deg at 100 Hz about x: an oscillation θ(t) = θ0 sin(2πft) has rate amplitude 2πf·θ0
+  // (closed form), 2π·100·0.5·π/180 = 5.4831… rad/s; phases not given: unknown.
+  const Result v = run_tool(describe_args("--vibration 100:0.5,0,0:deg"), "describe_deg");
+  REQUIRE(v.exit_code == 0);
+  const std::string rate = line_starting(v.out, "rate amplitude");
+  const std::vector<double> a = triple_after(rate, "rate amplitude");
+  CHECK(rate.find(") rad/s") != std::string::npos);
+  CHECK(a[0] == Approx(2 * pi_value * 100 * 0.5 * pi_value / 180).epsilon(2e-6));
+  CHECK(a[1] == 0.0);
+  CHECK(a[2] == 0.0);
+  const std::string angle = line_starting(v.out, "angle amplitude");
+  CHECK(triple_after(angle, "angle amplitude")[0] == Approx(0.5 * pi_value / 180).epsilon(2e-6));
+  CHECK(triple_after(angle, " rad = ")[0] == Approx(0.5).epsilon(2e-6));
+  CHECK(line_starting(v.out, "phases") == "phases          unknown (bounds hold for every phase)");
+  // No manoeuvre given: the description says so (D_k = 0 for the manoeuvre part).
+  CHECK(v.out.find("manoeuvre: none described") != std::string::npos);
+
+  // A rate amplitude in deg/s with known phases: 10 deg/s at 50 Hz about z is 10π/180 rad/s and
+  // an angle amplitude of 10/(2π·50) deg (the same closed form read backwards).
+  const Result w =
+      run_tool(describe_args("--vibration 50:0,0,10:deg/s:0,90,-45"), "describe_deg_s");
+  REQUIRE(w.exit_code == 0);
+  CHECK(triple_after(line_starting(w.out, "rate amplitude"), "rate amplitude")[2] ==
+        Approx(10 * pi_value / 180).epsilon(2e-6));
+  CHECK(triple_after(line_starting(w.out, "angle amplitude"), " rad = ")[2] ==
+        Approx(10 / (2 * pi_value * 50)).epsilon(2e-6));
+  CHECK(line_starting(w.out, "phases") == "phases          (0, 90, -45) deg (known)");
+
+  // A max rate in deg/s without a bandwidth: D0 = 30π/180 rad/s, the rest unknown.
+  const Result m = run_tool(describe_args("--max-rate-deg 30"), "describe_max_rate_deg");
+  REQUIRE(m.exit_code == 0);
+  CHECK(printed_derivative(m.out, 0, "rad/s") == Approx(30 * pi_value / 180).epsilon(2e-6));
+  CHECK(line_starting(m.out, "D0 = ").find("(30 deg/s)") != std::string::npos);
+  CHECK(std::isnan(printed_derivative(m.out, 1, "rad/s^2")));
+  CHECK(line_starting(m.out, "D1 = ").find("no --bandwidth") != std::string::npos);
+
+  // Per-axis maxima (1, 2, 2) rad/s: D0 = |(1, 2, 2)| = 3 rad/s (closed form).
+  const Result x = run_tool(describe_args("--axis-rates 1,2,2"), "describe_axis_rates");
+  REQUIRE(x.exit_code == 0);
+  CHECK(printed_derivative(x.out, 0, "rad/s") == Approx(3.0).epsilon(2e-6));
+
+  // Coning is listed with its half-angle in deg and rad.
+  const Result c = run_tool(describe_args("--coning 0.5,40"), "describe_coning");
+  REQUIRE(c.exit_code == 0);
+  const std::string cone = line_starting(c.out, "coning: half-angle 0.5 deg (");
+  REQUIRE(!cone.empty());
+  CHECK(number(cone.substr(std::string("coning: half-angle 0.5 deg (").size(), 12)) ==
+        Approx(0.5 * pi_value / 180).epsilon(2e-6));
+  CHECK(cone.find("at 40 Hz") != std::string::npos);
+}
+
+TEST_CASE("max rate and bandwidth give D_k = (2 pi B)^k D0, the assumption stated once",
+          "[tools][reference]") {
+  // Bernstein's inequality: a bounded function band-limited to B has sup|f'| <= 2πB sup|f|, hence
+  // sup|f^(k)| <= (2πB)^k sup|f| (R. P. Boas, Entire Functions, Academic Press 1954; cited from
+  // memory).
+  const double d0 = 3.0;
+  const double bandwidth = 5.0;
+  const Result r = run_tool(describe_args("--max-rate 3 --bandwidth 5"), "bernstein");
+  REQUIRE(r.exit_code == 0);
+  double expected = d0;
+  for (int k = 0; k <= 5; ++k) {
+    const std::string unit = k == 0 ? "rad/s" : "rad/s^" + std::to_string(k + 1);
+    INFO("D" << k);
+    CHECK(printed_derivative(r.out, k, unit) == Approx(expected).epsilon(2e-6));
+    if (k > 0) {
+      CHECK(line_starting(r.out, "D" + std::to_string(k) + " = ").find("Bernstein") !=
+            std::string::npos);
+    }
+    expected *= 2 * pi_value * bandwidth;
+  }
+  std::size_t stated = 0;
+  for (std::size_t at = r.out.find("band-limited to 5 Hz"); at != std::string::npos;
+       at = r.out.find("band-limited to 5 Hz", at + 1)) {
+    ++stated;
+  }
+  CHECK(stated == 1u);
+}
+
+TEST_CASE("a bound the description cannot give says why: needs Dk, step too large", "[tools]") {
+  // RK4 with D0..D2 only. The library's report (bounds/bound_report.hpp) says RK4's bound needs
+  // D0..D5; the table must say the same instead of inf.
+  using Description = halfspin::MotionDescription<double>;
+  Description d{};
+  d.maneuver = halfspin::RateEnvelope<double>::from_derivatives(1.0, 2.0, 3.0);
+  const auto report =
+      halfspin::horizon_error_report<halfspin::RungeKutta4Sampled, double>(d, 1e-3, 1.0);
+  REQUIRE(report.status == halfspin::BoundStatus::needs_derivative);
+  CHECK(report.needed_derivative == 5u);
+  const Result r = run_tool(
+      "--envelope 1,2,3 --methods runge_kutta_4_sampled --scalar double --step 1e-3 --duration 1",
+      "needs_d5");
+  REQUIRE(r.exit_code == 0);
+  const std::string row = line_starting(r.out, "runge_kutta_4_sampled ");
+  INFO(row);
+  CHECK(row.find("needs D5") != std::string::npos);
+  CHECK(row.find("inf") == std::string::npos);
+  // Supplying D3..D5 gives a finite bound, the library's (printed to 4 digits).
+  d.maneuver = halfspin::RateEnvelope<double>::from_derivatives(1.0, 2.0, 3.0, 4.0, 5.0, 6.0);
+  const double bound =
+      halfspin::horizon_error_bound<halfspin::RungeKutta4Sampled, double>(d, 1e-3, 1.0);
+  REQUIRE(std::isfinite(bound));
+  const Result full = run_tool(
+      "--envelope 1,2,3,4,5,6 --methods runge_kutta_4_sampled --scalar double --step 1e-3 "
+      "--duration 1",
+      "needs_none");
+  REQUIRE(full.exit_code == 0);
+  const std::vector<std::string> words =
+      table_rows(full.out, "runge_kutta_4_sampled", "double").at(0);
+  CHECK(number(words[5]) == Approx(bound).epsilon(1e-3));
+  // D0·dt = 10 rad/s × 0.5 s = 5 rad > 1 rad: outside every bound's range whatever the other
+  // derivatives (bound_report.hpp).
+  const Result big = run_tool(
+      "--envelope 10 --methods magnus_4 --scalar double --step 0.5 --duration 5", "too_large");
+  REQUIRE(big.exit_code == 0);
+  CHECK(line_starting(big.out, "magnus_4 ").find("step too large") != std::string::npos);
+}
+
+namespace {
+
+// The longest time between fixes printed for `method`: {interval (s), steps}; REQUIREs the line.
+std::pair<double, long long> printed_fix_interval(const std::string& out, const std::string& method,
+                                                  std::size_t from) {
+  const std::string marker = "longest time between fixes ";
+  for (std::size_t at = out.find(method + " ", from); at != std::string::npos;
+       at = out.find(method + " ", at + 1)) {
+    const std::size_t end = out.find('\n', at);
+    const std::string line = out.substr(at, end - at);
+    const std::size_t m = line.find(marker);
+    if (m == std::string::npos) {
+      continue;
+    }
+    double interval = 0;
+    long long steps = 0;
+    REQUIRE(std::sscanf(line.c_str() + m + marker.size(), "%lf s (%lld steps", &interval, &steps) ==
+            2);
+    return {interval, steps};
+  }
+  FAIL("no fix-interval line for " << method);
+  return {0, 0};
+}
+
+// The worked example of the tool's README: 2 kHz gyro, manoeuvres up to 3 rad/s with a 5 Hz
+// bandwidth, a 120 Hz vibration of 0.01 rad about z, budget 0.05 deg over 10 s between fixes.
+halfspin::MotionDescription<double> worked_example() {
+  halfspin::MotionDescription<double> d{};
+  d.maneuver = halfspin::RateEnvelope<double>::from_bandwidth(3.0, 5.0);
+  d.vibration.add(halfspin::VibrationLine<double>::from_angle_amplitude(120.0, {0.0, 0.0, 0.01}));
+  return d;
+}
+
+template <class Stepper, class T, class Accumulation>
+void check_fix_interval(const std::string& out, std::size_t from, double budget_rad) {
+  const auto d = worked_example().template converted<T>();
+  // The step the 2 kHz gyro gives the stepper (recommendation.hpp: periods / sample rate, in T).
+  const T dt = static_cast<T>(halfspin::periods_per_step(Stepper::layout, Stepper::window)) /
+               static_cast<T>(2000.0);
+  const halfspin::FixInterval<T> f =
+      halfspin::longest_fix_interval<Stepper, T, Accumulation>(d, dt, static_cast<T>(budget_rad));
+  INFO(Stepper::name << " in " << (sizeof(T) == 4 ? "float" : "double"));
+  REQUIRE(f.status == halfspin::FixIntervalStatus::ok);
+  const auto printed = printed_fix_interval(out, Stepper::name, from);
+  CHECK(printed.second == f.steps);
+  CHECK(printed.first == Approx(static_cast<double>(f.interval_s)).epsilon(1e-6));
+}
+
+}  // namespace
+
+TEST_CASE("the fix-interval lines (--fixes) agree with the library's longest_fix_interval",
+          "[tools]") {
+  const double budget = 0.05 * pi_value / 180;  // 0.05 deg
+  char budget_text[64];
+  std::snprintf(budget_text, sizeof budget_text, "%.17g", budget);
+  const Result r = run_tool(std::string("--max-rate 3 --bandwidth 5 --vibration 120:0,0,0.01:rad "
+                                        "--budget ") +
+                                budget_text +
+                                " --horizon 10 --duration 10 --gyro-rate 2000 --fixes --methods "
+                                "magnus_4,coning_2_sample,coning_3_sample --step-min 5e-4 "
+                                "--step-max 2e-3 --steps 3",
+                            "fixes");
+  INFO(r.out << r.err);
+  REQUIRE(r.exit_code == 0);
+  // The envelopes add (triangle inequality): D0 = 3 + 2π·120·0.01 rad/s (closed form).
+  CHECK(r.out.find("band-limited to 5 Hz") != std::string::npos);
+  const std::size_t whole = r.out.find("whole motion, sum of the parts");
+  REQUIRE(whole != std::string::npos);
+  double whole_d0 = 0;
+  REQUIRE(std::sscanf(r.out.c_str() + r.out.find('\n', whole), " D0 %lf", &whole_d0) == 1);
+  CHECK(whole_d0 == Approx(3.0 + 2 * pi_value * 120 * 0.01).epsilon(1e-3));
+  // One section per scalar: float first (compensated accumulation), then double (plain).
+  const std::size_t in_float = r.out.find("Recommendation in float, compensated");
+  const std::size_t in_double = r.out.find("Recommendation in double, plain");
+  REQUIRE(in_float != std::string::npos);
+  REQUIRE(in_double != std::string::npos);
+  REQUIRE(in_float < in_double);
+  CHECK(r.out.find("longest time between external attitude fixes", in_float) < in_double);
+  check_fix_interval<halfspin::Magnus4, float, halfspin::CompensatedAccumulation>(r.out, in_float,
+                                                                                  budget);
+  check_fix_interval<halfspin::Coning2Sample, float, halfspin::CompensatedAccumulation>(
+      r.out, in_float, budget);
+  check_fix_interval<halfspin::Coning3Sample, float, halfspin::CompensatedAccumulation>(
+      r.out, in_float, budget);
+  check_fix_interval<halfspin::Magnus4, double, halfspin::PlainAccumulation>(r.out, in_double,
+                                                                             budget);
+  check_fix_interval<halfspin::Coning2Sample, double, halfspin::PlainAccumulation>(r.out, in_double,
+                                                                                   budget);
+}
+
+TEST_CASE("a vibration line with unknown phases bounds at least as much as with any known phases",
+          "[tools]") {
+  // With unknown phases the library bounds the worst case over every phase
+  // (bounds/motion_description.hpp: each pair of axes in quadrature); a known phase is one case.
+  const std::string sweep =
+      " --max-rate 1 --bandwidth 2 --methods exponential_map_midpoint_mean,magnus_4,"
+      "coning_2_sample,coning_3_sample,runge_kutta_4_sampled --scalar double --step-min 2.5e-4 "
+      "--step-max 2e-3 --steps 4 --duration 10 --csv ";
+  const std::string unknown_csv = path("phases_unknown.csv");
+  REQUIRE(run_tool("--vibration 120:0.01,0.008,0.004:rad" + sweep + "'" + unknown_csv + "'",
+                   "phases_unknown")
+              .exit_code == 0);
+  const std::vector<CsvRow> unknown = read_csv(unknown_csv, false);
+  REQUIRE(unknown.size() == 5u * 4u);
+  int strictly_smaller = 0;
+  int n = 0;
+  for (const char* phases : {"0,0,0", "0,90,0", "0,90,180", "30,200,75", "-90,0,90"}) {
+    const std::string csv = path("phases_" + std::to_string(n) + ".csv");
+    REQUIRE(run_tool(std::string("--vibration 120:0.01,0.008,0.004:rad:") + phases + sweep + "'" +
+                         csv + "'",
+                     "phases_" + std::to_string(n++))
+                .exit_code == 0);
+    const std::vector<CsvRow> known = read_csv(csv, false);
+    REQUIRE(known.size() == unknown.size());
+    for (std::size_t i = 0; i < known.size(); ++i) {
+      INFO(known[i].method << " step " << known[i].step_s << " phases " << phases << ": known "
+                           << known[i].bound_rad << ", unknown " << unknown[i].bound_rad);
+      REQUIRE(known[i].method == unknown[i].method);
+      REQUIRE(known[i].step_s == unknown[i].step_s);
+      CHECK(known[i].bound_rad <= unknown[i].bound_rad);
+      strictly_smaller += known[i].bound_rad < unknown[i].bound_rad ? 1 : 0;
+    }
+  }
+  // The phases matter somewhere (otherwise the comparison would check nothing).
+  CHECK(strictly_smaller > 0);
 }
