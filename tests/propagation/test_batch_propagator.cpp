@@ -274,7 +274,7 @@ TEMPLATE_TEST_CASE("constant-rate lanes follow the closed form q0 ⊗ exp(ωt/2)
 }
 
 TEMPLATE_TEST_CASE(
-    "bad samples leave their lane bit-identical and are counted; other lanes unaffected",
+    "bad samples leave their lane bit-identical and are counted - other lanes unaffected",
     "[propagation][batch]", float, double) {
   using T = TestType;
   constexpr std::size_t N = 16;

@@ -194,7 +194,7 @@ std::pair<L, L> norm_drift(const Motion& motion, int steps) {
 }  // namespace
 
 TEMPLATE_TEST_CASE(
-    "without renormalization RKMK4 keeps |q| = 1 at the random-walk level; RK4 drifts",
+    "without renormalization RKMK4 keeps |q| = 1 at the random-walk level - RK4 drifts",
     "[lie_group]", float, double) {
   using T = TestType;
   // Issue 3: | |q| − 1 | ≤ 10·√N·ε after N = 10⁶ steps in double (2.2e-12); float over 10⁵ steps

@@ -28,7 +28,7 @@ long double local_error(long double h, long double t0, int sign) {
 
 }  // namespace
 
-TEST_CASE("Magnus 4: local error falls as h^5; a flipped commutator only as h^3",
+TEST_CASE("Magnus 4: local error falls as h^5 - a flipped commutator only as h^3",
           "[propagation][order][reference]") {
   // Fourth-order Magnus truncation: local error O(h^5) (Iserles and Nørsett 1999; Blanes, Casas,
   // Oteo and Ros 2009). The commutator sign follows the Bortz equation (Bortz 1971): flipping it

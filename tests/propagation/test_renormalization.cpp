@@ -256,7 +256,7 @@ TEMPLATE_TEST_CASE("first-order renormalization: batch lanes far from unit come 
   }
 }
 
-TEMPLATE_TEST_CASE("exact renormalization gives unit norm; none leaves q alone", "[propagation]",
+TEMPLATE_TEST_CASE("exact renormalization gives unit norm - none leaves q alone", "[propagation]",
                    float, double) {
   using T = TestType;
   test::RandomRotations rng(402);

@@ -410,7 +410,7 @@ TEMPLATE_TEST_CASE("RK2 midpoint reaches order 2 on coning with every input form
 // (Bogacki–Shampine's third-order solution shows angle order 3, test_embedded_pairs.cpp). The
 // stepper states both: `order` 4 for the attitude, `state_order` 3 for the full quaternion.
 TEMPLATE_TEST_CASE(
-    "RK3 Kutta: state order 3, attitude order 4 on coning with stage samples or a rate function; "
+    "RK3 Kutta: state order 3, attitude order 4 on coning with stage samples or a rate function - "
     "order 2 interpolated",
     "[runge_kutta][order]", float, double) {
   check_order_on_coning<RungeKutta3KuttaSampled, TestType>(4, 3);

@@ -335,7 +335,7 @@ TEST_CASE("white noise: zero mean, the specified sigma, no correlation, Gaussian
   }
 }
 
-TEST_CASE("the same seed gives the same sequence; another seed another", "[truth]") {
+TEST_CASE("the same seed gives the same sequence - another seed another", "[truth]") {
   GyroErrorModel<double> model;
   model.noise_density = 0.01;
   model.bias = {1e-3, 0, -1e-3};
@@ -364,8 +364,8 @@ TEST_CASE("the same seed gives the same sequence; another seed another", "[truth
 }
 
 TEST_CASE(
-    "quantization: within LSB/2 per sample; with residual carry the accumulated angle "
-    "stays within one LSB of truth over 10^6 samples",
+   "quantization: within LSB/2 per sample - with residual carry the accumulated angle "
+    "stays within one LSB of truth over 10^6 samples"",
     "[truth]") {
   const double dt = 1.0 / 1000;
   const std::int64_t n = 1000000;
