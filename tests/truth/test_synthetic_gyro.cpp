@@ -364,8 +364,8 @@ TEST_CASE("the same seed gives the same sequence - another seed another", "[trut
 }
 
 TEST_CASE(
-   "quantization: within LSB/2 per sample - with residual carry the accumulated angle "
-    "stays within one LSB of truth over 10^6 samples"",
+    "quantization: within LSB/2 per sample - with residual carry the accumulated angle "
+    "stays within one LSB of truth over 10^6 samples",
     "[truth]") {
   const double dt = 1.0 / 1000;
   const std::int64_t n = 1000000;
