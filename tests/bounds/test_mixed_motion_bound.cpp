@@ -265,7 +265,8 @@ TEMPLATE_LIST_TEST_CASE("bounds are safe on vibration lines and band-limited des
                                "cone as a line of unknown phases");
   check_safe<TestType, float>(cone, coning_as_line<float>(cone, false),
                               "cone as a line of unknown phases");
-  const double dt = 2e-3 * static_cast<double>(periods_per_step(TestType::layout, TestType::window));
+  const double dt =
+      2e-3 * static_cast<double>(periods_per_step(TestType::layout, TestType::window));
   CHECK(error_bound_after_steps<TestType, double>(coning_as_line<double>(cone, false), dt, 100) >=
         error_bound_after_steps<TestType, double>(coning_as_line<double>(cone, true), dt, 100));
   // Band-limited: the slow cone's rate has every component a sinusoid at 0.8 Hz or constant.
