@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "catalogue_types.hpp"
+#include "described_motions.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/magnus_family_bounds.hpp"
 #include "halfspin/bounds/motion_description.hpp"
@@ -30,24 +31,19 @@ using test::LD;
 
 namespace {
 
-constexpr LD two_pi = 6.283185307179586476925286766559005768L;
+using test::described::body;
+using test::described::coning;
+using test::described::constant;
+using test::described::describe_body;
+using test::described::describe_coning;
+using test::described::describe_constant;
+using test::described::two_pi;
 
-// The truth motions (invented parameters) and how an engineer would describe each.
-const ConstantRateMotion<LD> constant{normalized(Quaternion<LD>{0.9L, 0.1L, -0.3L, 0.2L}),
-                                      Vector3<LD>{0.7L, -1.1L, 0.4L}};
+// The other truth motions (invented parameters) and how an engineer would describe each; constant
+// rate, coning and the axisymmetric body are in described_motions.hpp.
 const SingleAxisOscillation<LD> oscillation{normalized(Vector3<LD>{0.3L, -0.5L, 0.8L}), 0.2L, 3.0L,
                                             0.4L, Quaternion<LD>::identity()};
-const ClassicalConingMotion<LD> coning{0.05L, two_pi * 4};
-const AxisymmetricBodyMotion<LD> body{
-    normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
 const TwoGimbalMotion<LD> gimbal{};
-
-template <class T>
-MotionDescription<T> describe_constant() {
-  MotionDescription<T> d{};
-  d.maneuver = RateEnvelope<T>::constant_rate(static_cast<T>(test::length_ld(constant.body_rate)));
-  return d;
-}
 
 template <class T>
 MotionDescription<T> describe_oscillation() {
@@ -57,28 +53,6 @@ MotionDescription<T> describe_oscillation() {
       static_cast<T>(oscillation.frequency),
       test::narrow<T>(oscillation.axis * (two_pi * oscillation.frequency * oscillation.amplitude)),
       static_cast<T>(oscillation.phase)));
-  return d;
-}
-
-template <class T>
-MotionDescription<T> describe_coning() {
-  MotionDescription<T> d{};
-  d.coning.half_angle = static_cast<T>(coning.cone_angle);
-  d.coning.frequency_hz = static_cast<T>(coning.cone_frequency / two_pi);
-  return d;
-}
-
-template <class T>
-MotionDescription<T> describe_body() {
-  // ω = (ω⊥ cos(λt + φ0), ω⊥ sin(λt + φ0), ω3): |ω| constant, kth derivative ω⊥|λ|ᵏ.
-  MotionDescription<T> d{};
-  const LD lambda = std::fabs(body.body_turning_rate());
-  LD p = body.transverse_rate;
-  d.maneuver.derivative[0] = static_cast<T>(std::hypot(body.transverse_rate, body.axial_rate));
-  for (std::size_t k = 1; k < 6; ++k) {
-    p *= lambda;
-    d.maneuver.derivative[k] = static_cast<T>(p);
-  }
   return d;
 }
 

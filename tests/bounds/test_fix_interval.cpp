@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "catalogue_types.hpp"
+#include "described_motions.hpp"
 #include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/stepper_catalogue.hpp"
@@ -25,33 +26,10 @@ using test::LD;
 
 namespace {
 
-constexpr LD two_pi = 6.283185307179586476925286766559005768L;
-
-const ClassicalConingMotion<LD> coning{0.05L, two_pi * 4};
-const AxisymmetricBodyMotion<LD> body{
-    normalized(Quaternion<LD>{0.9L, 0.2L, -0.3L, 0.1L}), 1.0L, 1.6L, 0.8L, 0.3L, 1.5L};
-
-template <class T>
-MotionDescription<T> describe_coning() {
-  MotionDescription<T> d{};
-  d.coning.half_angle = static_cast<T>(coning.cone_angle);
-  d.coning.frequency_hz = static_cast<T>(coning.cone_frequency / two_pi);
-  return d;
-}
-
-// As in test_bound_safety.cpp: |ω| constant, kth derivative ω⊥|λ|ᵏ.
-template <class T>
-MotionDescription<T> describe_body() {
-  MotionDescription<T> d{};
-  const LD lambda = std::fabs(body.body_turning_rate());
-  LD p = body.transverse_rate;
-  d.maneuver.derivative[0] = static_cast<T>(std::hypot(body.transverse_rate, body.axial_rate));
-  for (std::size_t k = 1; k < 6; ++k) {
-    p *= lambda;
-    d.maneuver.derivative[k] = static_cast<T>(p);
-  }
-  return d;
-}
+using test::described::body;
+using test::described::coning;
+using test::described::describe_body;
+using test::described::describe_coning;
 
 // The answer against the definition: bound(k) ≤ budget < bound(k + 1), and against a scan of
 // every count from 1 while the scan stays below `scan_limit` (returns whether it did).
