@@ -10,6 +10,17 @@ double's rounding over the runs' 10³–10⁵ steps); below it the ratio measure
 bound. The issue targets it reports against (describe-a-vehicle issue): median ≤ 10 and worst ≤ 100
 for the exponential-map, Magnus and coning families, median ≤ 100 for the Runge–Kutta family.
 
+It also asks stepstudy for the sum of each run's local errors (--local-errors: every step started
+from the exact attitude) and splits bound/measured into two factors:
+
+    bound/measured = (bound / sum of local errors) × (sum of local errors / measured)
+
+The second factor is what cancels between steps: a horizon bound that adds up local errors cannot
+go below the sum even with exact local errors, so where its median alone exceeds the target, the
+target is out of reach for any bound of that form and needs one that follows the errors' directions
+over the horizon. The first factor is the looseness of the local bound itself (and of the start-up,
+rounding and growth terms the horizon bound adds).
+
     bench/bound_tightness.py --stepstudy build/check/examples/tools/stepstudy/halfspin-stepstudy
         [--duration 5] [--floor 1e-11] [--csv-dir DIR] [--from-csv-dir DIR]
 
@@ -38,7 +49,7 @@ def run(stepstudy, directory, duration):
     for motion in MOTIONS:
         path = os.path.join(directory, motion + ".csv")
         cmd = [stepstudy, "--motion", motion, "--methods", "all", "--scalar", "double",
-               "--duration", str(duration), "--csv", path]
+               "--duration", str(duration), "--local-errors", "--csv", path]
         result = subprocess.run(cmd, capture_output=True, text=True)
         if result.returncode != 0:
             sys.exit("halfspin-stepstudy failed on %s:\n%s" % (motion, result.stderr))
@@ -55,8 +66,9 @@ def ratios(directory, floor):
                 if row["method"] not in per_method:
                     per_method[row["method"]] = []
                     order.append(row["method"])
+                local = float(row["local_error_sum_rad"])
                 if measured > floor:
-                    per_method[row["method"]].append((bound / measured, motion))
+                    per_method[row["method"]].append((bound / measured, motion, local / measured))
     return order, per_method
 
 
@@ -80,21 +92,34 @@ def main():
     order, per_method = ratios(directory, args.floor)
     print("bound/measured over %s (double, points with measured error > %g rad)"
           % (", ".join(MOTIONS), args.floor))
-    print("%-38s %4s %10s %10s  %-12s %s" % ("method", "n", "median", "worst", "worst on",
-                                              "target (median, worst)"))
+    print("'exact sum': sum of the run's local errors/measured, the least bound/measured any bound")
+    print("that adds up local errors can reach (it would need exact local errors to get there)")
+    print("%-38s %4s %9s %9s  %-12s %9s %9s  %s" % (
+        "method", "n", "median", "worst", "worst on", "exact sum", "its worst",
+        "target (median, worst): verdict"))
     for method in order:
         points = per_method[method]
         median_target, worst_target = family_target(method)
         if not points:
-            print("%-38s %4d %10s %10s" % (method, 0, "-", "-"))
+            print("%-38s %4d %9s %9s" % (method, 0, "-", "-"))
             continue
-        median = statistics.median(r for r, _ in points)
-        worst, where = max(points)
-        verdict = "met" if median <= median_target and (
-            worst_target is None or worst <= worst_target) else "missed"
+        median = statistics.median(p[0] for p in points)
+        worst, where = max((p[0], p[1]) for p in points)
+        sum_median = statistics.median(p[2] for p in points)
+        sum_worst = max(p[2] for p in points)
+
+        def meets(m, w):
+            return m <= median_target and (worst_target is None or w <= worst_target)
+
+        if meets(median, worst):
+            verdict = "met"
+        elif not meets(sum_median, sum_worst):
+            verdict = "missed; out of reach for a summing bound (cancellation between steps)"
+        else:
+            verdict = "missed; the local bound (exact local errors, summed, would meet it)"
         target = "%g, %s" % (median_target, "%g" % worst_target if worst_target else "-")
-        print("%-38s %4d %10.3g %10.3g  %-12s %s: %s" % (method, len(points), median, worst, where,
-                                                         target, verdict))
+        print("%-38s %4d %9.3g %9.3g  %-12s %9.3g %9.3g  %s: %s" % (
+            method, len(points), median, worst, where, sum_median, sum_worst, target, verdict))
 
 
 if __name__ == "__main__":

@@ -20,6 +20,7 @@
 // Tool code (not part of the installed library).
 
 #include <algorithm>
+#include <array>
 #include <chrono>
 #include <cmath>
 #include <cstddef>
@@ -39,6 +40,16 @@ struct MeasuredRun {
   double max_error_rad = 0;  // max over step ends of angle_between(propagated, truth)
   std::int64_t steps = 0;    // steps taken
   double ns_per_step = 0;    // steady_clock time of the propagator calls / steps
+};
+
+// The sum over the steps of each step's own error: the angle between the step's increment
+// (normalized, as exact renormalization applies it) and the truth's relative rotation over the same
+// interval, each step started from the exact attitude. It is what a horizon bound that adds up
+// local errors would give with perfect local bounds, so sum/measured is the least bound/measured
+// such a bound can reach on this motion (what cancels between steps it cannot see).
+struct LocalErrorSum {
+  double sum_rad = 0;
+  double worst_step_rad = 0;
 };
 
 namespace detail {
@@ -149,6 +160,54 @@ MeasuredRun measure_run(const TruthMotion& motion, double dt_s, std::int64_t ste
                               static_cast<double>(steps)
                         : 0.0;
   return run;
+}
+
+// The local errors of the run measure_run makes (same samples, same steps), summed.
+template <class Stepper, class T>
+LocalErrorSum local_error_sum(const TruthMotion& motion, double dt_s, std::int64_t steps) {
+  const LD dt = static_cast<LD>(dt_s);
+  LD sum = 0;
+  LD worst = 0;
+  Quaternion<LD> start = motion.attitude(0.0L);
+  for (std::int64_t s = 0; s < steps; ++s) {
+    Increment<T> increment{};
+    if constexpr (Stepper::layout == SampleLayout::rate_function) {
+      const double t0 = static_cast<double>(s) * dt_s;
+      increment = Stepper::template increment<T>(
+          [&](T tau) {
+            return detail::narrow_vector<T>(motion.rate_double(t0 + static_cast<double>(tau)));
+          },
+          static_cast<T>(dt_s));
+    } else {
+      constexpr std::int64_t periods =
+          static_cast<std::int64_t>(periods_per_step(Stepper::layout, Stepper::window));
+      constexpr std::int64_t window = static_cast<std::int64_t>(Stepper::window);
+      const LD h = dt / static_cast<LD>(periods);
+      // The window of the step ending at sample (s + 1)·periods; before the first sample of a
+      // delta-angle layout the propagator holds a zero previous sample.
+      std::array<Vector3<T>, Stepper::window> input{};
+      const std::int64_t last = (s + 1) * periods;
+      for (std::int64_t i = 0; i < window; ++i) {
+        const std::int64_t k = last - window + 1 + i;
+        const LD t = static_cast<LD>(k) * h;
+        if (carries_delta_angles(Stepper::layout)) {
+          input[static_cast<std::size_t>(i)] =
+              k >= 1 ? detail::narrow_vector<T>(motion.delta_angle(t - h, t)) : Vector3<T>{};
+        } else {
+          input[static_cast<std::size_t>(i)] = detail::narrow_vector<T>(motion.rate(t));
+        }
+      }
+      increment = Stepper::template increment<T>(input, static_cast<T>(dt_s));
+    }
+    const Quaternion<LD> end = motion.attitude(static_cast<LD>(s + 1) * dt);
+    const Quaternion<LD> step = normalized(Quaternion<LD>::identity() +
+                                           detail::widen_quaternion(increment.delta));
+    const LD e = angle_between(start * step, end);
+    sum += e;
+    worst = std::fmax(worst, e);
+    start = end;
+  }
+  return {static_cast<double>(sum), static_cast<double>(worst)};
 }
 
 }  // namespace halfspin::tools::stepstudy

@@ -75,6 +75,7 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   double gyro_rate = 1000.0;  // Hz
   std::string recommendation_file;
   bool fixes = false;  // --fixes: longest time between external attitude fixes per method
+  bool local_errors = false;  // --local-errors: also sum each step's own error (truth runs)
 };
 
 inline const char* help_text() {
@@ -207,6 +208,13 @@ inline const char* help_text() {
          "                       ns_per_step (empty fields where not measured; bound_rad inf where "
          "there\n"
          "                       is none)\n"
+         "  --local-errors       also measure each step's own error (the step started from the "
+         "exact\n"
+         "                       attitude) and print their sum over the run, with the CSV column\n"
+         "                       local_error_sum_rad: a horizon bound that adds up local errors "
+         "cannot\n"
+         "                       be below this sum, so sum/max error shows how much of a bound's\n"
+         "                       looseness is cancellation between steps (truth motions only)\n"
          "  --svg FILE           two log-log charts: max error (rad) against step (s) with the "
          "bounds\n"
          "                       dashed and the budget line; max error (rad) against cost "
@@ -486,6 +494,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       o.bounds_only = true;
     } else if (a == "--fixes") {
       o.fixes = true;
+    } else if (a == "--local-errors") {
+      o.local_errors = true;
     } else if (a == "--coning") {
       if (!value(v)) {
         return false;
@@ -614,6 +624,10 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
     error =
         "--bandwidth needs the maximum rate (--max-rate, --max-rate-deg, --axis-rates or "
         "--axis-rates-deg)";
+    return false;
+  }
+  if (o.local_errors && o.bounds_only) {
+    error = "--local-errors measures a truth motion: it cannot be combined with a description";
     return false;
   }
   if (o.fixes && !o.has_budget) {

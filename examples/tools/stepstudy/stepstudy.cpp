@@ -58,6 +58,7 @@ struct Row {
   std::string bound_note;  // why there is no finite bound ("needs D3", ...); empty when there is
   double order = std::numeric_limits<double>::quiet_NaN();
   double ns_per_step = std::numeric_limits<double>::quiet_NaN();
+  double local_error_sum_rad = std::numeric_limits<double>::quiet_NaN();  // --local-errors
 };
 
 // The sample-driven steppers of the catalogue as a StepperList (recommend_stepper's candidates).
@@ -174,6 +175,9 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   row.steps = run.steps;
   row.max_error_rad = run.max_error_rad;
   row.ns_per_step = run.ns_per_step;
+  if (o.local_errors) {
+    row.local_error_sum_rad = local_error_sum<Stepper, T>(motion.truth, dt, steps).sum_rad;
+  }
   set_bound(row, horizon_error_report<Stepper, T, Accumulation>(
                      d, static_cast<T>(dt), static_cast<T>(static_cast<double>(steps) * dt)));
   return row;
@@ -193,31 +197,37 @@ void fill_orders(std::vector<Row>& rows) {
   }
 }
 
-void print_table(const std::vector<Row>& rows, bool bounds_only) {
-  std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s\n", "method", "scalar", "step (s)",
+void print_table(const std::vector<Row>& rows, bool bounds_only, bool local_errors) {
+  std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s%s\n", "method", "scalar", "step (s)",
               bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order",
-              "ns/step");
+              "ns/step", local_errors ? "  sum of local errors (rad)" : "");
   for (const Row& r : rows) {
     const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
     const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
     const std::string bound = r.bound_note.empty() ? sci(r.bound_rad) : r.bound_note;
-    std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s\n", r.method.c_str(), r.scalar.c_str(),
-                r.step_s, static_cast<long long>(r.steps), sci(r.max_error_rad).c_str(),
-                bound.c_str(), order.c_str(), ns.c_str());
+    const std::string local = local_errors ? "  " + sci(r.local_error_sum_rad) : "";
+    std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s%s\n", r.method.c_str(),
+                r.scalar.c_str(), r.step_s, static_cast<long long>(r.steps),
+                sci(r.max_error_rad).c_str(), bound.c_str(), order.c_str(), ns.c_str(),
+                local.c_str());
   }
 }
 
-bool write_csv(const std::string& path, const std::vector<Row>& rows) {
+bool write_csv(const std::string& path, const std::vector<Row>& rows, bool local_errors) {
   std::ofstream out(path);
   if (!out) {
     return false;
   }
-  out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step\n";
+  out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step"
+      << (local_errors ? ",local_error_sum_rad\n" : "\n");
   auto field = [](double v) { return std::isnan(v) ? std::string() : format("%.17g", v); };
   for (const Row& r : rows) {
     out << r.method << ',' << r.scalar << ',' << format("%.17g", r.step_s) << ','
-        << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step)
-        << '\n';
+        << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step);
+    if (local_errors) {
+      out << ',' << field(r.local_error_sum_rad);
+    }
+    out << '\n';
   }
   return static_cast<bool>(out.flush());
 }
@@ -622,13 +632,13 @@ int main(int argc, char** argv) {
   }
   progress.finish();
   fill_orders(rows);
-  print_table(rows, o.bounds_only);
+  print_table(rows, o.bounds_only, o.local_errors);
   if (failed) {
     std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");
   }
 
   int status = failed ? exit_failure : exit_ok;
-  if (!o.csv.empty() && !write_csv(o.csv, rows)) {
+  if (!o.csv.empty() && !write_csv(o.csv, rows, o.local_errors)) {
     std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.csv.c_str());
     status = exit_failure;
   }

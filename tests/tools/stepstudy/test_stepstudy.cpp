@@ -505,6 +505,87 @@ TEST_CASE("constant rate: exact methods at rounding level, RK4 at its closed-for
   CHECK(closed_form_checks >= 4);
 }
 
+// --local-errors: the CSV gains local_error_sum_rad, the sum over the run of each step's own error.
+struct LocalRow {
+  std::string method;
+  double step_s = 0;
+  double steps = 0;
+  double max_error_rad = 0;
+  double local_sum_rad = 0;
+};
+
+std::vector<LocalRow> read_local_csv(const std::string& file, double duration) {
+  const std::vector<std::string> lines = lines_of(read_file(file));
+  REQUIRE(!lines.empty());
+  REQUIRE(lines[0] == std::string(csv_header) + ",local_error_sum_rad");
+  std::vector<LocalRow> rows;
+  for (std::size_t i = 1; i < lines.size(); ++i) {
+    const std::vector<std::string> f = split(lines[i], ',');
+    INFO("CSV line " << i << ": " << lines[i]);
+    REQUIRE(f.size() == 7);
+    LocalRow r;
+    r.method = f[0];
+    r.step_s = number(f[2]);
+    r.steps = std::max(1.0, std::round(duration / r.step_s));
+    r.max_error_rad = number(f[3]);
+    r.local_sum_rad = number(f[6]);
+    rows.push_back(r);
+  }
+  return rows;
+}
+
+TEST_CASE("stepstudy local errors: the sum of the steps' own errors, closed form at constant rate, and "
+          "never below the measured error",
+          "[tools][reference]") {
+  // Constant rate: RK4's step error is |2 arg P(iθ/2) − θ| (the closed form of the constant-rate
+  // test above) and every step makes the same one, so the sum is N times it; the exact methods'
+  // steps are exact up to rounding.
+  const std::string constant_csv = path("local_constant.csv");
+  REQUIRE(run_tool("--motion constant --methods exponential_map_hold_end,coning_2_sample,"
+                   "coning_1_sample_plus_previous,runge_kutta_4_sampled,runge_kutta_2_midpoint_"
+                   "sampled --scalar double --step-min 2e-2 --step-max 1e-1 --steps 3 "
+                   "--duration 2 --local-errors --csv '" +
+                       constant_csv + "'",
+                   "local_constant")
+              .exit_code == 0);
+  const double w = std::sqrt(0.81 + 0.36 + 1.69);
+  int closed_form = 0;
+  for (const LocalRow& row : read_local_csv(constant_csv, 2.0)) {
+    INFO(row.method << " step " << row.step_s << ": sum " << row.local_sum_rad);
+    if (row.method == "runge_kutta_4_sampled") {
+      const std::complex<double> z(0.0, 0.5 * w * row.step_s);
+      const std::complex<double> p = 1.0 + z + z * z / 2.0 + z * z * z / 6.0 + z * z * z * z / 24.0;
+      CHECK(row.local_sum_rad ==
+            Approx(row.steps * std::fabs(2.0 * std::arg(p) - w * row.step_s)).epsilon(1e-6));
+      ++closed_form;
+    } else if (row.method != "runge_kutta_2_midpoint_sampled") {
+      CHECK(row.local_sum_rad <= 4.0 * eps_double * row.steps);  // rounding only
+    } else {
+      CHECK(row.local_sum_rad > 1e-6);  // a second-order method's truncation shows
+    }
+  }
+  CHECK(closed_form == 3);
+  // Rotations compose isometrically (the angle between unit quaternions is bi-invariant), so the
+  // error after N steps is at most the sum of the N steps' own errors, by the triangle inequality
+  // (common practice, no source); the propagator's rounding adds a few ε per step.
+  for (const char* motion : {"coning", "body", "demo"}) {
+    const std::string csv = path(std::string("local_") + motion + ".csv");
+    REQUIRE(run_tool(std::string("--motion ") + motion +
+                         " --methods exponential_map_midpoint_sample,coning_2_sample,"
+                         "coning_1_sample_plus_previous,runge_kutta_3_kutta_sampled,"
+                         "dormand_prince_54_rate_function,magnus_4 --scalar double --steps 3 "
+                         "--duration 1 --local-errors --csv '" +
+                         csv + "'",
+                     std::string("local_") + motion)
+                .exit_code == 0);
+    for (const LocalRow& row : read_local_csv(csv, 1.0)) {
+      INFO(motion << " " << row.method << " step " << row.step_s << ": error "
+                  << row.max_error_rad << ", sum " << row.local_sum_rad);
+      CHECK(row.max_error_rad <= row.local_sum_rad + 8.0 * eps_double * row.steps);
+    }
+  }
+}
+
 TEST_CASE("coning: observed orders match the declared orders in the truncation-dominated range",
           "[tools][reference][order]") {
   // Declared orders (README table) and where they come from: the midpoint exponential map and the
