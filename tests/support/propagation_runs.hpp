@@ -4,6 +4,7 @@
 
 #include <catch2/catch.hpp>
 
+#include <array>
 #include <cmath>
 
 #include "halfspin/core/angle_between.hpp"
@@ -56,6 +57,52 @@ RunError max_error(const Motion& m, LD h, LD horizon) {
     }
   }
   return {worst, static_cast<long>(p.counters().steps)};
+}
+
+// The sum over the run of max_error of each step's own error: the step taken from the exact
+// attitude on the same samples, its increment normalized (as exact renormalization applies it),
+// against the truth's relative rotation over the step. Rotations compose isometrically, so the run's
+// error is at most this sum; a horizon bound that adds up local errors is at least it.
+template <class Stepper, class T, class Motion>
+LD local_error_sum(const Motion& m, LD h, LD horizon) {
+  const long samples = std::lround(horizon / h);
+  LD sum = 0;
+  if constexpr (Stepper::layout == SampleLayout::rate_function) {
+    for (long k = 0; k < samples; ++k) {
+      const LD t0 = static_cast<LD>(k) * h;
+      const Increment<T> inc = Stepper::template increment<T>(
+          [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); }, static_cast<T>(h));
+      sum += angle_between(m.attitude(t0) * normalized(Quaternion<LD>::identity() +
+                                                        widen(inc.delta)),
+                           m.attitude(t0 + h));
+    }
+  } else {
+    constexpr long periods = static_cast<long>(periods_per_step(Stepper::layout, Stepper::window));
+    constexpr long window = static_cast<long>(Stepper::window);
+    for (long last = periods; last <= samples; last += periods) {
+      // The window of the step ending at sample `last`; a delta-angle layout's sample 0 is the
+      // propagator's zero start value.
+      std::array<Vector3<T>, Stepper::window> input{};
+      for (long i = 0; i < window; ++i) {
+        const long k = last - window + 1 + i;
+        const LD t = static_cast<LD>(k) * h;
+        if (carries_delta_angles(Stepper::layout)) {
+          input[static_cast<std::size_t>(i)] =
+              k >= 1 ? narrow<T>(truth_delta_angle(m, t - h, t)) : Vector3<T>{};
+        } else {
+          input[static_cast<std::size_t>(i)] = narrow<T>(m.rate(t));
+        }
+      }
+      const Increment<T> inc =
+          Stepper::template increment<T>(input, static_cast<T>(static_cast<LD>(periods) * h));
+      const LD t1 = static_cast<LD>(last) * h;
+      const LD t0 = t1 - static_cast<LD>(periods) * h;
+      sum += angle_between(
+          m.attitude(t0) * normalized(Quaternion<LD>::identity() + widen(inc.delta)),
+          m.attitude(t1));
+    }
+  }
+  return sum;
 }
 
 }  // namespace halfspin::test

@@ -30,8 +30,14 @@
 // for which pure coning alone has the closed form of coning_error.hpp.
 // Measured (tests/bounds/test_mixed_motion_bound.cpp, a 15 Hz cone of 0.03 rad with a 0.8 rad/s
 // turn about its axis or 0.7 rad/s across it, 20 cone periods, gyro at 250–1000 Hz): bound/measured
-// 1.3 (coning_1_sample), 1.3–1.5 (coning_2_sample), 1.9–4.5 (Miller's set), 2.8–6.5 (one plus
-// previous), 7–37 (coning_3_sample, coning_4_sample); with the summed envelope 1.3–215.
+// 1.3 (coning_1_sample), 1.3–1.5 (coning_2_sample), 1.9–4.2 (Miller's set), 2.8–6.5 (one plus
+// previous), 6.6–33 (coning_3_sample, coning_4_sample); with the summed envelope 1.3–215. The same
+// runs' sum of exact local errors (each step from the exact attitude; no summing bound goes below
+// it) over the measured error: 1.0 (one and two samples), 1.1–1.2 (Miller), 1.3–5.4 (one plus
+// previous), 2.0–2.5 with the axial turn and 5.3–5.8 with the banked turn (three and four
+// samples). So with the banked turn the three- and four-sample algorithms cannot reach 3 with a
+// summing bound; with the axial turn the remaining factor of 3–7 is this bound's remainder term
+// (the third-order terms between cone and turn, majorized by norm products).
 
 #include <array>
 #include <cmath>
