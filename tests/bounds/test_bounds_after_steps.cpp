@@ -4,7 +4,8 @@
 // at the step ends 1, 2, 3 and after a long run on truth motions with closed-form attitudes
 // (constant rate: q0 ⊗ exp(ωt/2), common practice, no source; classical coning: Miller 1983, see
 // REFERENCES.md; the torque-free axisymmetric body: common practice, no source). Also the mixed
-// scalar rule: a double horizon with a float description gives the all-float answer.
+// scalar rule: a double horizon with a float description gives the all-float answer. The parts
+// (error_bound_parts_after_steps) are the terms the bound adds.
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -61,7 +62,18 @@ void check_definition_and_monotone(const MotionDescription<T>& d) {
           horizon_error_bound<Stepper, T, CompensatedAccumulation>(d, dt, horizon));
     // ceil: half a step more is one step more.
     CHECK(steps_for_horizon(dt, horizon + dt / T(2)) == k + 1);
+    // The parts a caller reads to say which term limits: each the function that defines it, and
+    // their total the bound itself, bit for bit.
+    const ErrorBoundParts<T> parts =
+        error_bound_parts_after_steps<Stepper, T, CompensatedAccumulation>(d, dt, k);
+    CHECK(parts.truncation == truncation_bound<Stepper>(d, dt, k));
+    CHECK(parts.startup == startup_bound<Stepper>(d, dt));
+    CHECK(parts.roundoff == roundoff_floor_worst<Stepper, T, CompensatedAccumulation>(
+                                step_rotation_bound(d, dt), k));
+    CHECK(parts.total() ==
+          error_bound_after_steps<Stepper, T, CompensatedAccumulation>(d, dt, k));
   }
+  CHECK(error_bound_parts_after_steps<Stepper, T>(d, dt, 0).total() == T(0));
   CHECK(error_bound_after_steps<Stepper, T>(d, dt, 0) == T(0));
   CHECK(std::isnan(error_bound_after_steps<Stepper, T>(d, dt, -1)));
   // Non-decreasing: every k up to 300, then powers of two up to 2⁴⁰.

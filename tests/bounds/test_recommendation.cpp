@@ -18,6 +18,7 @@
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
 #include "test_support.hpp"
 
@@ -235,4 +236,50 @@ TEST_CASE("recommendation: a stepper without a bound is listed as no_bound") {
                                    1.0, 1.0, 100.0);
   CHECK_FALSE(r.found);
   CHECK(r.candidates[0].outcome == CandidateOutcome::no_bound);
+}
+
+TEST_CASE("recommendation: a tie in cost goes to the smaller bound, then to the earlier candidate",
+          "[bounds]") {
+  // The two three-sample coefficient sets cost the same (96 flops over 3 samples). At constant
+  // rate both are exact (every cross product is of parallel vectors: common practice, no
+  // source), so their bounds are their roundoff floors; under coning they differ. In either
+  // case the choice must be the smaller bound, and on an exact tie the first listed: the
+  // catalogue lists the derived set (coning_3_sample) before the published one (Miller's).
+  MotionDescription<double> constant{};
+  constant.maneuver = RateEnvelope<double>::constant_rate(2.0);
+  MotionDescription<double> coning{};
+  coning.coning = ConingSpec<double>{0.01, 20.0};
+  for (const MotionDescription<double>* d : {&constant, &coning}) {
+    const auto derived_first = recommend_stepper<double>(
+        StepperList<Coning3Sample, Coning3SampleMiller>{}, *d, 1.0, 60.0, 1000.0);
+    const auto published_first = recommend_stepper<double>(
+        StepperList<Coning3SampleMiller, Coning3Sample>{}, *d, 1.0, 60.0, 1000.0);
+    REQUIRE(derived_first.found);
+    REQUIRE(published_first.found);
+    const auto& a = derived_first.candidates;
+    REQUIRE(a[0].cost_flops_per_s == a[1].cost_flops_per_s);
+    INFO("derived " << a[0].bound_rad << " rad, Miller " << a[1].bound_rad << " rad");
+    if (a[0].bound_rad == a[1].bound_rad) {
+      CHECK(std::strcmp(derived_first.name, Coning3Sample::name) == 0);
+      CHECK(std::strcmp(published_first.name, Coning3SampleMiller::name) == 0);
+    } else {
+      const char* smaller =
+          a[0].bound_rad < a[1].bound_rad ? Coning3Sample::name : Coning3SampleMiller::name;
+      CHECK(std::strcmp(derived_first.name, smaller) == 0);
+      CHECK(std::strcmp(published_first.name, smaller) == 0);
+    }
+  }
+  // The catalogue order the tools' candidate lists follow: derived before published.
+  std::size_t derived = StepperCatalogue::size;
+  std::size_t published = StepperCatalogue::size;
+  for (std::size_t i = 0; i < StepperCatalogue::size; ++i) {
+    if (std::strcmp(StepperCatalogue::names[i], Coning3Sample::name) == 0) {
+      derived = i;
+    }
+    if (std::strcmp(StepperCatalogue::names[i], Coning3SampleMiller::name) == 0) {
+      published = i;
+    }
+  }
+  CHECK(derived < published);
+  CHECK(published < StepperCatalogue::size);
 }

@@ -28,6 +28,7 @@
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/step_selection.hpp"
+#include "advice.hpp"
 #include "measure.hpp"
 #include "method_registry.hpp"
 #include "options.hpp"
@@ -148,6 +149,12 @@ std::string bound_note(const BoundReport<T>& r) {
   return "";
 }
 
+// The horizon the table's bounds cover (s): a truth run's length; in bounds-only mode --horizon
+// when given (what the budget is for), else --duration.
+double table_horizon(const Options& o) {
+  return o.bounds_only && o.has_budget ? o.horizon : o.duration;
+}
+
 template <class T>
 void set_bound(Row& row, const BoundReport<T>& r) {
   row.bound_rad = static_cast<double>(r.value_rad);
@@ -162,9 +169,9 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   row.step_s = dt;
   const MotionDescription<T> d = description_in<T>(motion.description);
   if (o.bounds_only) {
-    row.steps = steps_for_horizon(dt, o.duration);
-    set_bound(row, horizon_error_report<Stepper, T, Accumulation>(d, static_cast<T>(dt),
-                                                                  static_cast<T>(o.duration)));
+    row.steps = steps_for_horizon(dt, table_horizon(o));
+    set_bound(row, horizon_error_report<Stepper, T, Accumulation>(
+                       d, static_cast<T>(dt), static_cast<T>(table_horizon(o))));
     return row;
   }
   const std::int64_t steps = std::max<std::int64_t>(1, std::llround(o.duration / dt));
@@ -236,8 +243,10 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
                const std::vector<std::string>& methods, const std::vector<Row>& rows) {
   svg::Figure fig;
   fig.title = "halfspin step study: " + motion.name;
-  fig.subtitle = motion.summary +
-                 (o.bounds_only ? "; bounds only" : "; runs of " + format("%g s", o.duration));
+  fig.subtitle =
+      motion.summary + (o.bounds_only ? "; bounds over " + format("%g s", table_horizon(o))
+                                      : "; errors and bounds over runs of " +
+                                            format("%g s", o.duration));
   svg::Chart error_chart;
   error_chart.title =
       o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
@@ -247,11 +256,18 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
   cost_chart.title = "Max attitude error against cost";
   cost_chart.x_label = "cost (ns per step, measured on this machine)";
   cost_chart.y_label = "max attitude error (rad)";
+  // Like with like: the chart's errors and bounds cover table_horizon(o); a budget for a longer
+  // (or shorter) --horizon is drawn scaled to it, as if the error grew linearly, and says so.
+  const double budget_scale = o.has_budget ? table_horizon(o) / o.horizon : 1.0;
+  const std::string budget_text =
+      budget_scale == 1.0
+          ? "budget " + format("%.3e rad", o.budget) + " over " + format("%g s", o.horizon)
+          : "budget x " + format("%g s", table_horizon(o)) + " / " + format("%g s", o.horizon) +
+                " = " + format("%.3e rad", o.budget * budget_scale) + " (linear growth assumed)";
   if (o.has_budget) {
     error_chart.has_reference = true;
-    error_chart.reference_y = o.budget;
-    error_chart.reference_label =
-        "budget " + format("%.3e rad", o.budget) + " (over " + format("%g s", o.horizon) + ")";
+    error_chart.reference_y = o.budget * budget_scale;
+    error_chart.reference_label = budget_text;
   }
   for (std::size_t m = 0; m < methods.size(); ++m) {
     fig.legend.push_back({methods[m], m});
@@ -300,7 +316,7 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
     }
   }
   if (o.has_budget) {
-    fig.reference_key = "budget (" + format("%.3e rad", o.budget) + ")";
+    fig.reference_key = budget_text;
   }
   if (o.want_double) {
     fig.keys.push_back({svg::LineStyle::dashed, svg::Marker::none, "double, a-priori bound"});
@@ -489,6 +505,10 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
   if (o.fixes) {
     print_fix_intervals<T, Accumulation>(o, d, methods);
   }
+  if (!r.found) {
+    print_what_would_meet<T, Accumulation>(SampleDrivenList{}, motion.description, o.budget,
+                                           o.horizon, o.gyro_rate);
+  }
   return chosen;
 }
 
@@ -600,11 +620,24 @@ int main(int argc, char** argv) {
   std::printf("  motion:      %s%s\n", o.bounds_only ? "" : (motion.name + ": ").c_str(),
               motion.summary.c_str());
   std::printf("  bounds from: %s\n", motion.description_summary.c_str());
-  std::printf("  %s %g s; steps %.3e .. %.3e s (%d, log-spaced)\n",
-              o.bounds_only ? "bound horizon:" : "each run:     ", o.duration, step_min, step_max,
-              o.steps);
-  std::printf("  accumulation: float %s, double plain (--accumulation)\n\n",
-              o.compensated_float ? "compensated" : "plain");
+  if (o.bounds_only) {
+    std::printf("  the table's bounds cover %g s (%s); steps %.3e .. %.3e s (%d, log-spaced)\n",
+                table_horizon(o), o.has_budget ? "--horizon" : "--duration", step_min, step_max,
+                o.steps);
+  } else {
+    std::printf(
+        "  each run:    %g s (the table's errors and bounds cover the run%s); steps %.3e .. "
+        "%.3e s (%d, log-spaced)\n",
+        o.duration,
+        o.has_budget ? (", the recommendation --horizon " + format("%g s", o.horizon)).c_str()
+                     : "",
+        step_min, step_max, o.steps);
+  }
+  std::printf(
+      "  policies:    first-order renormalization; accumulation float %s, double plain (the\n"
+      "               propagator's defaults%s)\n\n",
+      o.compensated_float ? "compensated" : "plain",
+      o.compensated_float ? "" : ", but float plain as --accumulation asks");
   if (o.bounds_only) {
     print_vehicle_description(o, motion.description);
   }
@@ -632,6 +665,8 @@ int main(int argc, char** argv) {
   }
   progress.finish();
   fill_orders(rows);
+  std::printf(o.bounds_only ? "Bounds over %g s:\n" : "Max errors and bounds over each run of %g s:\n",
+              table_horizon(o));
   print_table(rows, o.bounds_only, o.local_errors);
   if (failed) {
     std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");

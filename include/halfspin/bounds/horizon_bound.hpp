@@ -134,22 +134,46 @@ T startup_bound(const MotionDescription<T>& description, T dt) noexcept {
   }
 }
 
+// The three terms of error_bound_after_steps (rad), for a caller that must say which one limits:
+// the truncation over the steps (linear, or the tighter coning form), the first step's extra, and
+// the worst-case roundoff over the steps with the accumulation policy.
+template <class T>
+struct ErrorBoundParts {
+  T truncation = T(0);
+  T startup = T(0);
+  T roundoff = T(0);
+  // Their sum, in the order error_bound_after_steps adds them (so the two agree bit for bit).
+  constexpr T total() const noexcept { return truncation + startup + roundoff; }
+};
+
+// The parts of error_bound_after_steps (below) after `steps` ≥ 1 steps; all 0 for steps ≤ 0.
+template <class Stepper, class T, class Accumulation = PlainAccumulation>
+ErrorBoundParts<T> error_bound_parts_after_steps(const MotionDescription<T>& description, T dt,
+                                                 std::int64_t steps) noexcept {
+  ErrorBoundParts<T> parts{};
+  if (steps <= 0) {
+    return parts;
+  }
+  parts.truncation = truncation_bound<Stepper>(description, dt, steps);
+  parts.startup = startup_bound<Stepper>(description, dt);
+  parts.roundoff = roundoff_floor_worst<Stepper, T, Accumulation>(
+      step_rotation_bound(description, dt), steps);
+  return parts;
+}
+
 // Worst-case attitude error bound (rad) after exactly `steps` steps of length dt (s) of Stepper in
 // T with Accumulation: truncation over the steps (linear, or the tighter coning form) + the first
-// step's extra + worst-case roundoff over the steps. Every term is non-decreasing in `steps`, so
-// the value also bounds the error at every earlier step end. 0 steps: 0 (the attitude is the
-// initial one); negative steps: NaN. +∞ where a needed derivative bound is +∞, D0·dt > 1 rad or
-// no bound exists (bound_report.hpp says which).
+// step's extra + worst-case roundoff over the steps (error_bound_parts_after_steps). Every term is
+// non-decreasing in `steps`, so the value also bounds the error at every earlier step end. 0
+// steps: 0 (the attitude is the initial one); negative steps: NaN. +∞ where a needed derivative
+// bound is +∞, D0·dt > 1 rad or no bound exists (bound_report.hpp says which).
 template <class Stepper, class T, class Accumulation = PlainAccumulation>
 T error_bound_after_steps(const MotionDescription<T>& description, T dt,
                           std::int64_t steps) noexcept {
   if (steps <= 0) {
     return steps == 0 ? T(0) : std::numeric_limits<T>::quiet_NaN();
   }
-  return truncation_bound<Stepper>(description, dt, steps) +
-         startup_bound<Stepper>(description, dt) +
-         roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt),
-                                                        steps);
+  return error_bound_parts_after_steps<Stepper, T, Accumulation>(description, dt, steps).total();
 }
 
 // Worst-case attitude error bound (rad) after horizon_s (s) of steps of length dt (s) of Stepper

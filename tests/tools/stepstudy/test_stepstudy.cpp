@@ -334,8 +334,21 @@ TEST_CASE("the SVG is well formed, renders, and has both charts, the legend and 
   CHECK(text.find("double, measured", legend) != std::string::npos);
   const std::size_t budget = text.find("class=\"reference\"");
   REQUIRE(budget != std::string::npos);
-  CHECK(text.find("budget 1.000e-03 rad", budget) != std::string::npos);
+  // Like with like: the runs cover 1 s and the budget 60 s, so the line is the budget scaled to
+  // the run (1e-3 x 1/60), labelled as such.
+  CHECK(text.find("budget x 1 s / 60 s = 1.667e-05 rad (linear growth assumed)", budget) !=
+        std::string::npos);
+  CHECK(text.find("errors and bounds over runs of 1 s") != std::string::npos);
   CHECK(text.find("stroke-dasharray=\"7 4\"") != std::string::npos);  // the dashed bounds
+  // Bounds only: the bounds cover --horizon, and the budget line is the budget itself.
+  const std::string svg2 = path("bounds_only.svg");
+  REQUIRE(run_tool("--coning 0.5,40 --methods coning_2_sample --svg '" + svg2 +
+                       "' --budget 1e-3 --horizon 60",
+                   "svg_bounds_only")
+              .exit_code == 0);
+  const std::string text2 = read_file(svg2);
+  CHECK(text2.find("budget 1.000e-03 rad over 60 s") != std::string::npos);
+  CHECK(text2.find("bounds over 60 s") != std::string::npos);
 }
 
 // No ';' in a test name: catch_discover_tests splits the name there, and the halves match no test.
@@ -1083,4 +1096,90 @@ TEST_CASE("a vibration line with unknown phases bounds at least as much as with 
   }
   // The phases matter somewhere (otherwise the comparison would check nothing).
   CHECK(strictly_smaller > 0);
+}
+
+namespace {
+
+// The number after `key` on the first line of `text` that contains `line_key` (NaN if none).
+double number_after(const std::string& text, const std::string& line_key, const std::string& key) {
+  for (const std::string& line : lines_of(text)) {
+    if (line.find(line_key) == std::string::npos) {
+      continue;
+    }
+    const std::size_t at = line.find(key);
+    if (at == std::string::npos) {
+      continue;
+    }
+    return std::strtod(line.c_str() + at + key.size(), nullptr);
+  }
+  return std::nan("");
+}
+
+// The word after `key` on the first line of `text` that contains `line_key`.
+std::string word_after(const std::string& text, const std::string& line_key,
+                       const std::string& key) {
+  for (const std::string& line : lines_of(text)) {
+    const std::size_t at = line.find(key);
+    if (line.find(line_key) == std::string::npos || at == std::string::npos) {
+      continue;
+    }
+    std::istringstream in(line.substr(at + key.size()));
+    std::string w;
+    in >> w;
+    while (!w.empty() && (w.back() == ',' || w.back() == ';')) {
+      w.pop_back();
+    }
+    return w;
+  }
+  return "";
+}
+
+}  // namespace
+
+TEST_CASE("nothing meets the budget: the limiting term, and alternatives that do meet it",
+          "[tools]") {
+  // The engineer's question (invented numbers): 2 kHz gyro, manoeuvres to 3 rad/s at 4 Hz, a
+  // 120 Hz 0.01 rad line on one axis, 0.05 deg over 20 minutes.
+  const std::string vehicle =
+      "--max-rate 3 --bandwidth 4 --vibration 120:0,0,0.01:rad --budget 8.7266e-4 ";
+  const Result r = run_tool(vehicle + "--horizon 1200 --gyro-rate 2000 --methods coning_2_sample",
+                            "advice");
+  REQUIRE(r.exit_code == 0);
+  INFO(r.out);
+  // The table covers the horizon the budget is for.
+  CHECK(r.out.find("Bounds over 1200 s:") != std::string::npos);
+  CHECK(r.out.find("the table's bounds cover 1200 s (--horizon)") != std::string::npos);
+  CHECK(r.out.find("first-order renormalization") != std::string::npos);
+  const std::size_t why = r.out.find("why nothing meets it:");
+  REQUIRE(why != std::string::npos);
+  // Float: both terms exceed the budget alone (rounding over 1.3e4 rad of rotation).
+  CHECK(r.out.find("both truncation and float's rounding alone exceed the budget") !=
+        std::string::npos);
+  // Double: truncation limits.
+  CHECK(r.out.find("the limit is truncation") != std::string::npos);
+  // The parts add up to the least bound (three printed digits).
+  const double total = number_after(r.out, "the least bound at 2000 Hz", "is ");
+  const double truncation = number_after(r.out, "truncation ", "truncation ");
+  const double startup = number_after(r.out, "start-up ", "start-up ");
+  const double rounding = number_after(r.out, "float rounding", "accumulation) ");
+  CHECK(truncation + startup + rounding == Approx(total).epsilon(2e-3));
+  // Double from the advised gyro rate: the tool, re-run there, recommends a method.
+  const double gyro = number_after(r.out, "    double: yes", "from a ");
+  REQUIRE(std::isfinite(gyro));
+  CHECK(gyro > 2000);
+  const Result again = run_tool(vehicle + "--horizon 1200 --scalar double --gyro-rate " +
+                                    std::to_string(gyro) + " --methods coning_2_sample",
+                                "advice_gyro");
+  CHECK(again.out.find("  recommended: ") != std::string::npos);
+  // Fixes: the advised interval, asked as the horizon at 2 kHz in float, is met by that method.
+  const double fixes = number_after(r.out, "external attitude fixes at 2000 Hz gyro, float",
+                                    "at most ");
+  const std::string method =
+      word_after(r.out, "external attitude fixes at 2000 Hz gyro, float", "apart (");
+  REQUIRE(std::isfinite(fixes));
+  REQUIRE(!method.empty());
+  const Result fixed = run_tool(vehicle + "--horizon " + std::to_string(fixes * 0.999) +
+                                    " --scalar float --gyro-rate 2000 --methods " + method,
+                                "advice_fixes");
+  CHECK(fixed.out.find("  recommended: ") != std::string::npos);
 }
