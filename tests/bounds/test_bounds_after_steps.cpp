@@ -68,10 +68,9 @@ void check_definition_and_monotone(const MotionDescription<T>& d) {
         error_bound_parts_after_steps<Stepper, T, CompensatedAccumulation>(d, dt, k);
     CHECK(parts.truncation == truncation_bound<Stepper>(d, dt, k));
     CHECK(parts.startup == startup_bound<Stepper>(d, dt));
-    CHECK(parts.roundoff == roundoff_floor_worst<Stepper, T, CompensatedAccumulation>(
-                                step_rotation_bound(d, dt), k));
-    CHECK(parts.total() ==
-          error_bound_after_steps<Stepper, T, CompensatedAccumulation>(d, dt, k));
+    CHECK(parts.roundoff ==
+          roundoff_floor_worst<Stepper, T, CompensatedAccumulation>(step_rotation_bound(d, dt), k));
+    CHECK(parts.total() == error_bound_after_steps<Stepper, T, CompensatedAccumulation>(d, dt, k));
   }
   CHECK(error_bound_parts_after_steps<Stepper, T>(d, dt, 0).total() == T(0));
   CHECK(error_bound_after_steps<Stepper, T>(d, dt, 0) == T(0));

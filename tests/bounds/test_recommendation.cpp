@@ -18,8 +18,8 @@
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/propagation/coning_compensation.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
-#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
+#include "halfspin/propagation/stepper_catalogue.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;

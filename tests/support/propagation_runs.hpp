@@ -61,8 +61,8 @@ RunError max_error(const Motion& m, LD h, LD horizon) {
 
 // The sum over the run of max_error of each step's own error: the step taken from the exact
 // attitude on the same samples, its increment normalized (as exact renormalization applies it),
-// against the truth's relative rotation over the step. Rotations compose isometrically, so the run's
-// error is at most this sum; a horizon bound that adds up local errors is at least it.
+// against the truth's relative rotation over the step. Rotations compose isometrically, so the
+// run's error is at most this sum; a horizon bound that adds up local errors is at least it.
 template <class Stepper, class T, class Motion>
 LD local_error_sum(const Motion& m, LD h, LD horizon) {
   const long samples = std::lround(horizon / h);
@@ -72,9 +72,9 @@ LD local_error_sum(const Motion& m, LD h, LD horizon) {
       const LD t0 = static_cast<LD>(k) * h;
       const Increment<T> inc = Stepper::template increment<T>(
           [&](T tau) { return narrow<T>(m.rate(t0 + test::ld(tau))); }, static_cast<T>(h));
-      sum += angle_between(m.attitude(t0) * normalized(Quaternion<LD>::identity() +
-                                                        widen(inc.delta)),
-                           m.attitude(t0 + h));
+      sum +=
+          angle_between(m.attitude(t0) * normalized(Quaternion<LD>::identity() + widen(inc.delta)),
+                        m.attitude(t0 + h));
     }
   } else {
     constexpr long periods = static_cast<long>(periods_per_step(Stepper::layout, Stepper::window));
@@ -97,9 +97,9 @@ LD local_error_sum(const Motion& m, LD h, LD horizon) {
           Stepper::template increment<T>(input, static_cast<T>(static_cast<LD>(periods) * h));
       const LD t1 = static_cast<LD>(last) * h;
       const LD t0 = t1 - static_cast<LD>(periods) * h;
-      sum += angle_between(
-          m.attitude(t0) * normalized(Quaternion<LD>::identity() + widen(inc.delta)),
-          m.attitude(t1));
+      sum +=
+          angle_between(m.attitude(t0) * normalized(Quaternion<LD>::identity() + widen(inc.delta)),
+                        m.attitude(t1));
     }
   }
   return sum;

@@ -55,8 +55,8 @@ LeastBound<T> least_bound(StepperList<S...> /*list*/, const MotionDescription<T>
   auto consider = [&](auto tag) {
     using St = typename decltype(tag)::type;
     const T dt = static_cast<T>(periods_per_step(St::layout, St::window)) / sample_rate_hz;
-    const ErrorBoundParts<T> p = error_bound_parts_after_steps<St, T, Accumulation>(
-        d, dt, steps_for_horizon(dt, horizon_s));
+    const ErrorBoundParts<T> p =
+        error_bound_parts_after_steps<St, T, Accumulation>(d, dt, steps_for_horizon(dt, horizon_s));
     if (std::isfinite(p.total()) && (!best.found || p.total() < best.parts.total())) {
       best.found = true;
       best.name = St::name;
@@ -107,8 +107,8 @@ struct SlowestGyro {
 };
 
 template <class T, class Accumulation, class... S>
-SlowestGyro<T> slowest_gyro(StepperList<S...> /*list*/, const MotionDescription<T>& d,
-                            T budget_rad, T horizon_s) {
+SlowestGyro<T> slowest_gyro(StepperList<S...> /*list*/, const MotionDescription<T>& d, T budget_rad,
+                            T horizon_s) {
   SlowestGyro<T> best;
   auto consider = [&](auto tag) {
     using St = typename decltype(tag)::type;
@@ -130,9 +130,8 @@ template <class T, class Accumulation, class List>
 void print_slowest_gyro(const std::string& label, List list,
                         const MotionDescription<double>& d_double, double budget_rad,
                         double horizon_s, double gyro_hz) {
-  const SlowestGyro<T> g = slowest_gyro<T, Accumulation>(list, d_double.converted<T>(),
-                                                         static_cast<T>(budget_rad),
-                                                         static_cast<T>(horizon_s));
+  const SlowestGyro<T> g = slowest_gyro<T, Accumulation>(
+      list, d_double.converted<T>(), static_cast<T>(budget_rad), static_cast<T>(horizon_s));
   if (!g.found) {
     std::printf("    %s: no, at any gyro rate up to %g Hz\n", label.c_str(), max_advised_gyro_hz);
     return;
@@ -140,19 +139,18 @@ void print_slowest_gyro(const std::string& label, List list,
   const double rate = static_cast<double>(g.selection.sample_rate_hz);
   std::printf("    %s: yes, from a %.0f Hz gyro (%s, step %.4e s, bound %.3e rad)%s\n",
               label.c_str(), std::ceil(rate), g.name.c_str(),
-              static_cast<double>(g.selection.step_s),
-              static_cast<double>(g.selection.bound_rad),
+              static_cast<double>(g.selection.step_s), static_cast<double>(g.selection.bound_rad),
               rate <= gyro_hz ? "; at this gyro rate already" : "");
 }
 
 // The whole advice, for scalar T with Accumulation, printed when nothing meets the budget.
 template <class T, class Accumulation, class List>
-void print_what_would_meet(List list, const MotionDescription<double>& d_double,
-                           double budget_rad, double horizon_s, double gyro_hz) {
+void print_what_would_meet(List list, const MotionDescription<double>& d_double, double budget_rad,
+                           double horizon_s, double gyro_hz) {
   const MotionDescription<T> d = d_double.converted<T>();
   const char* scalar = std::is_same<T, float>::value ? "float" : "double";
-  const LeastBound<T> best = least_bound<T, Accumulation>(list, d, static_cast<T>(horizon_s),
-                                                          static_cast<T>(gyro_hz));
+  const LeastBound<T> best =
+      least_bound<T, Accumulation>(list, d, static_cast<T>(horizon_s), static_cast<T>(gyro_hz));
   std::printf("  why nothing meets it:\n");
   if (!best.found) {
     std::printf(
@@ -221,8 +219,7 @@ void print_what_would_meet(List list, const MotionDescription<double>& d_double,
   if (best.found) {
     std::printf("    a larger budget: %.3e rad (%.4f deg) at %g Hz gyro, %s\n",
                 static_cast<double>(best.parts.total()),
-                static_cast<double>(best.parts.total()) * (180.0 / pi<double>), gyro_hz,
-                scalar);
+                static_cast<double>(best.parts.total()) * (180.0 / pi<double>), gyro_hz, scalar);
   }
 }
 

@@ -202,8 +202,8 @@ LocalErrorSum local_error_sum(const TruthMotion& motion, double dt_s, std::int64
       increment = Stepper::template increment<T>(input, static_cast<T>(dt_s));
     }
     const Quaternion<LD> end = motion.attitude(static_cast<LD>(s + 1) * dt);
-    const Quaternion<LD> step = normalized(Quaternion<LD>::identity() +
-                                           detail::widen_quaternion(increment.delta));
+    const Quaternion<LD> step =
+        normalized(Quaternion<LD>::identity() + detail::widen_quaternion(increment.delta));
     const LD e = angle_between(start * step, end);
     sum += e;
     worst = std::fmax(worst, e);

@@ -74,7 +74,7 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   double horizon = 0;         // s
   double gyro_rate = 1000.0;  // Hz
   std::string recommendation_file;
-  bool fixes = false;  // --fixes: longest time between external attitude fixes per method
+  bool fixes = false;         // --fixes: longest time between external attitude fixes per method
   bool local_errors = false;  // --local-errors: also sum each step's own error (truth runs)
 };
 

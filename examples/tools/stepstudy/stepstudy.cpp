@@ -22,13 +22,13 @@
 #include <utility>
 #include <vector>
 
+#include "advice.hpp"
 #include "halfspin/bounds/bound_report.hpp"
 #include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/step_selection.hpp"
-#include "advice.hpp"
 #include "measure.hpp"
 #include "method_registry.hpp"
 #include "options.hpp"
@@ -206,8 +206,8 @@ void fill_orders(std::vector<Row>& rows) {
 
 void print_table(const std::vector<Row>& rows, bool bounds_only, bool local_errors) {
   std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s%s\n", "method", "scalar", "step (s)",
-              bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order",
-              "ns/step", local_errors ? "  sum of local errors (rad)" : "");
+              bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order", "ns/step",
+              local_errors ? "  sum of local errors (rad)" : "");
   for (const Row& r : rows) {
     const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
     const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
@@ -243,10 +243,9 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
                const std::vector<std::string>& methods, const std::vector<Row>& rows) {
   svg::Figure fig;
   fig.title = "halfspin step study: " + motion.name;
-  fig.subtitle =
-      motion.summary + (o.bounds_only ? "; bounds over " + format("%g s", table_horizon(o))
-                                      : "; errors and bounds over runs of " +
-                                            format("%g s", o.duration));
+  fig.subtitle = motion.summary +
+                 (o.bounds_only ? "; bounds over " + format("%g s", table_horizon(o))
+                                : "; errors and bounds over runs of " + format("%g s", o.duration));
   svg::Chart error_chart;
   error_chart.title =
       o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
@@ -629,8 +628,7 @@ int main(int argc, char** argv) {
         "  each run:    %g s (the table's errors and bounds cover the run%s); steps %.3e .. "
         "%.3e s (%d, log-spaced)\n",
         o.duration,
-        o.has_budget ? (", the recommendation --horizon " + format("%g s", o.horizon)).c_str()
-                     : "",
+        o.has_budget ? (", the recommendation --horizon " + format("%g s", o.horizon)).c_str() : "",
         step_min, step_max, o.steps);
   }
   std::printf(
@@ -665,8 +663,9 @@ int main(int argc, char** argv) {
   }
   progress.finish();
   fill_orders(rows);
-  std::printf(o.bounds_only ? "Bounds over %g s:\n" : "Max errors and bounds over each run of %g s:\n",
-              table_horizon(o));
+  std::printf(
+      o.bounds_only ? "Bounds over %g s:\n" : "Max errors and bounds over each run of %g s:\n",
+      table_horizon(o));
   print_table(rows, o.bounds_only, o.local_errors);
   if (failed) {
     std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");

@@ -156,8 +156,8 @@ ErrorBoundParts<T> error_bound_parts_after_steps(const MotionDescription<T>& des
   }
   parts.truncation = truncation_bound<Stepper>(description, dt, steps);
   parts.startup = startup_bound<Stepper>(description, dt);
-  parts.roundoff = roundoff_floor_worst<Stepper, T, Accumulation>(
-      step_rotation_bound(description, dt), steps);
+  parts.roundoff =
+      roundoff_floor_worst<Stepper, T, Accumulation>(step_rotation_bound(description, dt), steps);
   return parts;
 }
 

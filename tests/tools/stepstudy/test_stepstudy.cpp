@@ -547,9 +547,10 @@ std::vector<LocalRow> read_local_csv(const std::string& file, double duration) {
   return rows;
 }
 
-TEST_CASE("stepstudy local errors: the sum of the steps' own errors, closed form at constant rate, and "
-          "never below the measured error",
-          "[tools][reference]") {
+TEST_CASE(
+    "stepstudy local errors: the sum of the steps' own errors, closed form at constant rate, and "
+    "never below the measured error",
+    "[tools][reference]") {
   // Constant rate: RK4's step error is |2 arg P(iθ/2) − θ| (the closed form of the constant-rate
   // test above) and every step makes the same one, so the sum is N times it; the exact methods'
   // steps are exact up to rounding.
@@ -592,8 +593,8 @@ TEST_CASE("stepstudy local errors: the sum of the steps' own errors, closed form
                      std::string("local_") + motion)
                 .exit_code == 0);
     for (const LocalRow& row : read_local_csv(csv, 1.0)) {
-      INFO(motion << " " << row.method << " step " << row.step_s << ": error "
-                  << row.max_error_rad << ", sum " << row.local_sum_rad);
+      INFO(motion << " " << row.method << " step " << row.step_s << ": error " << row.max_error_rad
+                  << ", sum " << row.local_sum_rad);
       CHECK(row.max_error_rad <= row.local_sum_rad + 8.0 * eps_double * row.steps);
     }
   }
@@ -1142,8 +1143,8 @@ TEST_CASE("nothing meets the budget: the limiting term, and alternatives that do
   // 120 Hz 0.01 rad line on one axis, 0.05 deg over 20 minutes.
   const std::string vehicle =
       "--max-rate 3 --bandwidth 4 --vibration 120:0,0,0.01:rad --budget 8.7266e-4 ";
-  const Result r = run_tool(vehicle + "--horizon 1200 --gyro-rate 2000 --methods coning_2_sample",
-                            "advice");
+  const Result r =
+      run_tool(vehicle + "--horizon 1200 --gyro-rate 2000 --methods coning_2_sample", "advice");
   REQUIRE(r.exit_code == 0);
   INFO(r.out);
   // The table covers the horizon the budget is for.
@@ -1172,8 +1173,8 @@ TEST_CASE("nothing meets the budget: the limiting term, and alternatives that do
                                 "advice_gyro");
   CHECK(again.out.find("  recommended: ") != std::string::npos);
   // Fixes: the advised interval, asked as the horizon at 2 kHz in float, is met by that method.
-  const double fixes = number_after(r.out, "external attitude fixes at 2000 Hz gyro, float",
-                                    "at most ");
+  const double fixes =
+      number_after(r.out, "external attitude fixes at 2000 Hz gyro, float", "at most ");
   const std::string method =
       word_after(r.out, "external attitude fixes at 2000 Hz gyro, float", "apart (");
   REQUIRE(std::isfinite(fixes));
