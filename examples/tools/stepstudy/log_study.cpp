@@ -503,13 +503,15 @@ void print_reference(const Options& o, const StudyResult& r) {
         e.order_used, e.low_rad, e.high_rad, richardson_widening);
   } else {
     std::printf(
-        "    the differences do not shrink like an order from 0.5 to 16 (observed %s, %s): at "
-        "the\n"
-        "    rounding level or outside the asymptotic range; UNRELIABLE estimate %.3e rad with the "
-        "declared\n"
-        "    order %d, upper end the 1-vs-2 difference plus the log's own rounding: %.3e rad\n",
-        cell(e.order_fine).c_str(), cell(e.order_coarse).c_str(), e.estimate_rad, e.declared_order,
-        e.high_rad);
+        "    the differences do not shrink like one order from 0.5 to 16 (observed %s, %s): "
+        "at the\n"
+        "    rounding level or outside the asymptotic range: UNRELIABLE estimate %.3e rad, order "
+        "used:\n"
+        "    the declared %d; upper end the 1-vs-2 difference plus the log's own rounding: %.3e "
+        "rad\n",
+        std::isfinite(e.order_fine) ? text("%.2f", e.order_fine).c_str() : "-",
+        std::isfinite(e.order_coarse) ? text("%.2f", e.order_coarse).c_str() : "-", e.estimate_rad,
+        e.declared_order, e.high_rad);
   }
   std::printf(
       "    the log's own rounding (its values are doubles): up to %.3e rad (eps/2 x the angle "
