@@ -44,8 +44,9 @@ def main():
     worst_flagged = 1.0
     clean_rows = flagged_rows = 0
     bad = []
+    ratios = []  # true/estimate where the estimate is reliable
     print(f"{'log':18} {'rows':>5} {'flagged':>7} {'worst factor':>12} {'flagged worst':>13} "
-          f"{'ref est (rad)':>13} {'ref true (rad)':>14} {'true/est':>8} {'interval':>9}")
+          f"{'ref est (rad)':>13} {'ref true (rad)':>14} {'true/est':>8} {'interval':>9} {'estimate':>10}")
     for motion in MOTIONS:
         truth = os.path.join(work, f"{motion}-truth.csv")
         for form in ["delta", "rate"]:
@@ -84,10 +85,17 @@ def main():
             if not inside:
                 bad.append(f"{motion}-{form}: reference true error {true:.3e} outside {low:.3e}..{high:.3e}")
             ratio = true / est if est > 0 else math.inf
+            reliable = low > 0  # the tool sets the low end to 0 for an unreliable estimate
+            if reliable:
+                ratios.append(ratio)
             print(f"{motion + '-' + form:18} {len(rows):5d} {n_flagged:7d} {clean:12.6f} {flagged:13.3g} "
-                  f"{est:13.3e} {true:14.3e} {ratio:8.3f} {'inside' if inside else 'OUTSIDE':>9}")
+                  f"{est:13.3e} {true:14.3e} {ratio:8.3f} {'inside' if inside else 'OUTSIDE':>9} "
+                  f"{'reliable' if reliable else 'unreliable':>10}")
     print(f"\nunflagged rows {clean_rows}: worst agreement factor {worst_clean:.6f}")
     print(f"flagged rows {flagged_rows} (at the reference's resolution): worst factor {worst_flagged:.3g}")
+    if ratios:
+        print(f"reference's true error / estimate where reliable ({len(ratios)} logs): "
+              f"{min(ratios):.3f} .. {max(ratios):.3f}")
     print(f"files in {work}")
     if bad:
         print("\n".join(["FAILED:"] + bad))
