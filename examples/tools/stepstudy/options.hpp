@@ -10,6 +10,8 @@
 #include <string_view>
 #include <vector>
 
+#include "log_options.hpp"
+
 namespace halfspin::tools::stepstudy {
 
 inline constexpr std::array<const char*, 8> default_methods{"exponential_map_midpoint_mean",
@@ -76,6 +78,8 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   std::string recommendation_file;
   bool fixes = false;         // --fixes: longest time between external attitude fixes per method
   bool local_errors = false;  // --local-errors: also sum each step's own error (truth runs)
+
+  LogStudyOptions log;  // --log, --log-truth: a gyro log studied without truth
 };
 
 inline const char* help_text() {
@@ -267,6 +271,76 @@ inline const char* help_text() {
          "                       bound stays within the budget (longest_fix_interval), and "
          "whether that\n"
          "                       covers --horizon\n"
+         "\n"
+         "\n"
+         "Log study (your own gyro log, without truth):\n"
+         "  --log FILE           study FILE instead of a truth motion: a gyro log, its form read "
+         "from its\n"
+         "                       header (t,wx,wy,wz: rate log; t,dx,dy,dz: delta-angle log). It "
+         "needs a fixed\n"
+         "                       period (every interval within 1 ppm of the first), and is read "
+         "twice (a\n"
+         "                       check, then the study) in chunks: memory does not grow with its "
+         "length.\n"
+         "                       Each method runs at k = 1, 2, 4, ..., 2^(N-1) log periods per "
+         "sample\n"
+         "                       (--steps N, default 6, at most 16). A delta-angle log gives the "
+         "sum of k\n"
+         "                       consecutive delta-angles (exact: integrals add; summed in long "
+         "double), a\n"
+         "                       rate log every k-th rate sample (exact samples). On a rate log, "
+         "delta-angle\n"
+         "                       methods take the trapezoid rule per log period, summed: "
+         "INTERPOLATED (exact\n"
+         "                       only for a rate linear over each period; marked in the table and "
+         "CSV).\n"
+         "                       Rate-sample methods do not run on a delta-angle log, nor "
+         "rate-function\n"
+         "                       methods on any log.\n"
+         "                       Errors are max angles, at common step ends, to the log's finest "
+         "solution,\n"
+         "                       NOT truth: coning_4_sample (delta-angle log) or "
+         "runge_kutta_4_sampled (rate\n"
+         "                       log) at k = 1, in long double. Its own error is estimated by "
+         "Richardson\n"
+         "                       extrapolation from its runs at k = 1, 2, 4, 8 (the order used and "
+         "the\n"
+         "                       interval are printed), plus the log's own rounding; rows under "
+         "10x the\n"
+         "                       interval's upper end are flagged ref-res (at the reference's "
+         "resolution).\n"
+         "                       growth: least-squares slope through the origin of the difference "
+         "against\n"
+         "                       time (rad/s); with --horizon S, growth x S: AN EXTRAPOLATION "
+         "(linear\n"
+         "                       growth), not a bound. --budget RAD (needs --horizon) lists the "
+         "largest step\n"
+         "                       per method whose extrapolation meets it. --duration S studies the "
+         "first S\n"
+         "                       seconds (default: the whole log). --methods, --scalar, "
+         "--accumulation,\n"
+         "                       --csv and --svg as above; the CSV's columns are the six above "
+         "(bound_rad\n"
+         "                       empty) and error_against (log_finest_solution), input "
+         "(exact|interpolated),\n"
+         "                       log_periods_per_sample, steps, at_reference_resolution (1|0),\n"
+         "                       reference_error_rad, reference_error_low_rad, "
+         "reference_error_high_rad,\n"
+         "                       growth_rad_per_s, horizon_s, extrapolated_error_rad. Not with "
+         "--motion, a\n"
+         "                       description, --step*, --local-errors, --fixes, "
+         "--recommendation-file.\n"
+         "                       A log or truth that cannot be opened, is malformed or does not "
+         "fit exits 1\n"
+         "                       with a message naming the file and line.\n"
+         "  --log-truth FILE     the log's truth attitude, t,qw,qx,qy,qz at the log's start and "
+         "every sample\n"
+         "                       time (as halfspin-gyro-log --truth writes it): adds the true "
+         "error at the\n"
+         "                       same step ends and the reference's true error (CSV: "
+         "true_error_rad,\n"
+         "                       reference_true_error_rad), to check the truth-free study on a "
+         "made log\n"
          "\n"
          "  --help               this text\n"
          "\n"
@@ -599,6 +673,15 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       if (!positive(o.duration)) {
         return false;
       }
+      o.log.duration_given = true;
+    } else if (a == "--log") {
+      if (!value(o.log.file)) {
+        return false;
+      }
+    } else if (a == "--log-truth") {
+      if (!value(o.log.truth)) {
+        return false;
+      }
     } else if (a == "--csv") {
       if (!value(o.csv)) {
         return false;
@@ -629,6 +712,9 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       error = "unknown argument '" + a + "'";
       return false;
     }
+  }
+  if (!o.log.file.empty() || !o.log.truth.empty()) {
+    return check_log_options(o, step_given, have_horizon, error);
   }
   if (o.bounds_only && !o.motion.empty()) {
     error =

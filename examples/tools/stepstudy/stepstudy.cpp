@@ -29,6 +29,7 @@
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/step_selection.hpp"
+#include "log_study.hpp"
 #include "measure.hpp"
 #include "method_registry.hpp"
 #include "options.hpp"
@@ -534,6 +535,9 @@ int main(int argc, char** argv) {
       std::printf("%-34s %-10s %5d %6d  %s\n", m.name, input, m.order, m.flops, m.description);
     }
     return exit_ok;
+  }
+  if (!o.log.file.empty()) {
+    return run_log_study(o);  // a gyro log studied without truth (log_study.cpp)
   }
 
   // The motion: a truth motion, or a description alone.
