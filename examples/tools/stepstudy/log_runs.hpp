@@ -17,8 +17,8 @@
 // Sample j is rounded once from long double to T (what a sensor delivering T would give), and
 // pushed with dt = k·h. A step of the stepper spans p = periods_per_step(layout, window) samples,
 // so step s ends at row s·p·k. Every run starts from the same attitude (identity, or the truth's
-// first attitude) and renormalizes exactly after every step (ExactRenormalization), as the truth
-// study does (measure.hpp): only the attitude error counts.
+// first attitude) with the propagator's default renormalization (FirstOrderRenormalization), as
+// the truth study does (measure.hpp): the angle error does not depend on the norm.
 
 #include <algorithm>
 #include <chrono>
@@ -141,7 +141,7 @@ class LogRunOf final : public LogRun {
   }
 
  private:
-  Propagator<T, Stepper, ExactRenormalization, Accumulation> propagator_;
+  Propagator<T, Stepper, FirstOrderRenormalization, Accumulation> propagator_;
   std::int64_t k_;
   LD h_;
   T dt_;
