@@ -256,16 +256,7 @@ std::int64_t lcm(std::int64_t a, std::int64_t b) { return a / std::gcd(a, b) * b
 // The methods to run on this log, their runs, and notes on the ones left out.
 bool plan_runs(const Options& o, const LogShape& shape, std::int64_t reference_periods,
                const Quaternion<LD>& q0, std::vector<MethodRun>& runs, std::string& error) {
-  std::vector<std::string> names;
-  if (o.all_methods) {
-    for (const MethodInfo& m : method_catalogue()) {
-      names.emplace_back(m.name);
-    }
-  } else if (o.methods.empty()) {
-    names.assign(std::begin(default_methods), std::end(default_methods));
-  } else {
-    names = o.methods;
-  }
+  const std::vector<std::string> names = requested_method_names(o);
   const int level_count = o.steps_given ? o.steps : default_log_levels;
   const LD h = static_cast<LD>(shape.period_s);
   std::vector<std::string> done;

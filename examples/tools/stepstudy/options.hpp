@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "log_options.hpp"
+#include "method_registry.hpp"
 
 namespace halfspin::tools::stepstudy {
 
@@ -756,6 +757,22 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
     return false;
   }
   return true;
+}
+
+// The method names asked for: every catalogued one (--methods all), the default set, or the list
+// as given (the caller checks the names: unknown ones, duplicates, aliases).
+inline std::vector<std::string> requested_method_names(const Options& o) {
+  std::vector<std::string> names;
+  if (o.all_methods) {
+    for (const MethodInfo& m : method_catalogue()) {
+      names.emplace_back(m.name);
+    }
+  } else if (o.methods.empty()) {
+    names.assign(std::begin(default_methods), std::end(default_methods));
+  } else {
+    names = o.methods;
+  }
+  return names;
 }
 
 }  // namespace halfspin::tools::stepstudy

@@ -574,23 +574,14 @@ int main(int argc, char** argv) {
 
   // The methods.
   std::vector<std::string> methods;
-  if (o.all_methods) {
-    for (const MethodInfo& m : method_catalogue()) {
-      methods.emplace_back(m.name);
+  for (const std::string& name : requested_method_names(o)) {
+    if (find_method(name) == nullptr) {
+      std::fprintf(stderr, "halfspin-stepstudy: unknown method '%s' (--methods list shows them)\n",
+                   name.c_str());
+      return exit_usage;
     }
-  } else if (o.methods.empty()) {
-    methods.assign(std::begin(default_methods), std::end(default_methods));
-  } else {
-    for (const std::string& name : o.methods) {
-      if (find_method(name) == nullptr) {
-        std::fprintf(stderr,
-                     "halfspin-stepstudy: unknown method '%s' (--methods list shows them)\n",
-                     name.c_str());
-        return exit_usage;
-      }
-      if (std::find(methods.begin(), methods.end(), name) == methods.end()) {
-        methods.push_back(name);
-      }
+    if (std::find(methods.begin(), methods.end(), name) == methods.end()) {
+      methods.push_back(name);
     }
   }
   if (o.bounds_only) {
