@@ -41,7 +41,8 @@ constexpr const char* help_text =
     R"(halfspin-gyro-log: write the exact gyro log of a truth motion (invented parameters).
 
 Usage: halfspin-gyro-log --motion M --output FILE [options]
-       halfspin-gyro-log [--turn X,Y,Z] [--coning DEG,HZ] [--vibration ...]... --output FILE [options]
+       halfspin-gyro-log [--turn X,Y,Z] [--coning DEG,HZ] [--vibration V]... --output FILE
+                         [options]
 
 Example (a turn near 3 rad/s with a 120 Hz, 0.01 rad vibration line on body z, gyro at 2 kHz,
 delta-angles, 20 minutes, with truth):

@@ -83,7 +83,8 @@ Options:
   --rate-unit rad/s|deg/s
                         unit of a rate log's gyro columns (default rad/s).
   --angle-unit rad|deg  unit of a delta-angle log's gyro columns (default rad).
-  --start-time S        delta-angle logs: start of the first row's interval (s, default 0).
+  --start-time S        delta-angle logs: start of the first row's interval (s whatever
+                        --time-unit, default 0).
   --max-interval S      longest sample interval (s) accepted; a longer one is a gap (missed
                         samples). Default: 2.5 x the first interval of the log.
   --max-rate R          gyro full scale (rad/s per axis); a rate or a delta-angle/interval above it
@@ -109,9 +110,10 @@ and deg: the integral of |w| dt by the trapezoid rule over the rate rows, or the
 |delta-angle| over the delta-angle rows), max norm error, final attitude (quaternion and Euler),
 and with --truth the attitude error. Notes (stderr, never a rejection): columns ignored; a zero
 first delta-angle row taken as the log's start; a peak |w| above 35 rad/s (2000 deg/s) in a log
-read as rad/s or rad: 2000 deg/s is the largest full scale of common MEMS gyros (common
-practice, from memory), so such a log more likely holds degrees (--rate-unit deg/s,
---angle-unit deg). Below that, the peak printed in both units is what tells a unit mix-up.
+read as rad/s or rad by default (no --rate-unit or --angle-unit given): 2000 deg/s is the
+largest full scale of common MEMS gyros (common practice, from memory), so such a log more
+likely holds degrees (--rate-unit deg/s, --angle-unit deg). Below that, the peak printed in
+both units is what tells a unit mix-up.
 
 Bad input: a malformed or over-long line, a wrong number of fields, a non-numeric field, NaN or
 infinity, a timestamp that does not increase (each message names what it was compared with: the
