@@ -70,20 +70,13 @@ std::string field_of(const std::string& line, std::size_t n) {
 }
 
 template <std::size_t N>
-std::array<std::size_t, N> identity_columns() {
-  std::array<std::size_t, N> c{};
-  for (std::size_t i = 0; i < N; ++i) c[i] = i;
-  return c;
-}
-
-template <std::size_t N>
 void check_reader(std::string_view text, const std::vector<std::string>& lines,
                   const std::array<const char*, N>& names,
-                  const std::array<std::size_t, N>& columns = identity_columns<N>(),
+                  const std::array<std::size_t, N>& columns = detail::identity_columns<N>(),
                   std::size_t field_count = N) {
   std::istringstream in{std::string(text)};
   NumericCsvReader<N> reader(in);
-  if (field_count != N || columns != identity_columns<N>()) {
+  if (field_count != N || columns != detail::identity_columns<N>()) {
     reader.select_columns(columns, field_count);
   }
   std::string header;

@@ -80,6 +80,18 @@ inline const char* line_problem_name(LineProblem p) noexcept {
 
 enum class ReadOutcome { row, end, bad };
 
+namespace detail {
+
+// 0, 1, ..., N − 1: every field read, in order.
+template <std::size_t N>
+constexpr std::array<std::size_t, N> identity_columns() noexcept {
+  std::array<std::size_t, N> c{};
+  for (std::size_t i = 0; i < N; ++i) c[i] = i;
+  return c;
+}
+
+}  // namespace detail
+
 // Reads CSV lines of N numeric fields from a stream, one at a time.
 template <std::size_t N>
 class NumericCsvReader {
@@ -184,12 +196,6 @@ class NumericCsvReader {
     return N;
   }
 
-  static constexpr std::array<std::size_t, N> identity_columns() noexcept {
-    std::array<std::size_t, N> c{};
-    for (std::size_t i = 0; i < N; ++i) c[i] = i;
-    return c;
-  }
-
   ReadOutcome fail(LineProblem p, std::string m) {
     problem_ = p;
     message_ = std::move(m);
@@ -226,7 +232,7 @@ class NumericCsvReader {
   }
 
   std::istream& in_;
-  std::array<std::size_t, N> columns_ = identity_columns();
+  std::array<std::size_t, N> columns_ = detail::identity_columns<N>();
   std::size_t field_count_ = N;
   std::string line_;
   bool too_long_ = false;
@@ -298,6 +304,38 @@ inline bool form_fits(const std::vector<std::string>& names, GyroLogForm form,
 
 inline constexpr std::array<const char*, 4> role_names{{"t", "x", "y", "z"}};
 
+// Messages of resolve_gyro_log_layout (built here, out of its loop).
+inline std::string role_text(std::size_t r, const std::string& name, bool by_option) {
+  std::string text = role_names[r];
+  if (by_option) text.append(" (--columns ").append(role_names[r]).append("=").append(name) += ")";
+  return text;
+}
+inline std::string missing_column(const std::string& name, const std::string& what, bool by_option,
+                                  GyroLogForm form, std::size_t r) {
+  std::string text = "header has no column '";
+  text.append(name).append("' for ").append(what);
+  if (!by_option) {
+    text.append(" of the ")
+        .append(form == GyroLogForm::rate ? "rate" : "delta-angle")
+        .append(" form (--columns ")
+        .append(role_names[r])
+        .append("=NAME maps another)");
+  }
+  return text + ": ";
+}
+inline std::string repeated_column(const std::string& name, const std::string& what,
+                                   std::size_t first, std::size_t second) {
+  std::string text = "header names column '";
+  text.append(name).append("' (for ").append(what).append(") more than once (columns ");
+  text.append(std::to_string(first + 1)).append(" and ").append(std::to_string(second + 1));
+  return text + "): ";
+}
+inline std::string same_column(std::size_t q, std::size_t r, const std::string& name) {
+  std::string text = "--columns maps ";
+  text.append(role_names[q]).append(" and ").append(role_names[r]);
+  return text.append(" to the same column '").append(name) + "'";
+}
+
 }  // namespace detail
 
 // Resolves `header` into `layout`: the form is `form` if given, else the one whose gyro column
@@ -347,26 +385,11 @@ inline std::string resolve_gyro_log_layout(std::string_view header, std::optiona
     const bool by_option = !mapped[r].empty();
     const std::string n = by_option ? mapped[r] : default_column_names(*form)[r];
     const std::vector<std::size_t> at = detail::columns_named(names, n);
-    const std::string what =
-        std::string(detail::role_names[r]) +
-        (by_option ? " (--columns " + std::string(detail::role_names[r]) + "=" + n + ")" : "");
-    if (at.empty()) {
-      return "header has no column '" + n + "' for " + what +
-             (by_option
-                  ? ""
-                  : " of the " + std::string(*form == GyroLogForm::rate ? "rate" : "delta-angle") +
-                        " form (--columns " + detail::role_names[r] + "=NAME maps another)") +
-             ": " + found;
-    }
-    if (at.size() > 1) {
-      return "header names column '" + n + "' (for " + what + ") more than once (columns " +
-             std::to_string(at[0] + 1) + " and " + std::to_string(at[1] + 1) + "): " + found;
-    }
+    const std::string what = detail::role_text(r, n, by_option);
+    if (at.empty()) return detail::missing_column(n, what, by_option, *form, r) + found;
+    if (at.size() > 1) return detail::repeated_column(n, what, at[0], at[1]) + found;
     for (std::size_t q = 0; q < r; ++q) {
-      if (l.column[q] == at[0]) {
-        return "--columns maps " + std::string(detail::role_names[q]) + " and " +
-               detail::role_names[r] + " to the same column '" + n + "'";
-      }
+      if (l.column[q] == at[0]) return detail::same_column(q, r, n);
     }
     l.column[r] = at[0];
     l.name[r] = n;

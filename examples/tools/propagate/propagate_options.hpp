@@ -245,6 +245,16 @@ inline std::string set_euler(const std::string& s, Options& o) {
   return "unknown Euler sequence '" + s + "'";
 }
 
+// A bad --columns item, or (role given) a role mapped twice.
+inline std::string columns_item_error(const std::string& text, const std::string& item,
+                                      const char* role = nullptr) {
+  std::string m = "--columns '" + text + "': ";
+  if (role != nullptr) return m.append(role).append(" is mapped twice");
+  return m.append("'").append(item).append(
+      "' is not ROLE=NAME with ROLE one of t, x, y, z and a non-empty NAME (e.g. "
+      "t=time_us,x=gx,y=gy,z=gz)");
+}
+
 // --columns t=NAME,x=NAME,y=NAME,z=NAME (any of the four, each once, names non-empty).
 inline std::string set_columns(const std::string& text, Options& o) {
   constexpr std::array<const char*, 4> roles{{"t", "x", "y", "z"}};
@@ -258,14 +268,8 @@ inline std::string set_columns(const std::string& text, Options& o) {
     for (std::size_t r = 0; r < roles.size() && equals != std::string::npos; ++r) {
       if (item.compare(0, equals, roles[r]) == 0 && equals == 1) role = r;
     }
-    if (role == roles.size() || equals + 1 >= item.size()) {
-      return "--columns '" + text + "': '" + item +
-             "' is not ROLE=NAME with ROLE one of t, x, y, z and a non-empty NAME (e.g. "
-             "t=time_us,x=gx,y=gy,z=gz)";
-    }
-    if (!o.columns[role].empty()) {
-      return "--columns '" + text + "': " + roles[role] + " is mapped twice";
-    }
+    if (role == roles.size() || equals + 1 >= item.size()) return columns_item_error(text, item);
+    if (!o.columns[role].empty()) return columns_item_error(text, "", roles[role]);
     o.columns[role] = item.substr(equals + 1);
     if (comma == std::string::npos) return "";
     start = comma + 1;

@@ -95,6 +95,7 @@ class LogRun {
         names_{{layout.name[0].c_str(), layout.name[1].c_str(), layout.name[2].c_str(),
                 layout.name[3].c_str()}},
         gyro_scale_(opt.rate_unit == "deg/s" || opt.angle_unit == "deg" ? pi<double> / 180.0 : 1.0),
+        column_(layout.column),
         out_(out),
         truth_(truth),
         seq_(euler_name(opt.euler)),
@@ -104,7 +105,6 @@ class LogRun {
         start_time_(layout.form == GyroLogForm::delta_angle ? opt.start_time : 0.0),
         have_prev_time_(layout.form == GyroLogForm::delta_angle),
         truth_initial_done_(!opt.initial_from_truth) {
-    column_ = layout.column;
     policy_.kind = opt.renormalize;
     policy_.periodic.period = opt.period;
     policy_.threshold.threshold = to_scalar<T>(opt.threshold);
