@@ -22,6 +22,9 @@ template class BatchPropagator<double, 4>;
 template class BatchPropagator<float, 3, NoRenormalization>;
 template class BatchPropagator<float, 8, FirstOrderRenormalization, CompensatedAccumulation>;
 template class BatchPropagator<double, 4, NoRenormalization, CompensatedAccumulation>;
+// The tools evaluate truth in long double only.
+template struct VibrationLinesMotion<float>;
+template struct VibrationLinesMotion<double>;
 
 }  // namespace halfspin
 

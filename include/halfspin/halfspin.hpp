@@ -71,3 +71,4 @@
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
 #include "halfspin/truth/two_gimbal.hpp"
+#include "halfspin/truth/vibration_lines.hpp"

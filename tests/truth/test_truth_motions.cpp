@@ -25,6 +25,8 @@
 #include "halfspin/truth/composed_motion.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
+#include "halfspin/truth/synthetic_gyro.hpp"
+#include "halfspin/truth/vibration_lines.hpp"
 #include "test_support.hpp"
 
 namespace {
@@ -169,11 +171,11 @@ Vector3<LD> rate_from_attitude(const Motion& motion, LD t, LD h) {
 }
 
 template <class Motion>
-LD worst_rate_vs_differences(const Motion& motion, LD horizon) {
+LD worst_rate_vs_differences(const Motion& motion, LD horizon, LD h = LD(2e-5)) {
   LD worst = 0;
   for (int k = 0; k <= 64; ++k) {
     const LD t = horizon * LD(k) / 64;
-    const Vector3<LD> a = rate_from_attitude(motion, t, LD(2e-5));
+    const Vector3<LD> a = rate_from_attitude(motion, t, h);
     const Vector3<LD> b = motion.rate(t);
     worst = std::max(worst, halfspin::norm(a - b));
   }
@@ -453,4 +455,153 @@ void check_precision(const char* type, LD attitude_tol, LD rate_tol, LD delta_to
 TEST_CASE("truth motions evaluate in float and double within a few eps of the phase", "[truth]") {
   check_precision<double>("double", 4, 4, 4);
   check_precision<float>("float", 4, 4, 4);
+}
+
+// ---- Vibration lines (truth/vibration_lines.hpp): attitude defined, rate derived ----------------
+
+namespace {
+
+using halfspin::VibrationLine;
+using halfspin::VibrationLinesMotion;
+
+// Three lines on all three axes with different phases: θ and θ̇ are not parallel, so the body
+// rate is not θ̇ (the check below makes sure of it). Amplitudes up to 0.5 rad: |θ| crosses the
+// series threshold (|θ| = 0.1) in both directions. Low frequencies keep the Odeint runs short.
+template <class T>
+VibrationLinesMotion<T> three_axis_lines() {
+  VibrationLinesMotion<T> m;
+  m.lines.add(VibrationLine<T>::from_angle_amplitude(T(1.5), Vector3<T>{T(0.25), T(0.5), T(0.125)})
+                  .with_phases(Vector3<T>{T(0.25), T(1.5), T(-0.75)}));
+  m.lines.add(VibrationLine<T>::from_angle_amplitude(T(2.75), Vector3<T>{T(0.125), T(0), T(0.25)})
+                  .with_phases(Vector3<T>{T(2), T(0), T(0.5)}));
+  m.lines.add(VibrationLine<T>::from_rate_amplitude(T(0.625), Vector3<T>{T(0.5), T(0.25), T(0)}));
+  return m;
+}
+
+// Small lines (|θ| < 0.03 rad): the rate is evaluated on the series branch only.
+template <class T>
+VibrationLinesMotion<T> small_lines() {
+  VibrationLinesMotion<T> m;
+  m.lines.add(
+      VibrationLine<T>::from_angle_amplitude(T(3.25), Vector3<T>{T(0.0078125), T(0.015625), T(0)})
+          .with_phases(Vector3<T>{T(0), T(1.25), T(0)}));
+  m.lines.add(
+      VibrationLine<T>::from_angle_amplitude(T(1.75), Vector3<T>{T(0), T(0.0078125), T(0.0078125)})
+          .with_phases(Vector3<T>{T(0), T(-0.5), T(2.5)}));
+  return m;
+}
+
+// The engineer's question (invented values): a turn near 3 rad/s carrying a 120 Hz, 0.01 rad
+// vibration line on body z, sampled at 2 kHz.
+template <class T>
+auto turn_with_engine_line() {
+  VibrationLinesMotion<T> v;
+  v.lines.add(VibrationLine<T>::from_angle_amplitude(T(120), Vector3<T>{T(0), T(0), T(0.01)})
+                  .with_phases(Vector3<T>{T(0), T(0), T(0.3)}));
+  const ConstantRateMotion<T> turn{Quaternion<T>::identity(),
+                                   Vector3<T>{T(0.625), T(-2.125), T(2)}};
+  return halfspin::compose<T>(turn, v);
+}
+
+// The long double motion seen in double (GSL's type) from a start time t0 on: rate(s) is the
+// rate at t0 + s evaluated in long double, so that neither the phase (thousands of radians) nor
+// GSL's nodes t0 + s carry a double rounding; a node's s is exact to its own ulp.
+template <class Motion>
+struct ShiftedRate {
+  Motion motion;
+  LD t0;
+  Vector3<double> rate(double s) const {
+    const Vector3<LD> w = motion.rate(t0 + ld(s));
+    return {static_cast<double>(w.x), static_cast<double>(w.y), static_cast<double>(w.z)};
+  }
+};
+
+}  // namespace
+
+TEST_CASE("vibration lines: attitude matches Boost.Odeint integration of the derived rate",
+          "[truth][reference]") {
+  // Reference: Boost.Odeint runge_kutta_fehlberg78, controlled, 1e-18, long double, integrating
+  // q̇ = ½ q ⊗ (0, ω(t)) from the motion's own rate(t) (the derived J(θ)·θ̇). Measured worst
+  // 1.5e-16 rad (three axes, turn) and 3.8e-16 rad (small lines, where the integrator's own error
+  // is the larger part: the rate is exact to 2e-15 rad/s, next test).
+  const LD tol = 1e-15L;
+  const LD a = worst_attitude_vs_odeint(three_axis_lines<LD>(), 40, LD(0.25));
+  const LD b = worst_attitude_vs_odeint(small_lines<LD>(), 40, LD(0.25));
+  const LD c = worst_attitude_vs_odeint(
+      halfspin::compose<LD>(constant_rate_motion<LD>(), three_axis_lines<LD>()), 40, LD(0.25));
+  halfspin::test::report_worst("odeint: vibration lines, three axes (rad)", a);
+  halfspin::test::report_worst("odeint: vibration lines, small (rad)", b);
+  halfspin::test::report_worst("odeint: turn carrying vibration lines (rad)", c);
+  CHECK(a < tol);
+  CHECK(b < tol);
+  CHECK(c < tol);
+}
+
+TEST_CASE("vibration lines: rate matches 2 q* q' from central differences, and is not theta'",
+          "[truth][reference]") {
+  // Reference: ω = 2 q* ⊗ q̇ (common practice, no source), q̇ by fourth-order central differences
+  // in long double (error budget in "closed-form rates match 2 q* q' ..." above).
+  const LD tol = 5e-13L;
+  const LD a = worst_rate_vs_differences(three_axis_lines<LD>(), 5);
+  const LD b = worst_rate_vs_differences(small_lines<LD>(), 5);
+  // At 120 Hz the truncation h⁴|q⁽⁵⁾|/30 ≈ h⁴·0.01·754⁵/30 needs h = 2e-6 s (1.3e-12 rad/s);
+  // roundoff ε·(754·0.05)/h ≈ 2e-12 rad/s.
+  const LD c = worst_rate_vs_differences(turn_with_engine_line<LD>(), LD(0.05), LD(2e-6));
+  halfspin::test::report_worst("differences: vibration lines, three axes (rad/s)", a);
+  halfspin::test::report_worst("differences: vibration lines, small (rad/s)", b);
+  halfspin::test::report_worst("differences: turn + 120 Hz line (rad/s)", c);
+  CHECK(a < tol);
+  CHECK(b < tol);
+  CHECK(c < tol * 20);
+  // The difference from θ̇ is the vibration's coning, of order ½|θ||θ̇|: a rate that simply
+  // returned θ̇ would fail the checks above by far more than their tolerance.
+  const VibrationLinesMotion<LD> m = three_axis_lines<LD>();
+  LD largest_difference = 0;
+  for (int k = 0; k <= 64; ++k) {
+    const LD t = LD(k) * 5 / 64;
+    largest_difference =
+        std::max(largest_difference, halfspin::norm(m.rate(t) - m.rotation_vector_rate(t)));
+  }
+  CHECK(largest_difference > 0.1L);
+}
+
+TEST_CASE("vibration lines on one axis are the single-axis oscillation", "[truth]") {
+  // θ parallel to θ̇: ω = θ̇ exactly, the same motion as SingleAxisOscillation with the angle
+  // amplitude A/Ω and the same phase.
+  VibrationLinesMotion<LD> m;
+  m.lines.add(VibrationLine<LD>::from_angle_amplitude(LD(2.5), Vector3<LD>{0, 0.375L, 0})
+                  .with_phases(Vector3<LD>{0, 0.625L, 0}));
+  const SingleAxisOscillation<LD> o{Vector3<LD>{0, 1, 0}, 0.375L, 2.5L, 0.625L,
+                                    Quaternion<LD>::identity()};
+  for (int k = 0; k <= 32; ++k) {
+    const LD t = LD(k) / 16;
+    CHECK(halfspin::angle_between(m.attitude(t), o.attitude(t)) < 1e-18L);
+    CHECK(halfspin::norm(m.rate(t) - o.rate(t)) < 1e-17L);
+  }
+}
+
+TEST_CASE("truth delta-angles of a turn carrying a 120 Hz line at 2 kHz match GSL quadrature",
+          "[truth][reference]") {
+  // Reference: GSL gsl_integration_qk61 (61-point Gauss–Kronrod) of each rate component over one
+  // 2 kHz gyro interval. Checks the accuracy claim of the 8-point Gauss–Legendre rule that
+  // truth_delta_angle uses for this motion (synthetic_gyro.hpp: below 2e-23·dt·(Ω dt)^16 times the
+  // rate amplitude for a rate band-limited to Ω; here Ω·dt ≈ 754/2048 = 0.37 for the line, and the
+  // turn seen through the vibrating frame adds harmonics of amplitude ~|turn|·0.01ⁿ/n! at nΩ):
+  // the difference must be GSL's own double rounding. Measured worst 0.52 ε of |ω|·dt.
+  const auto motion = turn_with_engine_line<LD>();
+  const double eps = std::numeric_limits<double>::epsilon();
+  double worst = 0;
+  for (const LD t0 : {0.0L, 0.3125L, 1.75L, 7.0L}) {
+    const LD h = 1.0L / 2048;
+    const Vector3<LD> a = halfspin::truth_delta_angle(motion, t0, t0 + h);
+    const Vector3<double> b =
+        gsl_delta_angle(ShiftedRate<decltype(motion)>{motion, t0}, 0.0, static_cast<double>(h));
+    const Vector3<LD> difference{a.x - ld(b.x), a.y - ld(b.y), a.z - ld(b.z)};
+    worst = std::max(worst, static_cast<double>(halfspin::norm(difference) /
+                                                (halfspin::norm(motion.rate(t0)) * h)));
+  }
+  halfspin::test::report_worst("GSL qk61: turn + 120 Hz line delta-angle at 2 kHz (eps)",
+                               ld(worst / eps));
+  INFO("worst " << worst / eps << " eps");
+  CHECK(worst < 2 * eps);
 }

@@ -2,9 +2,12 @@
 // The tools' gyro-log CSV format, a streaming reader for it and a writer. Tool code (not part of
 // the installed library): it uses the standard library and POSIX freely.
 //
-// Format (our own; CSV per RFC 4180 without quoting, since every field is a number):
-//   line 1:  a header, exactly `t,wx,wy,wz` (rate form) or `t,dx,dy,dz` (delta-angle form)
-//   then one sample per line, comma-separated decimal numbers (anything strtod reads in the "C"
+// Format (our own; CSV per RFC 4180 without quoting, since every used field is a number):
+//   line 1:  a header naming the columns: `t,wx,wy,wz` (rate form) or `t,dx,dy,dz` (delta-angle
+//            form), in any order, among other columns (a temperature, a counter, ...), which are
+//            ignored; or any names, mapped to time and gyro columns by the user (--columns)
+//   then one sample per line, as many fields as the header has columns; the used ones
+//   comma-separated decimal numbers (anything strtod reads in the "C"
 //   locale; spaces around a field are allowed, a trailing CR is ignored, so CRLF files read the
 //   same as LF files; a UTF-8 byte-order mark before the header is skipped; the last line may
 //   lack its newline):
@@ -23,7 +26,10 @@
 //                                          and the parsed values (non_finite: values hold the
 //                                          parsed numbers, non-finite ones included)
 //       line()                             line number of the line last read
-//   GyroLogForm, gyro_log_form_from_header(text), gyro_log_header(form)
+//       select_columns(columns, count)     read only these columns of lines with `count` fields
+//   GyroLogForm, gyro_log_header(form)
+//   GyroLogLayout, resolve_gyro_log_layout(header, form, mapped, layout) → reason or ""
+//                                        which columns of a header hold t, x, y, z and the form
 //   StagedOutputFile                     writes to a temporary file beside the destination and
 //                                        renames it over the destination on commit(); removes the
 //                                        temporary on destruction if not committed (no partial
@@ -39,6 +45,7 @@
 #include <string>
 #include <string_view>
 #include <utility>
+#include <vector>
 
 #include <unistd.h>
 
@@ -73,6 +80,18 @@ inline const char* line_problem_name(LineProblem p) noexcept {
 
 enum class ReadOutcome { row, end, bad };
 
+namespace detail {
+
+// 0, 1, ..., N − 1: every field read, in order.
+template <std::size_t N>
+constexpr std::array<std::size_t, N> identity_columns() noexcept {
+  std::array<std::size_t, N> c{};
+  for (std::size_t i = 0; i < N; ++i) c[i] = i;
+  return c;
+}
+
+}  // namespace detail
+
 // Reads CSV lines of N numeric fields from a stream, one at a time.
 template <std::size_t N>
 class NumericCsvReader {
@@ -92,6 +111,14 @@ class NumericCsvReader {
     return !too_long_;
   }
 
+  // From now on lines have `field_count` fields and values[i] is read from field columns[i]
+  // (0-based, distinct, each < field_count); the other fields are not looked at. Until called:
+  // N fields, values[i] from field i.
+  void select_columns(const std::array<std::size_t, N>& columns, std::size_t field_count) {
+    columns_ = columns;
+    field_count_ = field_count;
+  }
+
   // Reads the next line into `values`. Field names (for messages) are given by `names`.
   ReadOutcome next(std::array<double, N>& values, const std::array<const char*, N>& names) {
     if (!read_line()) {
@@ -109,7 +136,8 @@ class NumericCsvReader {
     while (true) {
       const std::size_t comma = line_.find(',', start);
       const std::size_t stop = comma == std::string::npos ? line_.size() : comma;
-      if (field < N) {
+      const std::size_t slot = slot_of(field);
+      if (slot < N) {
         const std::string_view text = trim(std::string_view(line_).substr(start, stop - start));
         const std::string owned(text);
         char* end = nullptr;
@@ -118,15 +146,15 @@ class NumericCsvReader {
         if (owned.empty() || end - owned.c_str() != static_cast<std::ptrdiff_t>(owned.size())) {
           if (!first_problem) {
             first_problem.emplace(LineProblem::non_numeric,
-                                  "field " + std::to_string(field + 1) + " (" + names[field] +
+                                  "field " + std::to_string(field + 1) + " (" + names[slot] +
                                       ") is not a number: '" + owned + "'");
           }
-          values[field] = 0.0;
+          values[slot] = 0.0;
         } else {
-          values[field] = v;
+          values[slot] = v;
           if (!(v - v == 0.0) && !first_problem) {
             first_problem.emplace(LineProblem::non_finite, "field " + std::to_string(field + 1) +
-                                                               " (" + names[field] +
+                                                               " (" + names[slot] +
                                                                ") is not finite: '" + owned + "'");
           }
         }
@@ -137,10 +165,10 @@ class NumericCsvReader {
       }
       start = comma + 1;
     }
-    if (field != N) {
-      return fail(LineProblem::wrong_field_count, "malformed line: expected " + std::to_string(N) +
-                                                      " comma-separated fields, found " +
-                                                      std::to_string(field));
+    if (field != field_count_) {
+      return fail(LineProblem::wrong_field_count,
+                  "malformed line: expected " + std::to_string(field_count_) +
+                      " comma-separated fields, found " + std::to_string(field));
     }
     if (first_problem) {
       return fail(first_problem->first, first_problem->second);
@@ -158,6 +186,14 @@ class NumericCsvReader {
     while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
     while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
     return s;
+  }
+
+  // The slot read from field `field`, N if none.
+  std::size_t slot_of(std::size_t field) const noexcept {
+    for (std::size_t i = 0; i < N; ++i) {
+      if (columns_[i] == field) return i;
+    }
+    return N;
   }
 
   ReadOutcome fail(LineProblem p, std::string m) {
@@ -196,6 +232,8 @@ class NumericCsvReader {
   }
 
   std::istream& in_;
+  std::array<std::size_t, N> columns_ = detail::identity_columns<N>();
+  std::size_t field_count_ = N;
   std::string line_;
   bool too_long_ = false;
   std::size_t line_number_ = 0;
@@ -209,23 +247,163 @@ inline const char* gyro_log_header(GyroLogForm form) noexcept {
   return form == GyroLogForm::rate ? "t,wx,wy,wz" : "t,dx,dy,dz";
 }
 
-// The form a header names (spaces around the names allowed), or nothing.
-inline std::optional<GyroLogForm> gyro_log_form_from_header(std::string_view header) {
-  std::string compact;
-  for (const char c : header) {
-    if (c != ' ' && c != '\t' && c != '\r') compact.push_back(c);
-  }
-  if (compact == gyro_log_header(GyroLogForm::rate)) return GyroLogForm::rate;
-  if (compact == gyro_log_header(GyroLogForm::delta_angle)) return GyroLogForm::delta_angle;
-  return std::nullopt;
-}
+// Which columns of a gyro log hold time and the three gyro axes, and what the gyro columns hold.
+struct GyroLogLayout {
+  GyroLogForm form = GyroLogForm::rate;
+  std::array<std::size_t, 4> column{{0, 1, 2, 3}};  // 0-based columns of t, x, y, z
+  std::size_t field_count = 4;                      // columns in the header (and in every row)
+  std::array<std::string, 4> name;                  // the header's names of t, x, y, z
+  std::vector<std::size_t> ignored;                 // the other columns, 0-based
+  std::vector<std::string> header;                  // every column name, trimmed
+};
 
-inline constexpr const char* attitude_csv_header = "t,qw,qx,qy,qz";
-
-inline constexpr std::array<const char*, 4> gyro_log_field_names(GyroLogForm form) noexcept {
+// The default header names of the roles t, x, y, z in a form.
+inline std::array<const char*, 4> default_column_names(GyroLogForm form) noexcept {
   return form == GyroLogForm::rate ? std::array<const char*, 4>{{"t", "wx", "wy", "wz"}}
                                    : std::array<const char*, 4>{{"t", "dx", "dy", "dz"}};
 }
+
+namespace detail {
+
+// The header's column names, split at commas, spaces and tabs around each trimmed.
+inline std::vector<std::string> header_names(std::string_view header) {
+  std::vector<std::string> names;
+  std::size_t start = 0;
+  while (true) {
+    const std::size_t comma = header.find(',', start);
+    std::string_view n = header.substr(
+        start, comma == std::string_view::npos ? std::string_view::npos : comma - start);
+    while (!n.empty() && (n.front() == ' ' || n.front() == '\t')) n.remove_prefix(1);
+    while (!n.empty() && (n.back() == ' ' || n.back() == '\t')) n.remove_suffix(1);
+    names.emplace_back(n);
+    if (comma == std::string_view::npos) return names;
+    start = comma + 1;
+  }
+}
+
+// Columns named `name` (0-based).
+inline std::vector<std::size_t> columns_named(const std::vector<std::string>& names,
+                                              const std::string& name) {
+  std::vector<std::size_t> found;
+  for (std::size_t i = 0; i < names.size(); ++i) {
+    if (names[i] == name) found.push_back(i);
+  }
+  return found;
+}
+
+// Whether every gyro role (x, y, z) has a column in `form`: its mapped name or the form's
+// default name.
+inline bool form_fits(const std::vector<std::string>& names, GyroLogForm form,
+                      const std::array<std::string, 4>& mapped) {
+  for (std::size_t r = 1; r < 4; ++r) {
+    const std::string n = mapped[r].empty() ? default_column_names(form)[r] : mapped[r];
+    if (columns_named(names, n).empty()) return false;
+  }
+  return true;
+}
+
+inline constexpr std::array<const char*, 4> role_names{{"t", "x", "y", "z"}};
+
+// Messages of resolve_gyro_log_layout (built here, out of its loop).
+inline std::string role_text(std::size_t r, const std::string& name, bool by_option) {
+  std::string text = role_names[r];
+  if (by_option) text.append(" (--columns ").append(role_names[r]).append("=").append(name) += ")";
+  return text;
+}
+inline std::string missing_column(const std::string& name, const std::string& what, bool by_option,
+                                  GyroLogForm form, std::size_t r) {
+  std::string text = "header has no column '";
+  text.append(name).append("' for ").append(what);
+  if (!by_option) {
+    text.append(" of the ")
+        .append(form == GyroLogForm::rate ? "rate" : "delta-angle")
+        .append(" form (--columns ")
+        .append(role_names[r])
+        .append("=NAME maps another)");
+  }
+  return text + ": ";
+}
+inline std::string repeated_column(const std::string& name, const std::string& what,
+                                   std::size_t first, std::size_t second) {
+  std::string text = "header names column '";
+  text.append(name).append("' (for ").append(what).append(") more than once (columns ");
+  text.append(std::to_string(first + 1)).append(" and ").append(std::to_string(second + 1));
+  return text + "): ";
+}
+inline std::string same_column(std::size_t q, std::size_t r, const std::string& name) {
+  std::string text = "--columns maps ";
+  text.append(role_names[q]).append(" and ").append(role_names[r]);
+  return text.append(" to the same column '").append(name) + "'";
+}
+
+}  // namespace detail
+
+// Resolves `header` into `layout`: the form is `form` if given, else the one whose gyro column
+// names (wx,wy,wz or dx,dy,dz; or the names `mapped`, where all three are mapped, if they are one
+// of those sets) the header has. mapped[r] (r = t, x, y, z) names the column of role r, "" for the
+// default name. Returns "" or the reason the header does not fit, naming what was looked for.
+inline std::string resolve_gyro_log_layout(std::string_view header, std::optional<GyroLogForm> form,
+                                           const std::array<std::string, 4>& mapped,
+                                           GyroLogLayout& layout) {
+  const std::vector<std::string> names = detail::header_names(header);
+  const std::string found = "found '" + std::string(header) + "'";
+  if (!form) {
+    const bool all_mapped = !mapped[1].empty() && !mapped[2].empty() && !mapped[3].empty();
+    const auto is_set = [&mapped](GyroLogForm f) {
+      const auto d = default_column_names(f);
+      return mapped[1] == d[1] && mapped[2] == d[2] && mapped[3] == d[3];
+    };
+    if (all_mapped) {
+      if (is_set(GyroLogForm::rate)) form = GyroLogForm::rate;
+      if (is_set(GyroLogForm::delta_angle)) form = GyroLogForm::delta_angle;
+      if (!form) {
+        return "--columns maps the gyro columns to '" + mapped[1] + "', '" + mapped[2] + "', '" +
+               mapped[3] + "', names that do not say rates or delta-angles: give --form rate or " +
+               "--form delta";
+      }
+    } else {
+      const bool rate = detail::form_fits(names, GyroLogForm::rate, mapped);
+      const bool delta = detail::form_fits(names, GyroLogForm::delta_angle, mapped);
+      if (rate && delta) {
+        return "header has both rate columns wx,wy,wz and delta-angle columns dx,dy,dz: choose "
+               "with --form rate or --form delta (" +
+               found + ")";
+      }
+      if (!rate && !delta) {
+        return "header must name t and wx,wy,wz (rates) or dx,dy,dz (delta-angles), in any "
+               "order among other columns, or map its columns with --columns: " +
+               found;
+      }
+      form = rate ? GyroLogForm::rate : GyroLogForm::delta_angle;
+    }
+  }
+  GyroLogLayout l;
+  l.form = *form;
+  l.field_count = names.size();
+  l.header = names;
+  for (std::size_t r = 0; r < 4; ++r) {
+    const bool by_option = !mapped[r].empty();
+    const std::string n = by_option ? mapped[r] : default_column_names(*form)[r];
+    const std::vector<std::size_t> at = detail::columns_named(names, n);
+    const std::string what = detail::role_text(r, n, by_option);
+    if (at.empty()) return detail::missing_column(n, what, by_option, *form, r) + found;
+    if (at.size() > 1) return detail::repeated_column(n, what, at[0], at[1]) + found;
+    for (std::size_t q = 0; q < r; ++q) {
+      if (l.column[q] == at[0]) return detail::same_column(q, r, n);
+    }
+    l.column[r] = at[0];
+    l.name[r] = n;
+  }
+  for (std::size_t i = 0; i < names.size(); ++i) {
+    if (i != l.column[0] && i != l.column[1] && i != l.column[2] && i != l.column[3]) {
+      l.ignored.push_back(i);
+    }
+  }
+  layout = std::move(l);
+  return "";
+}
+
+inline constexpr const char* attitude_csv_header = "t,qw,qx,qy,qz";
 
 inline constexpr std::array<const char*, 5> attitude_field_names{{"t", "qw", "qx", "qy", "qz"}};
 

@@ -1,6 +1,6 @@
 // halfspin-gyro-log: writes the exact gyro log (rates or delta-angles) of one of the library's
-// truth motions, and optionally its truth attitude, for halfspin-propagate. `--help` documents it
-// all.
+// truth motions or of the user's own (a turn carrying coning and vibration lines, composed
+// exactly), and optionally its truth attitude, for halfspin-propagate. `--help` documents it all.
 #include <array>
 #include <cerrno>
 #include <cmath>
@@ -10,17 +10,22 @@
 #include <cstdlib>
 #include <cstring>
 #include <string>
+#include <vector>
 
 #include "demo_scenario.hpp"
 #include "gyro_log.hpp"
+#include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/core/vector3.hpp"
 #include "halfspin/truth/axisymmetric_body.hpp"
 #include "halfspin/truth/classical_coning.hpp"
+#include "halfspin/truth/composed_motion.hpp"
 #include "halfspin/truth/constant_rate.hpp"
 #include "halfspin/truth/single_axis_oscillation.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
+#include "halfspin/truth/vibration_lines.hpp"
+#include "motion_options.hpp"
 
 namespace {
 
@@ -36,15 +41,42 @@ constexpr const char* help_text =
     R"(halfspin-gyro-log: write the exact gyro log of a truth motion (invented parameters).
 
 Usage: halfspin-gyro-log --motion M --output FILE [options]
+       halfspin-gyro-log [--turn X,Y,Z] [--coning DEG,HZ] [--vibration V]... --output FILE
+                         [options]
+
+Example (a turn near 3 rad/s with a 120 Hz, 0.01 rad vibration line on body z, gyro at 2 kHz,
+delta-angles, 20 minutes, with truth):
+  halfspin-gyro-log --turn 0.6,-2.1,2 --vibration 120:0,0,0.01:rad --rate 2000 --duration 1200 \
+      --form delta --output log.csv --truth truth.csv
 
 Options:
-  --motion M      constant | oscillation | coning | body | demo  (required; parameters below)
+  --motion M      constant | oscillation | coning | body | demo: a fixed motion (parameters below)
+  Or your own motion, the parts below in any combination (not with --motion); they compose
+  exactly, q(t) = q_turn(t) * q_coning(t) * q_vibration(t), q(0) = identity (body -> reference):
+  --turn X,Y,Z    a constant body rate (rad/s) carrying the rest: q_turn(t) = exp(w t / 2)
+  --turn-deg X,Y,Z
+                  the same in deg/s (one of --turn, --turn-deg)
+  --coning DEG,HZ classical coning of half-angle DEG (deg) at HZ (Hz) inside the turn
+                  (the same text and meaning as halfspin-stepstudy --coning)
+  --vibration HZ:X,Y,Z:UNIT[:PX,PY,PZ]
+                  a vibration line at HZ (Hz), the same text and meaning as halfspin-stepstudy
+                  --vibration: amplitude X,Y,Z (>= 0) about the body axes in UNIT, rad or deg
+                  (angle amplitude a_i) or rad/s or deg/s (rate amplitude A_i = 2 pi HZ a_i);
+                  phases PX,PY,PZ (deg, default 0,0,0). Repeat for up to 4 lines.
+                  Exact attitude: q_vibration(t) = exp(theta(t)/2), the body's rotation vector
+                  relative to the coned frame theta_i(t) = sum over lines of
+                  a_i sin(2 pi HZ t + P_i), whose derivative is the lines' rate signal
+                  A_i cos(2 pi HZ t + P_i). The body rate written is that attitude's exact rate:
+                  equal to theta' when every line is on one axis, otherwise theta' plus the
+                  lines' own coning, at most |theta| |theta'|/2 + |theta|^2 |theta'|/6
+                  (include/halfspin/truth/vibration_lines.hpp).
   --form F        rate (default) | delta
                     rate:  header t,wx,wy,wz; rows at t = k/rate, k = 0, 1, ..., body rate (rad/s)
                     delta: header t,dx,dy,dz; rows at t = k/rate, k = 1, 2, ..., each the exact
                            integral of the body rate over ((k-1)/rate, k/rate] (rad): closed form
                            where the motion has one, else 8-point Gauss-Legendre quadrature per
-                           interval (far below double rounding at these steps)
+                           interval (below 2e-23 dt (W dt)^16 times the rate amplitude for a rate
+                           band-limited to W rad/s: far below double rounding while W dt < 1)
   --rate HZ       sample rate (default 1000)
   --duration S    length (s, default 10): rows up to t = duration
   --output FILE   required; the log
@@ -55,7 +87,10 @@ All numbers are written with 17 significant digits (they round-trip a double). T
 in long double. Files are written through temporaries in the same directory and renamed at the
 end: on any error nothing is written.
 
-Motions (all start at t = 0; invented, no real vehicle):
+The motion as understood (each part, each line's angle and rate amplitudes) and the peak |w|
+at the sample times (rad/s and deg/s) are printed on stderr.
+
+Fixed motions (all start at t = 0; invented, no real vehicle):
   constant     q(t) = exp(w t / 2), w = (0.3, -0.2, 0.5) rad/s
   oscillation  about the unit axis (1, 2, 2)/3: angle 0.4 sin(2 pi 2 t + 0.3) rad
   coning       classical coning, cone angle 0.05 rad, cone frequency 10 Hz (62.83 rad/s)
@@ -64,8 +99,8 @@ Motions (all start at t = 0; invented, no real vehicle):
   demo         the tools' demo drone: a 35 deg banked turn at 18 m/s carrying 0.02 deg, 85 Hz
                engine-vibration coning (examples/tools/common/demo_scenario.hpp)
 
-Exit codes: 0 ok; 1 bad usage (unknown option or motion, bad value, output cannot be created);
-2 write failure.
+Exit codes: 0 ok; 1 bad usage (unknown option or motion, bad value, --motion with parts of your
+own, output cannot be created); 2 write failure.
 
 Caution: attitude errors can crash vehicles and hurt people. Synthetic logs and the results drawn
 from them support engineering judgement; they do not replace it. Validate any attitude solution
@@ -79,25 +114,79 @@ practice govern what may fly.
 }
 
 bool parse_positive(const std::string& text, double& out) {
-  if (text.empty()) return false;
-  char* end = nullptr;
-  const double v = std::strtod(text.c_str(), &end);
-  if (end - text.c_str() != static_cast<std::ptrdiff_t>(text.size()) || !(v - v == 0.0) ||
-      !(v > 0.0)) {
-    return false;
-  }
-  out = v;
-  return true;
+  return tools::detail::parse_number(text, out) && out > 0.0;
 }
 
-struct Settings {
+// Grouped by meaning, not packed: read once from the command line.
+struct Settings {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool delta = false;
   double rate_hz = 1000.0;
   double duration_s = 10.0;
+  std::string motion;  // a fixed motion, or "" for the user's parts below
+  bool has_turn = false;
+  std::array<double, 3> turn{};  // rad/s
+  bool has_coning = false;
+  double coning_deg = 0;  // half-angle (deg)
+  double coning_hz = 0;   // Hz
+  std::vector<VibrationOption> vibration;
+  std::string output;
+  std::string truth;
+};
+
+// The user's motion: a turn carrying classical coning carrying vibration lines, each part
+// identity where not given (truth/composed_motion.hpp composes them exactly).
+using UserMotion =
+    ComposedMotion<Real, ConstantRateMotion<Real>,
+                   ComposedMotion<Real, ClassicalConingMotion<Real>, VibrationLinesMotion<Real>>>;
+
+UserMotion user_motion(const Settings& s) {
+  const ConstantRateMotion<Real> turn{
+      Quaternion<Real>::identity(),
+      Vector3<Real>{static_cast<Real>(s.turn[0]), static_cast<Real>(s.turn[1]),
+                    static_cast<Real>(s.turn[2])}};
+  const ClassicalConingMotion<Real> cone{static_cast<Real>(s.coning_deg) * pi<Real> / Real(180),
+                                         Real(2) * pi<Real> * static_cast<Real>(s.coning_hz)};
+  VibrationSpec<double> lines{};
+  for (const VibrationOption& v : s.vibration) lines.add(vibration_line(v));
+  VibrationLinesMotion<Real> vibration;
+  vibration.lines = lines.converted<Real>();
+  return compose<Real>(turn, compose<Real>(cone, vibration));
+}
+
+// The user's motion as understood, on stderr.
+void describe_user_motion(const Settings& s) {
+  std::fprintf(stderr,
+               "motion: q(t) = q_turn(t) * q_coning(t) * q_vibration(t), q(0) = identity\n");
+  if (s.has_turn) {
+    const double w =
+        std::sqrt(s.turn[0] * s.turn[0] + s.turn[1] * s.turn[1] + s.turn[2] * s.turn[2]);
+    std::fprintf(stderr, "  turn: body rate (%g, %g, %g) rad/s, |w| = %g rad/s (%g deg/s)\n",
+                 s.turn[0], s.turn[1], s.turn[2], w, w * tools::detail::degrees_per_radian);
+  }
+  if (s.has_coning) {
+    std::fprintf(stderr, "  coning: half-angle %g deg at %g Hz\n", s.coning_deg, s.coning_hz);
+  }
+  for (const VibrationOption& v : s.vibration) {
+    const VibrationLine<double> line = vibration_line(v);
+    const Vector3<double> a = line.rate_amplitude / line.angular_frequency();
+    const Vector3<double> p = line.phase * tools::detail::degrees_per_radian;
+    std::fprintf(stderr,
+                 "  vibration %g Hz: angle amplitude (%g, %g, %g) rad, rate amplitude (%g, %g, "
+                 "%g) rad/s, phases (%g, %g, %g) deg\n",
+                 v.frequency_hz, a.x, a.y, a.z, line.rate_amplitude.x, line.rate_amplitude.y,
+                 line.rate_amplitude.z, p.x, p.y, p.z);
+  }
+}
+
+// The largest |w| (rad/s) seen at the sample times, for the closing note.
+struct PeakRate {
+  double rad_s = 0;
+  double at_s = 0;
 };
 
 template <class Motion>
-bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FILE* truth) {
+bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FILE* truth,
+               PeakRate& peak) {
   std::fprintf(log, "%s\n",
                gyro_log_header(s.delta ? GyroLogForm::delta_angle : GyroLogForm::rate));
   if (truth != nullptr) std::fprintf(truth, "%s\n", attitude_csv_header);
@@ -114,12 +203,13 @@ bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FIL
                                           static_cast<double>(q.y), static_cast<double>(q.z)},
                     17);
     }
-    Vector3<Real> v;
+    const Vector3<Real> w = motion.rate(static_cast<Real>(t));
+    const auto magnitude = static_cast<double>(norm(w));
+    if (magnitude > peak.rad_s) peak = PeakRate{magnitude, t};
+    Vector3<Real> v = w;
     if (s.delta) {
       if (k == 0) continue;
       v = truth_delta_angle(motion, static_cast<Real>(previous_t), static_cast<Real>(t));
-    } else {
-      v = motion.rate(static_cast<Real>(t));
     }
     previous_t = t;
     write_csv_row(log,
@@ -131,99 +221,149 @@ bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FIL
   return std::ferror(log) == 0 && (truth == nullptr || std::ferror(truth) == 0);
 }
 
-}  // namespace
+// A motion part's option (--turn, --turn-deg, --coning, --vibration) with its value; false if
+// `a` is none of them.
+bool motion_part(const std::string& a, const std::string& value, Settings& s) {
+  std::string error;
+  if (a == "--turn" || a == "--turn-deg") {
+    if (s.has_turn) usage_error(a + ": the turn is given twice (one of --turn, --turn-deg)");
+    if (!tools::detail::parse_triple(value, s.turn, true)) {
+      usage_error(a + " '" + value + "': expected three finite numbers X,Y,Z (" +
+                  (a == "--turn" ? "rad/s" : "deg/s") + ")");
+    }
+    if (a == "--turn-deg") {
+      for (double& r : s.turn) r /= tools::detail::degrees_per_radian;
+    }
+    s.has_turn = true;
+  } else if (a == "--coning") {
+    if (s.has_coning) usage_error("--coning is given twice");
+    if (!parse_coning(value, s.coning_deg, s.coning_hz, error)) usage_error(error);
+    s.has_coning = true;
+  } else if (a == "--vibration") {
+    VibrationOption line;
+    if (!parse_vibration(value, line, error)) usage_error(error);
+    if (s.vibration.size() == max_vibration_lines) {
+      usage_error("--vibration: at most " + std::to_string(max_vibration_lines) + " lines");
+    }
+    s.vibration.push_back(line);
+  } else {
+    return false;
+  }
+  return true;
+}
 
-int main(int argc, char** argv) {
+Settings parse_settings(int argc, char** argv) {
   Settings s;
-  std::string motion;
-  std::string output;
-  std::string truth_path;
   for (int i = 1; i < argc; ++i) {
     // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
     const std::string a = argv[i];
-    const auto value = [&]() -> std::string {
-      if (i + 1 >= argc) usage_error("option " + a + " needs a value");
-      // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
-      return argv[++i];
-    };
     if (a == "--help" || a == "-h") {
       std::fputs(help_text, stdout);
-      return exit_ok;
-    } else if (a == "--motion") {
-      motion = value();
+      std::exit(exit_ok);
+    }
+    const bool takes_value = a == "--motion" || a == "--form" || a == "--rate" ||
+                             a == "--duration" || a == "--output" || a == "--truth" ||
+                             a == "--turn" || a == "--turn-deg" || a == "--coning" ||
+                             a == "--vibration";
+    if (!takes_value) usage_error("unknown option or argument '" + a + "'");
+    if (i + 1 >= argc) usage_error("option " + a + " needs a value");
+    // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
+    const std::string value = argv[++i];
+    if (motion_part(a, value, s)) continue;
+    if (a == "--motion") {
+      s.motion = value;
     } else if (a == "--form") {
-      const std::string f = value();
-      if (f == "rate")
-        s.delta = false;
-      else if (f == "delta")
-        s.delta = true;
-      else
-        usage_error("--form must be rate or delta");
+      if (value != "rate" && value != "delta") usage_error("--form must be rate or delta");
+      s.delta = value == "delta";
     } else if (a == "--rate") {
-      if (!parse_positive(value(), s.rate_hz)) usage_error("--rate needs a number > 0 (Hz)");
+      if (!parse_positive(value, s.rate_hz)) usage_error("--rate needs a number > 0 (Hz)");
     } else if (a == "--duration") {
-      if (!parse_positive(value(), s.duration_s)) usage_error("--duration needs a number > 0 (s)");
+      if (!parse_positive(value, s.duration_s)) usage_error("--duration needs a number > 0 (s)");
     } else if (a == "--output") {
-      output = value();
-    } else if (a == "--truth") {
-      truth_path = value();
+      s.output = value;
     } else {
-      usage_error("unknown option or argument '" + a + "'");
+      s.truth = value;
     }
   }
-  if (motion.empty()) usage_error("--motion is required");
-  if (output.empty()) usage_error("--output FILE is required");
+  const bool own = s.has_turn || s.has_coning || !s.vibration.empty();
+  if (own && !s.motion.empty()) {
+    usage_error("--motion " + s.motion +
+                " is a fixed motion: it cannot be combined with --turn, --turn-deg, --coning or "
+                "--vibration");
+  }
+  if (!own && s.motion.empty()) {
+    usage_error("no motion: give --motion M or parts of your own (--turn, --coning, --vibration)");
+  }
+  if (s.output.empty()) usage_error("--output FILE is required");
   if (s.duration_s * s.rate_hz > 1e9) usage_error("more than 1e9 samples requested");
-  if (motion != "constant" && motion != "oscillation" && motion != "coning" && motion != "body" &&
-      motion != "demo") {
-    usage_error("unknown motion '" + motion + "'");
+  if (!own && s.motion != "constant" && s.motion != "oscillation" && s.motion != "coning" &&
+      s.motion != "body" && s.motion != "demo") {
+    usage_error("unknown motion '" + s.motion + "'");
   }
+  return s;
+}
 
-  StagedOutputFile log_file;
-  StagedOutputFile truth_file;
-  if (!log_file.open(output)) {
-    std::fprintf(stderr, "halfspin-gyro-log: cannot create a file beside %s: %s\n", output.c_str(),
-                 std::strerror(errno));
-    return exit_usage;
+// Writes the log (and truth) of the motion the settings name.
+bool write_motion(const Settings& s, std::FILE* log, std::FILE* truth, PeakRate& peak) {
+  if (s.motion.empty()) {
+    describe_user_motion(s);
+    return write_log(user_motion(s), s, log, truth, peak);
   }
-  if (!truth_path.empty() && !truth_file.open(truth_path)) {
-    std::fprintf(stderr, "halfspin-gyro-log: cannot create a file beside %s: %s\n",
-                 truth_path.c_str(), std::strerror(errno));
-    return exit_usage;  // log_file's temporary is removed by its destructor
-  }
-  std::FILE* t = truth_path.empty() ? nullptr : truth_file.get();
-
-  bool ok = false;
-  if (motion == "constant") {
+  if (s.motion == "constant") {
     const ConstantRateMotion<Real> m{Quaternion<Real>::identity(),
                                      Vector3<Real>{Real(0.3), Real(-0.2), Real(0.5)}};
-    ok = write_log(m, s, log_file.get(), t);
-  } else if (motion == "oscillation") {
+    return write_log(m, s, log, truth, peak);
+  }
+  if (s.motion == "oscillation") {
     SingleAxisOscillation<Real> m;
     m.axis = Vector3<Real>{Real(1) / 3, Real(2) / 3, Real(2) / 3};
     m.amplitude = Real(0.4);
     m.frequency = Real(2);
     m.phase = Real(0.3);
-    ok = write_log(m, s, log_file.get(), t);
-  } else if (motion == "coning") {
+    return write_log(m, s, log, truth, peak);
+  }
+  if (s.motion == "coning") {
     const ClassicalConingMotion<Real> m{Real(0.05), Real(2) * pi<Real> * Real(10)};
-    ok = write_log(m, s, log_file.get(), t);
-  } else if (motion == "body") {
+    return write_log(m, s, log, truth, peak);
+  }
+  if (s.motion == "body") {
     AxisymmetricBodyMotion<Real> m;
     m.transverse_inertia = Real(1);
     m.axial_inertia = Real(1.6);
     m.transverse_rate = Real(0.8);
     m.transverse_phase = Real(0.2);
     m.axial_rate = Real(3);
-    ok = write_log(m, s, log_file.get(), t);
-  } else {
-    ok = write_log(demo::motion<Real>(), s, log_file.get(), t);
+    return write_log(m, s, log, truth, peak);
   }
-  if (!ok || !log_file.commit() || (!truth_path.empty() && !truth_file.commit())) {
+  return write_log(demo::motion<Real>(), s, log, truth, peak);
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const Settings s = parse_settings(argc, argv);
+  StagedOutputFile log_file;
+  StagedOutputFile truth_file;
+  if (!log_file.open(s.output)) {
+    std::fprintf(stderr, "halfspin-gyro-log: cannot create a file beside %s: %s\n",
+                 s.output.c_str(), std::strerror(errno));
+    return exit_usage;
+  }
+  if (!s.truth.empty() && !truth_file.open(s.truth)) {
+    std::fprintf(stderr, "halfspin-gyro-log: cannot create a file beside %s: %s\n", s.truth.c_str(),
+                 std::strerror(errno));
+    return exit_usage;  // log_file's temporary is removed by its destructor
+  }
+  PeakRate peak;
+  const bool ok =
+      write_motion(s, log_file.get(), s.truth.empty() ? nullptr : truth_file.get(), peak);
+  if (!ok || !log_file.commit() || (!s.truth.empty() && !truth_file.commit())) {
     std::fprintf(stderr, "halfspin-gyro-log: write failure: %s\n", std::strerror(errno));
     return exit_failure;
   }
-  std::fprintf(stderr, "wrote %s%s%s\n", output.c_str(), truth_path.empty() ? "" : " and ",
-               truth_path.c_str());
+  std::fprintf(stderr, "peak |w| at the sample times: %.6g rad/s (%.6g deg/s) at t = %.9g s\n",
+               peak.rad_s, peak.rad_s * tools::detail::degrees_per_radian, peak.at_s);
+  std::fprintf(stderr, "wrote %s%s%s\n", s.output.c_str(), s.truth.empty() ? "" : " and ",
+               s.truth.c_str());
   return exit_ok;
 }

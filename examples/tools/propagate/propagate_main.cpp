@@ -54,8 +54,10 @@ std::string check_method(const std::string& name) {
   return "";
 }
 
-// The log's form from its header; nothing (reported) if the header is missing or unknown.
-std::optional<GyroLogForm> read_log_form(NumericCsvReader<4>& reader, const std::string& log) {
+// The log's layout from its header and the options (--columns, --form); nothing (reported) if
+// the header is missing or does not fit. Ignored columns are noted.
+std::optional<GyroLogLayout> read_log_layout(NumericCsvReader<4>& reader, const Options& opt) {
+  const std::string& log = opt.log;
   std::string header;
   if (!reader.read_header(header)) {
     if (reader.line() == 0) {
@@ -68,14 +70,35 @@ std::optional<GyroLogForm> read_log_form(NumericCsvReader<4>& reader, const std:
     }
     return std::nullopt;
   }
-  const std::optional<GyroLogForm> form = gyro_log_form_from_header(header);
-  if (!form) {
-    std::fprintf(stderr,
-                 "%s:1: header must be 't,wx,wy,wz' (rates) or 't,dx,dy,dz' "
-                 "(delta-angles), found '%s'\n",
-                 log.c_str(), header.c_str());
+  GyroLogLayout layout;
+  const std::string reason = resolve_gyro_log_layout(header, opt.form, opt.columns, layout);
+  if (!reason.empty()) {
+    std::fprintf(stderr, "%s:1: %s\n", log.c_str(), reason.c_str());
+    return std::nullopt;
   }
-  return form;
+  if (!layout.ignored.empty()) {
+    std::string list;
+    for (const std::size_t c : layout.ignored) {
+      list += (list.empty() ? "" : ", ") + std::to_string(c + 1) + " '" + layout.header[c] + "'";
+    }
+    std::fprintf(stderr, "%s:1: note: column%s %s not used (ignored in every row)\n", log.c_str(),
+                 layout.ignored.size() > 1 ? "s" : "", list.c_str());
+  }
+  reader.select_columns(layout.column, layout.field_count);
+  return layout;
+}
+
+// The unit options must fit the log's form: the usage error, or "".
+std::string match_units_to_form(const Options& opt, GyroLogForm form) {
+  if (form == GyroLogForm::delta_angle && !opt.rate_unit.empty()) {
+    return "--rate-unit applies to rate logs, but " + opt.log +
+           " is a delta-angle log (its unit: --angle-unit rad|deg)";
+  }
+  if (form == GyroLogForm::rate && !opt.angle_unit.empty()) {
+    return "--angle-unit applies to delta-angle logs, but " + opt.log +
+           " is a rate log (its unit: --rate-unit rad/s|deg/s)";
+  }
+  return "";
 }
 
 // The method takes the log's form (the default method for the form when none was given): the
@@ -127,9 +150,10 @@ int propagate_log(Options& opt) {
     return exit_input;
   }
   NumericCsvReader<4> reader(in);
-  const std::optional<GyroLogForm> form = read_log_form(reader, opt.log);
-  if (!form) return exit_input;
-  const std::string mismatch = match_method_to_form(opt, *form);
+  const std::optional<GyroLogLayout> layout = read_log_layout(reader, opt);
+  if (!layout) return exit_input;
+  std::string mismatch = match_units_to_form(opt, layout->form);
+  if (mismatch.empty()) mismatch = match_method_to_form(opt, layout->form);
   if (!mismatch.empty()) return usage_error(mismatch);
   TruthTrack truth;
   if (!opt.truth.empty() && !open_truth(truth, opt.truth)) return exit_input;
@@ -138,7 +162,7 @@ int propagate_log(Options& opt) {
     return usage_error("cannot create a temporary file beside --output " + opt.output + ": " +
                        std::strerror(errno));
   }
-  int code = run_log(opt, reader, *form, out.get(), opt.truth.empty() ? nullptr : &truth);
+  int code = run_log(opt, reader, *layout, out.get(), opt.truth.empty() ? nullptr : &truth);
   if (code == exit_ok && in.bad()) {
     std::fprintf(stderr, "%s: read error\n", opt.log.c_str());
     code = exit_input;

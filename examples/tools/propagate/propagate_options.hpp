@@ -16,6 +16,7 @@
 #include <utility>
 #include <vector>
 
+#include "gyro_log.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/representations/euler_angles.hpp"
 
@@ -35,7 +36,13 @@ byte-order mark before the header is skipped; the last line may lack its newline
   t,wx,wy,wz   rate form: t (s), body rate (rad/s) at t. Propagation starts at the first row's
                time with the initial attitude; a step ends at each row that completes a window.
   t,dx,dy,dz   delta-angle form: t (s), delta-angle (rad) = integral of the body rate over the
-               interval ending at t; the first interval starts at --start-time.
+               interval ending at t; the first interval starts at --start-time. A first row at
+               the start time whose delta-angle is zero is the log's start (its interval is
+               empty): it is accepted, noted in the summary, and not propagated.
+The header's columns may come in any order and among other columns (a temperature, a counter):
+those are ignored, with a note naming them; every row has as many fields as the header, and
+only the used ones must be numbers. Other names are mapped with --columns (and --form), other
+units with --time-unit, --rate-unit and --angle-unit.
 The method must match the form: rate methods take rate logs, delta-angle (coning) methods take
 delta-angle logs. Rate-function methods need a model of the motion and cannot run on a log.
 
@@ -64,7 +71,20 @@ Options:
   --euler SEQ           Euler sequence of the output angles: xyz xzy yxz yzx zxy zyx (default;
                         yaw, pitch, roll) xyx xzx yxy yzy zxz zyz. Intrinsic: zyx means
                         q = qz(first) * qy(second) * qx(third).
-  --start-time S        delta-angle logs: start of the first row's interval (s, default 0).
+  --columns t=NAME,x=NAME,y=NAME,z=NAME
+                        the header names of the time column and of the gyro's x, y, z columns
+                        (body axes); any of the four, the rest keep their default names (t, and
+                        wx,wy,wz or dx,dy,dz). Example: --columns t=time_us,x=gx,y=gy,z=gz
+  --form rate|delta     what the gyro columns hold, when their names do not say it (needed when
+                        --columns maps x, y and z to names other than wx,wy,wz or dx,dy,dz, or
+                        when the header has both sets).
+  --time-unit s|ms|us   unit of the log's time column (default s). Intervals are taken as
+                        differences in that unit, then converted (exact for integer stamps).
+  --rate-unit rad/s|deg/s
+                        unit of a rate log's gyro columns (default rad/s).
+  --angle-unit rad|deg  unit of a delta-angle log's gyro columns (default rad).
+  --start-time S        delta-angle logs: start of the first row's interval (s whatever
+                        --time-unit, default 0).
   --max-interval S      longest sample interval (s) accepted; a longer one is a gap (missed
                         samples). Default: 2.5 x the first interval of the log.
   --max-rate R          gyro full scale (rad/s per axis); a rate or a delta-angle/interval above it
@@ -84,11 +104,20 @@ Output FILE: CSV, one row per completed step, at the step's end time:
                                       for methods that have one (see the README)
 Numbers are printed to round-trip: 17 significant digits in double, 9 in float.
 
-Summary (stderr): steps, samples read, skipped/rejected samples by class, max norm error, final
-attitude (quaternion and Euler), and with --truth the attitude error.
+Summary (stderr): steps, samples read, skipped/rejected samples by class, the peak |w| (rad/s
+and deg/s; a delta-angle row gives |delta-angle|/interval) and the total angle traversed (rad
+and deg: the integral of |w| dt by the trapezoid rule over the rate rows, or the sum of
+|delta-angle| over the delta-angle rows), max norm error, final attitude (quaternion and Euler),
+and with --truth the attitude error. Notes (stderr, never a rejection): columns ignored; a zero
+first delta-angle row taken as the log's start; a peak |w| above 35 rad/s (2000 deg/s) in a log
+read as rad/s or rad by default (no --rate-unit or --angle-unit given): 2000 deg/s is the
+largest full scale of common MEMS gyros (common practice, from memory), so such a log more
+likely holds degrees (--rate-unit deg/s, --angle-unit deg). Below that, the peak printed in
+both units is what tells a unit mix-up.
 
 Bad input: a malformed or over-long line, a wrong number of fields, a non-numeric field, NaN or
-infinity, a timestamp that does not increase, a gap (interval > --max-interval), a sample over
+infinity, a timestamp that does not increase (each message names what it was compared with: the
+previous row and its line, or --start-time), a gap (interval > --max-interval), a sample over
 range (above --max-rate, or with --scalar float beyond the largest float, 3.4e38), a sample whose
 step result is not finite in the scalar type (e.g. a rate of 1e300 rad/s in double: set --max-rate
 to the gyro's full scale), a bad header, an empty file, a log with no complete step. A last line
@@ -124,7 +153,13 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   // or plain; unset: compensated in float, plain in double.
   std::optional<bool> compensated;
   EulerSequence euler = EulerSequence::zyx;
-  double start_time = 0.0;
+  double start_time = 0.0;             // s
+  std::array<std::string, 4> columns;  // --columns: header names of t, x, y, z ("" default)
+  std::optional<GyroLogForm> form;     // --form; unset: from the header's names
+  std::string time_unit = "s";         // --time-unit: s, ms, us
+  double time_divisor = 1.0;           // log time unit per second: 1, 1e3, 1e6
+  std::string rate_unit;               // --rate-unit as given ("" = rad/s)
+  std::string angle_unit;              // --angle-unit as given ("" = rad)
   std::optional<double> max_interval;
   double max_rate = std::numeric_limits<double>::infinity();
   bool skip_bad = false;
@@ -210,6 +245,56 @@ inline std::string set_euler(const std::string& s, Options& o) {
   return "unknown Euler sequence '" + s + "'";
 }
 
+// A bad --columns item, or (role given) a role mapped twice.
+inline std::string columns_item_error(const std::string& text, const std::string& item,
+                                      const char* role = nullptr) {
+  std::string m = "--columns '" + text + "': ";
+  if (role != nullptr) return m.append(role).append(" is mapped twice");
+  return m.append("'").append(item).append(
+      "' is not ROLE=NAME with ROLE one of t, x, y, z and a non-empty NAME (e.g. "
+      "t=time_us,x=gx,y=gy,z=gz)");
+}
+
+// --columns t=NAME,x=NAME,y=NAME,z=NAME (any of the four, each once, names non-empty).
+inline std::string set_columns(const std::string& text, Options& o) {
+  constexpr std::array<const char*, 4> roles{{"t", "x", "y", "z"}};
+  std::size_t start = 0;
+  while (true) {
+    const std::size_t comma = text.find(',', start);
+    const std::string item =
+        text.substr(start, comma == std::string::npos ? std::string::npos : comma - start);
+    const std::size_t equals = item.find('=');
+    std::size_t role = roles.size();
+    for (std::size_t r = 0; r < roles.size() && equals != std::string::npos; ++r) {
+      if (item.compare(0, equals, roles[r]) == 0 && equals == 1) role = r;
+    }
+    if (role == roles.size() || equals + 1 >= item.size()) return columns_item_error(text, item);
+    if (!o.columns[role].empty()) return columns_item_error(text, "", roles[role]);
+    o.columns[role] = item.substr(equals + 1);
+    if (comma == std::string::npos) return "";
+    start = comma + 1;
+  }
+}
+
+// --form, --time-unit, --rate-unit, --angle-unit.
+inline std::string set_unit(const std::string& option, const std::string& value, Options& o) {
+  if (option == "--form") {
+    if (value != "rate" && value != "delta") return "--form must be rate or delta";
+    o.form = value == "rate" ? GyroLogForm::rate : GyroLogForm::delta_angle;
+  } else if (option == "--time-unit") {
+    if (value != "s" && value != "ms" && value != "us") return "--time-unit must be s, ms or us";
+    o.time_unit = value;
+    o.time_divisor = value == "s" ? 1.0 : value == "ms" ? 1e3 : 1e6;
+  } else if (option == "--rate-unit") {
+    if (value != "rad/s" && value != "deg/s") return "--rate-unit must be rad/s or deg/s";
+    o.rate_unit = value;
+  } else {
+    if (value != "rad" && value != "deg") return "--angle-unit must be rad or deg";
+    o.angle_unit = value;
+  }
+  return "";
+}
+
 inline std::string set_number(const std::string& option, const std::string& text, Options& o) {
   const std::optional<double> x = parse_number(text);
   const bool positive = x && *x > 0;
@@ -235,10 +320,12 @@ inline std::string set_number(const std::string& option, const std::string& text
 }
 
 inline bool takes_value(const std::string& option) {
-  static constexpr std::array<const char*, 13> options{
-      "--output",   "--method", "--renormalize",           "--renormalize-period", "--initial",
-      "--scalar",   "--euler",  "--renormalize-threshold", "--start-time",         "--max-interval",
-      "--max-rate", "--truth",  "--accumulation"};
+  static constexpr std::array<const char*, 18> options{
+      "--output",       "--method",       "--renormalize", "--renormalize-period",
+      "--initial",      "--scalar",       "--euler",       "--renormalize-threshold",
+      "--start-time",   "--max-interval", "--max-rate",    "--truth",
+      "--accumulation", "--columns",      "--form",        "--time-unit",
+      "--rate-unit",    "--angle-unit"};
   for (const char* o : options) {
     if (option == o) return true;
   }
@@ -264,6 +351,11 @@ inline std::string set_value(const std::string& option, const std::string& value
     return set_euler(value, o);
   } else if (option == "--accumulation") {
     return set_accumulation(value, o);
+  } else if (option == "--columns") {
+    return set_columns(value, o);
+  } else if (option == "--form" || option == "--time-unit" || option == "--rate-unit" ||
+             option == "--angle-unit") {
+    return set_unit(option, value, o);
   } else {
     return set_number(option, value, o);
   }

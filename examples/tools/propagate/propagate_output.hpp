@@ -33,6 +33,25 @@ struct TruthErrors {
   double final_rad = 0.0;
 };
 
+// The motion the log holds, over the samples the propagator took.
+struct MotionSeen {
+  double peak_rate = 0;    // rad/s: |w| of a rate row, |delta-angle|/interval of a delta row
+  double peak_time = 0;    // s
+  double total_angle = 0;  // rad: trapezoid of |w| dt (rate rows) or sum of |delta-angle|
+};
+
+// Above this peak |w| (rad/s) a log read as rad/s or rad more likely holds degrees: 2000 deg/s
+// (34.9 rad/s) is the largest full scale of common MEMS gyros (common practice, from memory).
+inline constexpr double degrees_suspected_above_rad_s = 35.0;
+
+// The largest axis rate of an over-range sample: its column's name, rad/s, and whether it is a
+// delta-angle over its interval.
+struct AxisRate {
+  const char* name = "";
+  double rate = 0;
+  bool from_delta = false;
+};
+
 // Everything the summary prints, in the units it prints them.
 struct RunSummary {  // NOLINT(clang-analyzer-optin.performance.Padding): grouped by meaning
   const char* method = "";
@@ -51,6 +70,12 @@ struct RunSummary {  // NOLINT(clang-analyzer-optin.performance.Padding): groupe
   int digits = 17;                    // significant digits of the scalar type
   bool has_truth = false;
   TruthErrors truth;
+  MotionSeen motion;
+  bool delta_form = false;
+  bool unit_given = false;  // --rate-unit or --angle-unit given
+  std::string log;
+  std::size_t start_row_line = 0;  // the zero first delta-angle row taken as the start (0: none)
+  double start_time = 0;           // s
 };
 
 inline double to_degrees(double rad) noexcept { return rad * (180.0 / pi<double>); }
@@ -88,25 +113,65 @@ inline std::string beyond_scalar_message(std::size_t field, const char* name, do
   return buf.data();
 }
 
-inline std::string time_not_increasing_message(double t, double previous) {
-  std::array<char, 160> buf{};
-  std::snprintf(buf.data(), buf.size(), "timestamp %.17g does not increase (previous %.17g)", t,
-                previous);
+// A log time as the user wrote it, with its unit, and in seconds when the unit is not s.
+inline std::string log_time_text(double raw, const std::string& unit, double divisor) {
+  std::array<char, 96> buf{};
+  if (divisor == 1.0) {
+    std::snprintf(buf.data(), buf.size(), "%.17g s", raw);
+  } else {
+    std::snprintf(buf.data(), buf.size(), "%.17g %s (%.9g s)", raw, unit.c_str(), raw / divisor);
+  }
   return buf.data();
 }
 
-inline std::string gap_message(double dt, double max_interval) {
-  std::array<char, 200> buf{};
+inline std::string time_not_increasing_message(const std::string& t, const std::string& previous,
+                                               std::size_t previous_line) {
+  return "timestamp " + t + " does not increase: the previous row (line " +
+         std::to_string(previous_line) + ") is at " + previous;
+}
+
+// A first delta-angle row not after --start-time (t and start in s; delta in rad).
+inline std::string start_time_message(const std::string& stamp, double t, double start,
+                                      const std::array<double, 3>& delta) {
+  std::array<char, 400> buf{};
+  if (t < start) {
+    std::snprintf(buf.data(), buf.size(),
+                  "timestamp %s is before --start-time %.17g s, where the first interval starts",
+                  stamp.c_str(), start);
+  } else {
+    std::snprintf(buf.data(), buf.size(),
+                  "timestamp %s is at --start-time %.17g s: the interval from --start-time is "
+                  "zero, but the row's delta-angle (%.9g, %.9g, %.9g) rad is not (a zero row "
+                  "there is taken as the log's start)",
+                  stamp.c_str(), start, delta[0], delta[1], delta[2]);
+  }
+  return buf.data();
+}
+
+// first_interval 0: the limit is --max-interval's; else the default, 2.5 x the first interval.
+inline std::string gap_message(double dt, double max_interval, std::size_t previous_line,
+                               double first_interval) {
+  std::array<char, 300> buf{};
+  if (first_interval > 0) {
+    std::snprintf(buf.data(), buf.size(),
+                  "gap: interval %.17g s from the previous row (line %zu) exceeds the limit "
+                  "%.17g s (the default, 2.5 x the first interval %.17g s; set --max-interval)",
+                  dt, previous_line, max_interval, first_interval);
+  } else {
+    std::snprintf(buf.data(), buf.size(),
+                  "gap: interval %.17g s from the previous %s exceeds the limit %.17g s "
+                  "(--max-interval)",
+                  dt, previous_line == 0 ? "time (--start-time)" : "row", max_interval);
+  }
+  return buf.data();
+}
+
+inline std::string over_range_message(const AxisRate& axis, double max_rate) {
+  std::array<char, 300> buf{};
   std::snprintf(buf.data(), buf.size(),
-                "gap: interval %.17g s exceeds the limit %.17g s (--max-interval; default "
-                "2.5 x the first interval)",
-                dt, max_interval);
+                "sample over range: |%s|%s = %.9g rad/s is above --max-rate %.9g rad/s (per axis)",
+                axis.name, axis.from_delta ? " / interval" : "", axis.rate, max_rate);
   return buf.data();
-}
-
-inline std::string over_range_message(double max_rate) {
-  return "sample over range: a rate (or delta-angle / interval) above --max-rate " +
-         std::to_string(max_rate) + " rad/s";
 }
 
 inline std::string non_finite_step_message(const char* scalar) {
@@ -141,6 +206,30 @@ inline void print_counts(const RunSummary& s) {
                count(c.rejected_over_range), count(c.discarded_samples));
 }
 
+inline void print_motion(const RunSummary& s) {
+  const MotionSeen& m = s.motion;
+  std::fprintf(stderr, "peak |w|: %.6g rad/s (%.6g deg/s) at t = %.9g s%s\n", m.peak_rate,
+               to_degrees(m.peak_rate), m.peak_time,
+               s.delta_form ? " (|delta-angle| / interval)" : "");
+  std::fprintf(stderr, "total angle traversed: %.6g rad (%.6g deg) (%s)\n", m.total_angle,
+               to_degrees(m.total_angle),
+               s.delta_form ? "sum of |delta-angle|" : "trapezoid rule on |w| over the rows");
+  if (s.start_row_line > 0) {
+    std::fprintf(stderr,
+                 "note: %s:%zu: the zero delta-angle row at --start-time %.17g s is the log's "
+                 "start (an empty interval, not propagated)\n",
+                 s.log.c_str(), s.start_row_line, s.start_time);
+  }
+  if (!s.unit_given && m.peak_rate > degrees_suspected_above_rad_s) {
+    std::fprintf(stderr,
+                 "note: peak |w| %.6g rad/s is above %.0f rad/s (2000 deg/s, the largest full "
+                 "scale of common MEMS gyros): if %s holds degrees%s, give %s\n",
+                 m.peak_rate, degrees_suspected_above_rad_s, s.log.c_str(),
+                 s.delta_form ? "" : " per second",
+                 s.delta_form ? "--angle-unit deg" : "--rate-unit deg/s");
+  }
+}
+
 inline void print_attitude(const RunSummary& s) {
   std::fprintf(stderr, "max norm error: %.3e\n", s.max_norm_error);
   if (s.near_singular_rows > 0) {
@@ -167,6 +256,7 @@ inline void print_summary(const RunSummary& s) {
   std::fprintf(stderr, "method %s, scalar %s, renormalization %s, accumulation %s, Euler %s\n",
                s.method, s.scalar, s.renormalization, s.accumulation, s.euler.c_str());
   detail::print_counts(s);
+  detail::print_motion(s);
   detail::print_attitude(s);
 }
 

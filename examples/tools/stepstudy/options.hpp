@@ -12,6 +12,7 @@
 
 #include "log_options.hpp"
 #include "method_registry.hpp"
+#include "motion_options.hpp"
 
 namespace halfspin::tools::stepstudy {
 
@@ -24,22 +25,11 @@ inline constexpr std::array<const char*, 8> default_methods{"exponential_map_mid
                                                             "munthe_kaas_4_sampled",
                                                             "dormand_prince_54_rate_function"};
 
-// The largest number of vibration lines (VibrationSpec's capacity).
-inline constexpr std::size_t max_vibration_lines = 4;
-
-// Units a vibration amplitude can be given in: an angle amplitude (rad, deg) or a rate amplitude
-// (rad/s, deg/s), per body axis.
-enum class AmplitudeUnit { rad, deg, rad_per_s, deg_per_s };
-
-// One --vibration HZ:X,Y,Z:UNIT[:PX,PY,PZ] as given.
-struct VibrationOption {
-  std::string text;  // the option's value, for messages
-  double frequency_hz = 0;
-  std::array<double, 3> amplitude{};  // in `unit`, each >= 0
-  AmplitudeUnit unit = AmplitudeUnit::rad;
-  bool phases_known = false;
-  std::array<double, 3> phase_deg{};  // deg, when known
-};
+// The vibration lines and the coning are read by the shared parser (common/motion_options.hpp), so
+// that halfspin-gyro-log reads the same text the same way.
+using tools::AmplitudeUnit;
+using tools::max_vibration_lines;
+using tools::VibrationOption;
 
 // Grouped by meaning, not packed: read once from the command line.
 struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
@@ -369,101 +359,9 @@ inline const char* help_text() {
 
 namespace detail {
 
-inline std::vector<std::string> split(std::string_view text) {
-  std::vector<std::string> parts;
-  std::size_t start = 0;
-  while (start <= text.size()) {
-    const std::size_t comma = text.find(',', start);
-    const std::size_t end = comma == std::string_view::npos ? text.size() : comma;
-    parts.emplace_back(text.substr(start, end - start));
-    if (comma == std::string_view::npos) {
-      break;
-    }
-    start = comma + 1;
-  }
-  return parts;
-}
-
-inline bool parse_number(const std::string& text, double& value) {
-  if (text.empty()) {
-    return false;
-  }
-  char* end = nullptr;
-  value = std::strtod(text.c_str(), &end);
-  return end - text.c_str() == static_cast<std::ptrdiff_t>(text.size()) && std::isfinite(value);
-}
-
-// Three comma-separated finite numbers, each >= 0 unless `signed_values`.
-inline bool parse_triple(std::string_view text, std::array<double, 3>& out, bool signed_values) {
-  const std::vector<std::string> parts = split(text);
-  if (parts.size() != 3) {
-    return false;
-  }
-  for (std::size_t i = 0; i < 3; ++i) {
-    if (!parse_number(parts[i], out.at(i)) || (!signed_values && out.at(i) < 0)) {
-      return false;
-    }
-  }
-  return true;
-}
-
-// Splits on ':' (the fields of --vibration).
-inline std::vector<std::string> fields(std::string_view text) {
-  std::vector<std::string> parts;
-  std::size_t start = 0;
-  while (true) {
-    const std::size_t colon = text.find(':', start);
-    if (colon == std::string_view::npos) {
-      parts.emplace_back(text.substr(start));
-      return parts;
-    }
-    parts.emplace_back(text.substr(start, colon - start));
-    start = colon + 1;
-  }
-}
-
-// One --vibration value, HZ:X,Y,Z:UNIT[:PX,PY,PZ]; false with a message in `error`.
-inline bool parse_vibration(const std::string& text, VibrationOption& v, std::string& error) {
-  const std::string head = "--vibration '" + text + "': ";
-  // The unit rad/s contains no ':', so the fields split cleanly on ':'.
-  const std::vector<std::string> f = fields(text);
-  if (f.size() != 3 && f.size() != 4) {
-    error = head + "expected HZ:X,Y,Z:UNIT or HZ:X,Y,Z:UNIT:PX,PY,PZ (e.g. 120:0,0,0.01:rad)";
-    return false;
-  }
-  v.text = text;
-  if (!parse_number(f[0], v.frequency_hz) || !(v.frequency_hz > 0)) {
-    error = head + "the frequency '" + f[0] + "' is not a positive finite number (Hz)";
-    return false;
-  }
-  if (!parse_triple(f[1], v.amplitude, false)) {
-    error = head + "the amplitude '" + f[1] + "' is not three non-negative finite numbers X,Y,Z";
-    return false;
-  }
-  if (!(v.amplitude[0] > 0 || v.amplitude[1] > 0 || v.amplitude[2] > 0)) {
-    error = head + "every amplitude is zero (no vibration)";
-    return false;
-  }
-  if (f[2] == "rad") {
-    v.unit = AmplitudeUnit::rad;
-  } else if (f[2] == "deg") {
-    v.unit = AmplitudeUnit::deg;
-  } else if (f[2] == "rad/s") {
-    v.unit = AmplitudeUnit::rad_per_s;
-  } else if (f[2] == "deg/s") {
-    v.unit = AmplitudeUnit::deg_per_s;
-  } else {
-    error = head + "the unit '" + f[2] +
-            "' is not one of rad, deg (angle amplitude), rad/s, deg/s (rate amplitude)";
-    return false;
-  }
-  v.phases_known = f.size() == 4;
-  if (v.phases_known && !parse_triple(f[3], v.phase_deg, true)) {
-    error = head + "the phases '" + f[3] + "' are not three finite numbers PX,PY,PZ (deg)";
-    return false;
-  }
-  return true;
-}
+using tools::detail::parse_number;
+using tools::detail::parse_triple;
+using tools::detail::split;
 
 }  // namespace detail
 
@@ -578,7 +476,7 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
         return false;
       }
       VibrationOption line;
-      if (!detail::parse_vibration(v, line, error)) {
+      if (!tools::parse_vibration(v, line, error)) {
         return false;
       }
       if (o.vibration.size() == max_vibration_lines) {
@@ -595,11 +493,7 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       if (!value(v)) {
         return false;
       }
-      const std::vector<std::string> parts = detail::split(v);
-      if (parts.size() != 2 || !detail::parse_number(parts[0], o.coning_deg) ||
-          !detail::parse_number(parts[1], o.coning_hz) || !(o.coning_deg > 0) ||
-          !(o.coning_hz > 0) || !(o.coning_deg < 90)) {
-        error = "--coning takes DEG,HZ: a half-angle in (0, 90) deg and a positive frequency in Hz";
+      if (!tools::parse_coning(v, o.coning_deg, o.coning_hz, error)) {
         return false;
       }
       o.has_coning = true;

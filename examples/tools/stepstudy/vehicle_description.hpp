@@ -24,9 +24,8 @@ namespace halfspin::tools::stepstudy {
 
 namespace detail {
 
-inline constexpr double degrees_per_radian = 180.0 / 3.14159265358979323846;
-
-inline Vector3<double> as_vector(const std::array<double, 3>& a) { return {a[0], a[1], a[2]}; }
+using tools::detail::as_vector;
+using tools::detail::degrees_per_radian;
 
 inline std::string printed(const char* fmt, double v) {
   std::array<char, 64> buffer{};
@@ -44,30 +43,6 @@ inline std::string derivative_unit(std::size_t k) {
 }
 
 }  // namespace detail
-
-// The library's line for one --vibration value (its unit decides the factory).
-inline VibrationLine<double> vibration_line(const VibrationOption& v) {
-  const Vector3<double> a = detail::as_vector(v.amplitude);
-  VibrationLine<double> line{};
-  switch (v.unit) {
-    case AmplitudeUnit::rad:
-      line = VibrationLine<double>::from_angle_amplitude(v.frequency_hz, a);
-      break;
-    case AmplitudeUnit::deg:
-      line = VibrationLine<double>::from_angle_amplitude_deg(v.frequency_hz, a);
-      break;
-    case AmplitudeUnit::rad_per_s:
-      line = VibrationLine<double>::from_rate_amplitude(v.frequency_hz, a);
-      break;
-    case AmplitudeUnit::deg_per_s:
-      line = VibrationLine<double>::from_rate_amplitude_deg_s(v.frequency_hz, a);
-      break;
-  }
-  if (v.phases_known) {
-    line = line.with_phases(detail::as_vector(v.phase_deg) / detail::degrees_per_radian);
-  }
-  return line;
-}
 
 // The description the options give (bounds-only mode) and a one-line summary of it.
 inline MotionDescription<double> vehicle_description(const Options& o, std::string& summary) {

@@ -1,8 +1,6 @@
 // halfspin-propagate and halfspin-gyro-log, run as a user would run them: the executables are
 // spawned (paths from CMake), their files and stderr read back. Working files live under the build
 // tree (HALFSPIN_TOOLS_WORK_DIR/<case>/). Each check names its outside source.
-#include <sys/wait.h>
-
 #include <array>
 #include <cmath>
 #include <cstdio>
@@ -21,105 +19,11 @@
 #include "halfspin/representations/euler_angles.hpp"
 #include "method_registry.hpp"
 
+#include "tool_runner.hpp"
+
 namespace {
 
-namespace fs = std::filesystem;
-using halfspin::Quaternion;
-
-struct Run {
-  int code;
-  std::string err;
-};
-
-fs::path work_dir(const std::string& name) {
-  const fs::path d = fs::path(HALFSPIN_TOOLS_WORK_DIR) / name;
-  fs::remove_all(d);
-  fs::create_directories(d);
-  return d;
-}
-
-std::string slurp(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-// Runs an executable with arguments (each single-quoted), stderr captured in dir/stderr.txt.
-Run run(const char* exe, const std::vector<std::string>& args, const fs::path& dir) {
-  std::string cmd = std::string("'") + exe + "'";
-  for (const std::string& a : args) cmd += " '" + a + "'";
-  const fs::path err = dir / "stderr.txt";
-  cmd += " >/dev/null 2>'" + err.string() + "'";
-  const int status = std::system(cmd.c_str());
-  Run r{WIFEXITED(status) ? WEXITSTATUS(status) : -1, slurp(err)};
-  fs::remove(err);
-  return r;
-}
-
-Run propagate(const std::vector<std::string>& args, const fs::path& dir) {
-  return run(HALFSPIN_PROPAGATE_EXE, args, dir);
-}
-Run gyro_log(const std::vector<std::string>& args, const fs::path& dir) {
-  return run(HALFSPIN_GYRO_LOG_EXE, args, dir);
-}
-
-struct Csv {
-  std::string header;
-  std::vector<std::vector<double>> rows;
-};
-
-Csv read_csv(const fs::path& p) {
-  Csv c;
-  std::ifstream in(p);
-  std::getline(in, c.header);
-  std::string line;
-  while (std::getline(in, line)) {
-    std::vector<double> row;
-    std::stringstream s(line);
-    std::string field;
-    while (std::getline(s, field, ',')) row.push_back(std::strtod(field.c_str(), nullptr));
-    c.rows.push_back(row);
-  }
-  return c;
-}
-
-std::string g17(double x) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.17g", x);
-  return buf;
-}
-
-// The number after `key` in text (e.g. key "gap " in "gap 3,"), or NaN.
-double number_after(const std::string& text, const std::string& key) {
-  const std::size_t at = text.find(key);
-  if (at == std::string::npos) return std::numeric_limits<double>::quiet_NaN();
-  return std::strtod(text.c_str() + at + key.size(), nullptr);
-}
-
-// Files in dir whose name starts with `stem` (the output and any temporary beside it).
-int files_starting_with(const fs::path& dir, const std::string& stem) {
-  int n = 0;
-  for (const auto& e : fs::directory_iterator(dir)) {
-    if (e.path().filename().string().rfind(stem, 0) == 0) ++n;
-  }
-  return n;
-}
-
-// Closed form at constant body rate (common practice, no source): q(t) = q0 ⊗ exp(ω t / 2),
-// exp(φ/2) = (cos(|φ|/2), sin(|φ|/2) φ/|φ|); written out here in long double, Hamilton product.
-Quaternion<long double> constant_rate_attitude(const Quaternion<long double>& q0,
-                                               const std::array<long double, 3>& w, long double t) {
-  const long double n = std::sqrt(w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
-  const long double c = std::cos(0.5L * n * t);
-  const long double s = std::sin(0.5L * n * t) / n;
-  const long double bw = c, bx = s * w[0], by = s * w[1], bz = s * w[2];
-  return {
-      q0.w * bw - q0.x * bx - q0.y * by - q0.z * bz, q0.w * bx + q0.x * bw + q0.y * bz - q0.z * by,
-      q0.w * by - q0.x * bz + q0.y * bw + q0.z * bx, q0.w * bz + q0.x * by - q0.y * bx + q0.z * bw};
-}
-
-Quaternion<double> row_quaternion(const std::vector<double>& r) { return {r[1], r[2], r[3], r[4]}; }
+using namespace halfspin::test::tools;
 
 }  // namespace
 
@@ -269,11 +173,6 @@ std::vector<std::string> good_rate_lines() {
   return lines;
 }
 
-void write_lines(const fs::path& p, const std::vector<std::string>& lines) {
-  std::ofstream f(p, std::ios::binary);
-  for (const std::string& l : lines) f << l << '\n';
-}
-
 }  // namespace
 
 TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no temporary", "[tools]") {
@@ -294,17 +193,40 @@ TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no tempo
       {"infinity", 7, "0.05,0.2,-inf,0", "field 3 (wy) is not finite", {}},
       {"overflow", 7, "0.05,0.2,0,1e999", "field 4 (wz) is not finite", {}},
       {"non-finite time", 7, "nan,0.2,0,0", "field 1 (t) is not finite", {}},
-      {"repeated time", 7, "0.04,0.2,0,0", "does not increase", {}},
-      {"earlier time", 7, "0.01,0.2,0,0", "does not increase", {}},
-      {"gap", 7, "0.09,0.2,0,0", "gap: interval", {}},
-      {"over range", 7, "0.05,5,0,0", "over range", {"--max-rate", "1"}},
-      {"header", 1, "t,wx,wy", "header must be", {}},
+      {"repeated time",
+       7,
+       "0.04,0.2,0,0",
+       "timestamp 0.040000000000000001 s does not increase: the previous row (line 6) is at "
+       "0.040000000000000001 s",
+       {}},
+      {"earlier time",
+       7,
+       "0.01,0.2,0,0",
+       "timestamp 0.01 s does not increase: the previous row (line 6) is at 0.04",
+       {}},
+      {"gap",
+       7,
+       "0.09,0.2,0,0",
+       "gap: interval 0.049999999999999996 s from the previous row (line 6) exceeds the limit "
+       "0.025000000000000001 s (the default, 2.5 x the first interval 0.01 s; set --max-interval)",
+       {}},
+      {"gap beyond --max-interval",
+       7,
+       "0.09,0.2,0,0",
+       "exceeds the limit 0.02 s (--max-interval)",
+       {"--max-interval", "0.02"}},
+      {"over range",
+       7,
+       "0.05,5,0,0",
+       "sample over range: |wx| = 5 rad/s is above --max-rate 1 rad/s (per axis)",
+       {"--max-rate", "1"}},
+      {"header", 1, "t,wx,wy", "header must name t and wx,wy,wz (rates) or dx,dy,dz", {}},
   };
   for (const Case& c : cases) {
     INFO(c.name);
     std::vector<std::string> lines = good_rate_lines();
     lines[static_cast<std::size_t>(c.line - 1)] = c.text;
-    if (std::string(c.name) == "gap") {  // 0.05 .. 0.08 missing: the interval 0.04 → 0.09 is 0.05 s
+    if (std::string(c.name).rfind("gap", 0) == 0) {  // 0.05 .. 0.08 missing: 0.04 → 0.09
       lines.erase(lines.begin() + 7, lines.begin() + 10);
       lines[6] = "0.09,0.2,0,0";
     }
@@ -322,12 +244,20 @@ TEST_CASE("every bad-input class: exit 2, FILE:LINE: reason, no output, no tempo
   }
   SECTION("delta-angle logs: the first interval starts at --start-time") {
     write_lines(dir / "d.csv", {"t,dx,dy,dz", "0.01,0.001,0,0", "0.02,0.001,0,0"});
-    const Run r = propagate(
+    Run r = propagate(
         {(dir / "d.csv").string(), "--start-time", "0.01", "--output", (dir / "out.csv").string()},
         dir);
     CHECK(r.code == 2);
-    CHECK(r.err.find("d.csv:2: timestamp 0.01 does not increase") != std::string::npos);
+    CHECK(r.err.find("d.csv:2: timestamp 0.01 s is at --start-time 0.01 s: the interval from "
+                     "--start-time is zero, but the row's delta-angle (0.001, 0, 0) rad is not") !=
+          std::string::npos);
     CHECK(files_starting_with(dir, "out.csv") == 0);
+    r = propagate(
+        {(dir / "d.csv").string(), "--start-time", "0.5", "--output", (dir / "out.csv").string()},
+        dir);
+    CHECK(r.code == 2);
+    CHECK(r.err.find("d.csv:2: timestamp 0.01 s is before --start-time 0.5 s, where the first "
+                     "interval starts") != std::string::npos);
   }
   SECTION("a log with no complete step, and a failure leaves an existing output untouched") {
     write_lines(dir / "short.csv", {"t,wx,wy,wz", "0,0.1,0,0", "0.01,0.1,0,0"});
