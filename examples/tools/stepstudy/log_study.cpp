@@ -79,6 +79,31 @@ bool open_log(const std::string& path, std::ifstream& in, std::string& error) {
   return true;
 }
 
+// Reads the header into `layout` (resolve_gyro_log_layout: the time and gyro columns by name, in
+// any order, other columns ignored) and makes the reader read those columns.
+bool read_log_layout(NumericCsvReader<4>& reader, const std::string& path, GyroLogLayout& layout,
+                     std::string& error) {
+  std::string header;
+  if (!reader.read_header(header)) {
+    error = path + (reader.line() == 0 ? ": empty file" : ":1: header line too long");
+    return false;
+  }
+  const std::string reason = resolve_gyro_log_layout(header, std::nullopt, {}, layout);
+  if (!reason.empty()) {
+    error = path + ":1: the header must name the columns t and wx,wy,wz (rate log) or dx,dy,dz " +
+            "(delta-angle log), in any order among other columns: found '" + header + "'";
+    return false;
+  }
+  reader.select_columns(layout.column, layout.field_count);
+  return true;
+}
+
+// The header's names of t, x, y, z, for the reader's messages (valid while `layout` lives).
+std::array<const char*, 4> field_names(const GyroLogLayout& layout) {
+  return {{layout.name[0].c_str(), layout.name[1].c_str(), layout.name[2].c_str(),
+           layout.name[3].c_str()}};
+}
+
 // The check pass: header, every row, and a fixed period.
 bool scan_log(const Options& o, LogShape& shape, std::string& error) {
   const std::string& path = o.log.file;
@@ -87,19 +112,20 @@ bool scan_log(const Options& o, LogShape& shape, std::string& error) {
     return false;
   }
   NumericCsvReader<4> reader(in);
-  std::string header;
-  if (!reader.read_header(header)) {
-    error = path + (reader.line() == 0 ? ": empty file" : ":1: header line too long");
+  GyroLogLayout layout;
+  if (!read_log_layout(reader, path, layout, error)) {
     return false;
   }
-  const std::optional<GyroLogForm> form = gyro_log_form_from_header(header);
-  if (!form) {
-    error = path + ":1: the header must be 't,wx,wy,wz' (rate log) or 't,dx,dy,dz' (delta-angle " +
-            "log), not '" + header + "'";
-    return false;
+  if (!layout.ignored.empty()) {
+    std::string list;
+    for (const std::size_t c : layout.ignored) {
+      list += (list.empty() ? "" : ", ") + std::to_string(c + 1) + " '" + layout.header[c] + "'";
+    }
+    std::printf("note: %s: column%s %s ignored\n", path.c_str(),
+                layout.ignored.size() > 1 ? "s" : "", list.c_str());
   }
-  shape.form = *form;
-  const auto names = gyro_log_field_names(*form);
+  shape.form = layout.form;
+  const std::array<const char*, 4> names = field_names(layout);
   std::array<double, 4> row{};
   std::int64_t rows = 0;
   double first_t = 0;
@@ -140,8 +166,8 @@ bool scan_log(const Options& o, LogShape& shape, std::string& error) {
     return false;
   }
   shape.period_s = (previous_t - first_t) / static_cast<double>(rows - 1);
-  shape.first_row = *form == GyroLogForm::rate ? 0 : 1;
-  shape.start_s = *form == GyroLogForm::rate ? first_t : first_t - shape.period_s;
+  shape.first_row = layout.form == GyroLogForm::rate ? 0 : 1;
+  shape.start_s = layout.form == GyroLogForm::rate ? first_t : first_t - shape.period_s;
   shape.last_row = shape.first_row + rows - 1;
   if (o.log.duration_given) {
     // The last row ending within --duration of t0 (a relative 1e-9 absorbs decimal rounding).
@@ -160,9 +186,7 @@ class LogRows {
       return false;
     }
     reader_.emplace(in_);
-    std::string header;
-    form_ = reader_->read_header(header) ? gyro_log_form_from_header(header) : std::nullopt;
-    if (!form_) {
+    if (!read_log_layout(*reader_, path, layout_, error)) {
       error = path + ": the log changed since it was checked";
       return false;
     }
@@ -178,7 +202,7 @@ class LogRows {
     times.clear();
     std::array<double, 4> row{};
     while (next_row_ <= shape.last_row && chunk.values.size() < chunk_rows &&
-           reader_->next(row, gyro_log_field_names(*form_)) == ReadOutcome::row) {
+           reader_->next(row, field_names(layout_)) == ReadOutcome::row) {
       chunk.values.push_back(
           {static_cast<LD>(row[1]), static_cast<LD>(row[2]), static_cast<LD>(row[3])});
       times.push_back(row[0]);
@@ -191,7 +215,7 @@ class LogRows {
  private:
   std::ifstream in_;
   std::optional<NumericCsvReader<4>> reader_;
-  std::optional<GyroLogForm> form_;
+  GyroLogLayout layout_;
   std::int64_t next_row_ = 0;
 };
 

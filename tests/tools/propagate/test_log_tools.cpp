@@ -183,7 +183,7 @@ TEST_CASE(
   }
 }
 
-TEST_CASE("gyro-log options: units, phases and parts as the help says; bad values exit 1",
+TEST_CASE("gyro-log options: units, phases and parts as the help says, bad values exit 1",
           "[tools]") {
   const fs::path dir = work_dir("gyro_log_options");
   const std::string out = (dir / "log.csv").string();

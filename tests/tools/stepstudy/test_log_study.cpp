@@ -461,8 +461,8 @@ TEST_CASE("log study: bad logs, truths and option combinations exit 1 with a mes
   const std::vector<Case> cases{
       {{"--log", scratch + "/no-such-log.csv"}, "cannot open the log"},
       {{"--log", write("empty.csv", "")}, "empty file"},
-      {{"--log", write("header.csv", "time,a,b,c\n" + good_rows)}, ":1: the header must be"},
-      {{"--log", m.truth}, ":1: the header must be"},
+      {{"--log", write("header.csv", "time,a,b,c\n" + good_rows)}, ":1: the header must name"},
+      {{"--log", m.truth}, ":1: the header must name"},
       {{"--log", write("text.csv", "t,dx,dy,dz\n0.001,0.001,x,0\n")}, "text.csv:2:"},
       {{"--log", write("fields.csv", "t,dx,dy,dz\n0.001,0.001,0\n")}, "fields.csv:2:"},
       {{"--log", write("nan.csv", "t,dx,dy,dz\n0.001,nan,0,0\n")}, "nan.csv:2:"},
