@@ -42,10 +42,16 @@ constexpr int exit_failure = 2;
 // The references: of each form's order-3 and order-4 sample steppers, the one with the smallest
 // worst true error over the five truth motions' logs at 1 kHz (README.md, "Choosing the
 // reference"): four-sample coning for delta-angle logs, classic RK4 on rate samples for rate
-// logs. Run in long double.
+// logs, each tried first; then two- and one-sample coning (delta), Magnus 4 and the midpoint-mean
+// exponential map (rate). Run in long double.
 using DeltaReference = Coning4Sample;
 using RateReference = RungeKutta4Sampled;
 inline constexpr int reference_levels = 4;  // 1, 2, 4, 8 log periods per sample
+// A log whose motion is fast for its rate (vibration near a tenth of the sample rate) can put the
+// default reference outside its asymptotic range: a four-sample step spans four log periods.
+// So each candidate below is first run at its own levels (a pass over the log), and the one
+// whose Richardson estimate has the smallest upper end is the reference: a reliable estimate
+// before an unreliable one.
 
 // Every interval between rows must be within this fraction of the first (a fixed gyro period).
 constexpr double period_tolerance = 1e-6;
@@ -237,8 +243,15 @@ struct MethodRun {
   double step_s = 0;
 };
 
+// One candidate's outcome in the choice of the reference.
+struct ReferenceCandidate {
+  const char* name = "";
+  RichardsonEstimate estimate;
+};
+
 struct StudyResult {
   std::vector<MethodRun> runs;
+  std::vector<ReferenceCandidate> candidates;  // the references tried, in order
   RichardsonEstimate reference;
   double reference_true = std::numeric_limits<double>::quiet_NaN();
   const char* reference_name = "";
@@ -335,6 +348,77 @@ bool plan_runs(const Options& o, const LogShape& shape, std::int64_t reference_p
     return false;
   }
   return true;
+}
+
+// A candidate reference's own error on this log: its runs at 1, 2, 4, 8 log periods per sample
+// from the identity (the angle between two runs from the same start does not depend on it), and
+// Richardson's estimate from their differences. False (with `error`) if the log cannot be read or
+// the candidate needs more rows than the log has.
+template <class Reference>
+bool reference_estimate(const Options& o, const LogShape& shape, RichardsonEstimate& estimate,
+                        std::string& error) {
+  const std::int64_t p_ref =
+      static_cast<std::int64_t>(periods_per_step(Reference::layout, Reference::window));
+  if (p_ref << (reference_levels - 1) > shape.last_row) {
+    error = o.log.file + ": too short for the reference: " + Reference::name + " at " +
+            std::to_string(1 << (reference_levels - 1)) + " log periods per sample needs " +
+            std::to_string(p_ref << (reference_levels - 1)) + " rows";
+    return false;
+  }
+  const LD h = static_cast<LD>(shape.period_s);
+  const LogInput input =
+      carries_delta_angles(Reference::layout) ? LogInput::delta_sums : LogInput::rate_every_kth;
+  std::array<std::unique_ptr<LogRun>, reference_levels> runs;
+  for (int l = 0; l < reference_levels; ++l) {
+    runs.at(static_cast<std::size_t>(l)) =
+        std::make_unique<LogRunOf<Reference, LD, PlainAccumulation>>(
+            Quaternion<LD>::identity(), std::int64_t{1} << l, h, input);
+  }
+  LogRows rows;
+  if (!rows.open(o.log.file, error)) {
+    return false;
+  }
+  rows.start_at(shape.first_row);
+  LogChunk chunk;
+  std::vector<double> times;
+  std::vector<StepEnd> ends;
+  std::array<std::vector<Quaternion<LD>>, reference_levels> tracks;
+  std::array<double, 3> differences{};
+  LD angle_turned = 0;
+  while (rows.next(shape, chunk, times)) {
+    for (const Vector3<LD>& v : chunk.values) {
+      angle_turned += norm(v) * (shape.form == GyroLogForm::rate ? h : 1.0L);
+    }
+    for (std::size_t l = 0; l < runs.size(); ++l) {
+      if (!runs.at(l)->feed(chunk, ends)) {
+        error = std::string("the reference ") + Reference::name + " rejected a sample of " +
+                o.log.file + " (rates over 1e4 rad/s?)";
+        return false;
+      }
+      tracks.at(l).resize(chunk.values.size());
+      for (const StepEnd& e : ends) {
+        const auto i = static_cast<std::size_t>(e.row - chunk.first_row);
+        tracks.at(l)[i] = e.attitude;
+        if (l > 0) {
+          differences.at(l - 1) =
+              std::max(differences.at(l - 1),
+                       static_cast<double>(angle_between(e.attitude, tracks.at(l - 1)[i])));
+        }
+      }
+    }
+  }
+  estimate = richardson_estimate(
+      differences, Reference::order,
+      std::numeric_limits<double>::epsilon() / 2 * static_cast<double>(angle_turned));
+  return true;
+}
+
+// Whether a is the better reference: reliable before unreliable, then the smaller upper end.
+bool better_reference(const RichardsonEstimate& a, const RichardsonEstimate& b) {
+  if (a.reliable != b.reliable) {
+    return a.reliable;
+  }
+  return a.high_rad < b.high_rad;
 }
 
 // The study pass: reference runs and method runs fed chunk by chunk.
@@ -502,6 +586,13 @@ void print_reference(const Options& o, const StudyResult& r) {
       "Reference (the log's finest solution): %s at 1 log period per sample (step %.4e s), long "
       "double\n",
       r.reference_name, h * static_cast<double>(r.reference_periods));
+  std::printf(
+      "  chosen among (each run at 1, 2, 4, 8 log periods per sample; a reliable estimate\n"
+      "  first, then the smallest upper end of its own error):");
+  for (const ReferenceCandidate& c : r.candidates) {
+    std::printf(" %s %s %.3e rad%s", c.name, c.estimate.reliable ? "reliable," : "UNRELIABLE,",
+                c.estimate.high_rad, &c == &r.candidates.back() ? "\n" : ";");
+  }
   std::printf(
       "  its own error, by Richardson extrapolation (runs at 1, 2, 4, 8 log periods per sample):\n"
       "    max differences %.3e (1 vs 2), %.3e (2 vs 4), %.3e (4 vs 8) rad\n",
@@ -747,9 +838,50 @@ int run_log_study(const Options& o) {
     std::printf("  truth:        %s (--log-truth: a check of the truth-free study)\n",
                 o.log.truth.c_str());
   }
-  const bool ran = shape.form == GyroLogForm::delta_angle
-                       ? run_study<DeltaReference>(o, result, error)
-                       : run_study<RateReference>(o, result, error);
+  // The reference: each candidate's own error first (a pass over the log each), then the study
+  // with the best one.
+  bool ran = false;
+  const auto choose_and_run = [&](auto... tags) {
+    bool ok = true;
+    int best = -1;
+    int index = 0;
+    const auto consider = [&](auto tag) {
+      using R = typename decltype(tag)::type;
+      ReferenceCandidate c;
+      c.name = R::name;
+      if (ok && !reference_estimate<R>(o, shape, c.estimate, error)) {
+        ok = false;
+      }
+      if (ok && (best < 0 ||
+                 better_reference(c.estimate,
+                                  result.candidates.at(static_cast<std::size_t>(best)).estimate))) {
+        best = index;
+      }
+      result.candidates.push_back(c);
+      ++index;
+    };
+    (consider(tags), ...);
+    if (!ok) {
+      return false;
+    }
+    int position = 0;
+    bool done = false;
+    const auto run_best = [&](auto tag) {
+      using R = typename decltype(tag)::type;
+      if (position++ == best) {
+        done = run_study<R>(o, result, error);
+      }
+    };
+    (run_best(tags), ...);
+    return done;
+  };
+  if (shape.form == GyroLogForm::delta_angle) {
+    ran = choose_and_run(MethodTag<DeltaReference>{}, MethodTag<Coning2Sample>{},
+                         MethodTag<Coning1Sample>{});
+  } else {
+    ran = choose_and_run(MethodTag<RateReference>{}, MethodTag<Magnus4>{},
+                         MethodTag<ExponentialMapMidpointMean>{});
+  }
   if (!ran) {
     std::fprintf(stderr, "halfspin-stepstudy: %s\n", error.c_str());
     return result.failure_code;
