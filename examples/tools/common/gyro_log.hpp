@@ -33,7 +33,9 @@
 //   StagedOutputFile                     writes to a temporary file beside the destination and
 //                                        renames it over the destination on commit(); removes the
 //                                        temporary on destruction if not committed (no partial
-//                                        output ever appears under the destination's name)
+//                                        output ever appears under the destination's name); a
+//                                        destination that is not a regular file (/dev/null, a
+//                                        pipe) is written in place
 //   write_csv_row(file, values, digits)  one row of numbers, %.<digits>g
 #include <array>
 #include <cerrno>
@@ -47,6 +49,7 @@
 #include <utility>
 #include <vector>
 
+#include <sys/stat.h>
 #include <unistd.h>
 
 namespace halfspin::tools {
@@ -418,9 +421,18 @@ class StagedOutputFile {
   StagedOutputFile& operator=(StagedOutputFile&&) = delete;
   ~StagedOutputFile() { discard(); }
 
-  // Creates the temporary `<destination>.tmp-XXXXXX`. False (with errno) if it cannot.
+  // Creates the temporary `<destination>.tmp-XXXXXX`. False (with errno) if it cannot. A
+  // destination that exists and is not a regular file (/dev/null, a named pipe, a terminal) is
+  // opened and written directly instead: renaming over it would replace the device or pipe with
+  // a regular file (and needs write access to its directory).
   bool open(const std::string& destination) {
     destination_ = destination;
+    struct stat st {};
+    if (::stat(destination.c_str(), &st) == 0 && !S_ISREG(st.st_mode)) {
+      file_ = std::fopen(destination.c_str(), "w");
+      direct_ = file_ != nullptr;
+      return direct_;
+    }
     std::string pattern = destination + ".tmp-XXXXXX";
     const int fd = mkstemp(pattern.data());
     if (fd < 0) {
@@ -446,6 +458,9 @@ class StagedOutputFile {
     const bool write_ok = std::ferror(file_) == 0;
     const bool close_ok = std::fclose(file_) == 0;
     file_ = nullptr;
+    if (direct_) {
+      return write_ok && close_ok;
+    }
     if (!write_ok || !close_ok || std::rename(temporary_.c_str(), destination_.c_str()) != 0) {
       std::remove(temporary_.c_str());
       temporary_.clear();
@@ -471,6 +486,7 @@ class StagedOutputFile {
   std::string destination_;
   std::string temporary_;
   std::FILE* file_ = nullptr;
+  bool direct_ = false;  // the destination is not a regular file: written in place
 };
 
 // Writes `values` as one CSV row with `digits` significant digits (17 round-trips a double,

@@ -498,3 +498,40 @@ TEST_CASE("the help documents the new options, the notes and the threshold", "[t
     }
   }
 }
+
+TEST_CASE("an output that is not a regular file (a named pipe) is written in place, not replaced",
+          "[tools]") {
+  // Writing through a temporary and renaming it over the destination keeps a half-written file
+  // from ever appearing under the destination's name; but renaming over a device or a pipe
+  // (/dev/null, a FIFO a plotting process reads) would replace it with a regular file. A FIFO in
+  // the work directory stands in for both (POSIX mkfifo; a background cat drains it).
+  using namespace halfspin::test::tools;
+  const fs::path dir = work_dir("fifo_output");
+  const fs::path log = dir / "log.csv";
+  REQUIRE(
+      gyro_log({"--motion", "constant", "--duration", "0.1", "--output", log.string()}, dir).code ==
+      0);
+  for (const char* tool : {"propagate", "gyro-log"}) {
+    INFO(tool);
+    const fs::path fifo = dir / (std::string(tool) + ".fifo");
+    const fs::path drained = dir / (std::string(tool) + ".drained");
+    REQUIRE(std::system(("mkfifo '" + fifo.string() + "'").c_str()) == 0);
+    // Bounded (coreutils timeout) and detached from the test's output: if the tool replaced the
+    // pipe, nothing ever writes to it and the cat must not outlive the test.
+    REQUIRE(std::system(("timeout 10 cat '" + fifo.string() + "' > '" + drained.string() +
+                         "' 2>/dev/null </dev/null &")
+                            .c_str()) == 0);
+    const Run r =
+        std::string(tool) == "propagate"
+            ? propagate({log.string(), "--output", fifo.string()}, dir)
+            : gyro_log({"--motion", "constant", "--duration", "0.1", "--output", fifo.string()},
+                       dir);
+    CHECK(r.code == 0);
+    CHECK(fs::is_fifo(fs::symlink_status(fifo)));  // still the pipe, not a regular file
+    // The reader got the whole output: wait (bounded) for cat to finish, then read its copy.
+    for (int i = 0; i < 200 && slurp(drained).find('\n') == std::string::npos; ++i) {
+      REQUIRE(std::system("sleep 0.01") == 0);
+    }
+    CHECK(slurp(drained).rfind("t,", 0) == 0);  // the CSV header arrived first
+  }
+}
