@@ -543,9 +543,9 @@ TEST_CASE("log study: the reference is the candidate with a reliable, smallest o
                  "--duration", "2", "--form", "delta", "--output", log, "--truth", truth},
                 "make-turn-vibration")
               .code == 0);
-  const Outcome r = study({"--log", log, "--log-truth", truth, "--methods", "coning_2_sample",
-                           "--scalar", "double"},
-                          "reference-choice");
+  const Outcome r = study(
+      {"--log", log, "--log-truth", truth, "--methods", "coning_2_sample", "--scalar", "double"},
+      "reference-choice");
   REQUIRE(r.code == 0);
   INFO(r.out);
   // Every candidate is listed with its estimate, the default is not chosen, and the one chosen is
