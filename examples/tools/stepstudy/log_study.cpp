@@ -30,6 +30,7 @@
 #include "halfspin/propagation/compensated_accumulation.hpp"
 #include "log_runs.hpp"
 #include "method_registry.hpp"
+#include "number_text.hpp"
 #include "svg_chart.hpp"
 
 namespace halfspin::tools::stepstudy {
@@ -57,15 +58,7 @@ inline constexpr int reference_levels = 4;  // 1, 2, 4, 8 log periods per sample
 constexpr double period_tolerance = 1e-6;
 constexpr std::size_t chunk_rows = 8192;
 
-std::string text(const char* fmt, double v) {
-  std::array<char, 64> buffer{};
-  std::snprintf(buffer.data(), buffer.size(), fmt, v);
-  return buffer.data();
-}
-std::string cell(double v) {
-  return std::isfinite(v) ? text("%.3e", v) : (std::isnan(v) ? "-" : "inf");
-}
-std::string csv_number(double v) { return std::isnan(v) ? std::string() : text("%.17g", v); }
+std::string csv_number(double v) { return std::isnan(v) ? std::string() : number_text("%.17g", v); }
 
 // What the check pass learns about a log.
 struct LogShape {
@@ -156,10 +149,10 @@ bool scan_log(const Options& o, LogShape& shape, std::string& error) {
       if (!(interval > 0) ||
           std::fabs(interval - first_interval) > period_tolerance * first_interval) {
         error = path + ":" + std::to_string(reader.line()) + ": the interval " +
-                text("%.9g", interval) + " s to the previous row is " +
-                (interval > 0
-                     ? "not the log's period " + text("%.9g", first_interval) + " s within 1 ppm"
-                     : std::string("not positive")) +
+                number_text("%.9g", interval) + " s to the previous row is " +
+                (interval > 0 ? "not the log's period " + number_text("%.9g", first_interval) +
+                                    " s within 1 ppm"
+                              : std::string("not positive")) +
                 ": the study needs a fixed gyro period";
         return false;
       }
@@ -350,30 +343,104 @@ bool plan_runs(const Options& o, const LogShape& shape, std::int64_t reference_p
   return true;
 }
 
-// A candidate reference's own error on this log: its runs at 1, 2, 4, 8 log periods per sample
-// from the identity (the angle between two runs from the same start does not depend on it), and
-// Richardson's estimate from their differences. False (with `error`) if the log cannot be read or
-// the candidate needs more rows than the log has.
+// A reference stepper run in long double at 1, 2, 4, 8 log periods per sample from one start,
+// fed chunk by chunk: the finest run's attitude at every step end, the largest differences
+// between neighbouring levels, and Richardson's estimate of the finest run's own error from them.
+template <class Reference>
+class ReferenceLevels {
+ public:
+  // Log periods per reference sample at the finest level.
+  static constexpr auto periods =
+      static_cast<std::int64_t>(periods_per_step(Reference::layout, Reference::window));
+
+  // False (with `error`) if the coarsest level needs more rows than the log has.
+  static bool fits(const Options& o, const LogShape& shape, std::string& error) {
+    if (periods << (reference_levels - 1) <= shape.last_row) {
+      return true;
+    }
+    error = o.log.file + ": too short for the reference: " + Reference::name + " at " +
+            std::to_string(1 << (reference_levels - 1)) + " log periods per sample needs " +
+            std::to_string(periods << (reference_levels - 1)) + " rows";
+    return false;
+  }
+
+  // What to say when a level rejected a sample of the log.
+  static std::string rejection(const Options& o) {
+    return std::string("the reference ") + Reference::name + " rejected a sample of " + o.log.file +
+           " (rates over 1e4 rad/s?)";
+  }
+
+  ReferenceLevels(const Quaternion<LD>& q0, const LogShape& shape)
+      : h_(static_cast<LD>(shape.period_s)), rate_log_(shape.form == GyroLogForm::rate) {
+    const LogInput input =
+        carries_delta_angles(Reference::layout) ? LogInput::delta_sums : LogInput::rate_every_kth;
+    for (int l = 0; l < reference_levels; ++l) {
+      runs_.at(static_cast<std::size_t>(l)) =
+          std::make_unique<LogRunOf<Reference, LD, PlainAccumulation>>(q0, std::int64_t{1} << l, h_,
+                                                                       input);
+    }
+  }
+
+  // Feeds one chunk to every level; `at_common_end(i)` is called for each row i of the chunk
+  // where the two finest levels both end a step (finest(i) is then set). False if a level
+  // rejected a sample.
+  template <class CommonEnd>
+  bool feed(const LogChunk& chunk, const CommonEnd& at_common_end) {
+    for (const Vector3<LD>& v : chunk.values) {
+      angle_turned_ += norm(v) * (rate_log_ ? h_ : 1.0L);
+    }
+    for (std::size_t l = 0; l < runs_.size(); ++l) {
+      if (!runs_.at(l)->feed(chunk, ends_)) {
+        return false;
+      }
+      tracks_.at(l).resize(chunk.values.size());
+      for (const StepEnd& e : ends_) {
+        const auto i = static_cast<std::size_t>(e.row - chunk.first_row);
+        tracks_.at(l)[i] = e.attitude;
+        if (l > 0) {
+          differences_.at(l - 1) =
+              std::max(differences_.at(l - 1),
+                       static_cast<double>(angle_between(e.attitude, tracks_.at(l - 1)[i])));
+        }
+        if (l == 1) {
+          at_common_end(i);
+        }
+      }
+    }
+    return true;
+  }
+
+  // The finest level's attitude at row i of the last chunk (set where it ended a step).
+  const Quaternion<LD>& finest(std::size_t i) const { return tracks_[0][i]; }
+
+  // Richardson's estimate of the finest level's error, with the long double rounding of the
+  // angle turned as its floor.
+  RichardsonEstimate estimate() const {
+    return richardson_estimate(
+        differences_, Reference::order,
+        std::numeric_limits<double>::epsilon() / 2 * static_cast<double>(angle_turned_));
+  }
+
+ private:
+  LD h_;
+  bool rate_log_;
+  std::array<std::unique_ptr<LogRun>, reference_levels> runs_;
+  std::array<std::vector<Quaternion<LD>>, reference_levels> tracks_;
+  std::vector<StepEnd> ends_;
+  std::array<double, reference_levels - 1> differences_{};
+  LD angle_turned_ = 0;  // Σ over rows of |Δθ| (delta-angle log) or |ω|·h (rate log), rad
+};
+
+// A candidate reference's own error on this log: its levels from the identity (the angle between
+// two runs from the same start does not depend on it). False (with `error`) if the log cannot be
+// read or the candidate needs more rows than the log has.
 template <class Reference>
 bool reference_estimate(const Options& o, const LogShape& shape, RichardsonEstimate& estimate,
                         std::string& error) {
-  const std::int64_t p_ref =
-      static_cast<std::int64_t>(periods_per_step(Reference::layout, Reference::window));
-  if (p_ref << (reference_levels - 1) > shape.last_row) {
-    error = o.log.file + ": too short for the reference: " + Reference::name + " at " +
-            std::to_string(1 << (reference_levels - 1)) + " log periods per sample needs " +
-            std::to_string(p_ref << (reference_levels - 1)) + " rows";
+  if (!ReferenceLevels<Reference>::fits(o, shape, error)) {
     return false;
   }
-  const LD h = static_cast<LD>(shape.period_s);
-  const LogInput input =
-      carries_delta_angles(Reference::layout) ? LogInput::delta_sums : LogInput::rate_every_kth;
-  std::array<std::unique_ptr<LogRun>, reference_levels> runs;
-  for (int l = 0; l < reference_levels; ++l) {
-    runs.at(static_cast<std::size_t>(l)) =
-        std::make_unique<LogRunOf<Reference, LD, PlainAccumulation>>(
-            Quaternion<LD>::identity(), std::int64_t{1} << l, h, input);
-  }
+  ReferenceLevels<Reference> levels(Quaternion<LD>::identity(), shape);
   LogRows rows;
   if (!rows.open(o.log.file, error)) {
     return false;
@@ -381,35 +448,13 @@ bool reference_estimate(const Options& o, const LogShape& shape, RichardsonEstim
   rows.start_at(shape.first_row);
   LogChunk chunk;
   std::vector<double> times;
-  std::vector<StepEnd> ends;
-  std::array<std::vector<Quaternion<LD>>, reference_levels> tracks;
-  std::array<double, 3> differences{};
-  LD angle_turned = 0;
   while (rows.next(shape, chunk, times)) {
-    for (const Vector3<LD>& v : chunk.values) {
-      angle_turned += norm(v) * (shape.form == GyroLogForm::rate ? h : 1.0L);
-    }
-    for (std::size_t l = 0; l < runs.size(); ++l) {
-      if (!runs.at(l)->feed(chunk, ends)) {
-        error = std::string("the reference ") + Reference::name + " rejected a sample of " +
-                o.log.file + " (rates over 1e4 rad/s?)";
-        return false;
-      }
-      tracks.at(l).resize(chunk.values.size());
-      for (const StepEnd& e : ends) {
-        const auto i = static_cast<std::size_t>(e.row - chunk.first_row);
-        tracks.at(l)[i] = e.attitude;
-        if (l > 0) {
-          differences.at(l - 1) =
-              std::max(differences.at(l - 1),
-                       static_cast<double>(angle_between(e.attitude, tracks.at(l - 1)[i])));
-        }
-      }
+    if (!levels.feed(chunk, [](std::size_t) {})) {
+      error = ReferenceLevels<Reference>::rejection(o);
+      return false;
     }
   }
-  estimate = richardson_estimate(
-      differences, Reference::order,
-      std::numeric_limits<double>::epsilon() / 2 * static_cast<double>(angle_turned));
+  estimate = levels.estimate();
   return true;
 }
 
@@ -425,15 +470,10 @@ bool better_reference(const RichardsonEstimate& a, const RichardsonEstimate& b) 
 template <class Reference>
 bool run_study(const Options& o, StudyResult& result, std::string& error) {
   const LogShape& shape = result.shape;
-  const LD h = static_cast<LD>(shape.period_s);
-  const std::int64_t p_ref =
-      static_cast<std::int64_t>(periods_per_step(Reference::layout, Reference::window));
+  const std::int64_t p_ref = ReferenceLevels<Reference>::periods;
   result.reference_name = Reference::name;
   result.reference_periods = p_ref;
-  if (p_ref << (reference_levels - 1) > shape.last_row) {
-    error = o.log.file + ": too short for the reference: " + Reference::name + " at " +
-            std::to_string(1 << (reference_levels - 1)) + " log periods per sample needs " +
-            std::to_string(p_ref << (reference_levels - 1)) + " rows";
+  if (!ReferenceLevels<Reference>::fits(o, shape, error)) {
     return false;
   }
 
@@ -461,14 +501,7 @@ bool run_study(const Options& o, StudyResult& result, std::string& error) {
     }
   }
 
-  const LogInput ref_input =
-      carries_delta_angles(Reference::layout) ? LogInput::delta_sums : LogInput::rate_every_kth;
-  std::array<std::unique_ptr<LogRun>, reference_levels> reference;
-  for (int l = 0; l < reference_levels; ++l) {
-    reference.at(static_cast<std::size_t>(l)) =
-        std::make_unique<LogRunOf<Reference, LD, PlainAccumulation>>(q0, std::int64_t{1} << l, h,
-                                                                     ref_input);
-  }
+  ReferenceLevels<Reference> reference(q0, shape);
   if (!plan_runs(o, shape, p_ref, q0, result.runs, error)) {
     return false;
   }
@@ -482,16 +515,10 @@ bool run_study(const Options& o, StudyResult& result, std::string& error) {
   LogChunk chunk;
   std::vector<double> times;
   std::vector<StepEnd> ends;
-  std::array<std::vector<Quaternion<LD>>, reference_levels> tracks;
   std::vector<Quaternion<LD>> truth_rows;
-  std::array<double, 3> differences{};
   double reference_true = 0;
-  LD angle_turned = 0;  // Σ over rows of |Δθ| (delta-angle log) or |ω|·h (rate log), rad
   while (rows.next(shape, chunk, times)) {
     const std::size_t n = chunk.values.size();
-    for (const Vector3<LD>& v : chunk.values) {
-      angle_turned += norm(v) * (shape.form == GyroLogForm::rate ? h : 1.0L);
-    }
     if (truth) {
       truth_rows.resize(n);
       for (std::size_t i = 0; i < n; ++i) {
@@ -501,27 +528,16 @@ bool run_study(const Options& o, StudyResult& result, std::string& error) {
         }
       }
     }
-    for (std::size_t l = 0; l < reference.size(); ++l) {
-      if (!reference.at(l)->feed(chunk, ends)) {
-        error = std::string("the reference ") + Reference::name + " rejected a sample of " +
-                o.log.file + " (rates over 1e4 rad/s?)";
-        result.failure_code = exit_failure;
-        return false;
+    const bool fed = reference.feed(chunk, [&](std::size_t i) {
+      if (truth) {
+        reference_true = std::max(
+            reference_true, static_cast<double>(angle_between(reference.finest(i), truth_rows[i])));
       }
-      tracks.at(l).resize(n);
-      for (const StepEnd& e : ends) {
-        const auto i = static_cast<std::size_t>(e.row - chunk.first_row);
-        tracks.at(l)[i] = e.attitude;
-        if (l > 0) {
-          differences.at(l - 1) =
-              std::max(differences.at(l - 1),
-                       static_cast<double>(angle_between(e.attitude, tracks.at(l - 1)[i])));
-        }
-        if (l == 1 && truth) {
-          reference_true = std::max(
-              reference_true, static_cast<double>(angle_between(tracks[0][i], truth_rows[i])));
-        }
-      }
+    });
+    if (!fed) {
+      error = ReferenceLevels<Reference>::rejection(o);
+      result.failure_code = exit_failure;
+      return false;
     }
     for (MethodRun& m : result.runs) {
       m.ok = m.run->feed(chunk, ends) && m.ok;
@@ -530,7 +546,7 @@ bool run_study(const Options& o, StudyResult& result, std::string& error) {
           continue;
         }
         const auto i = static_cast<std::size_t>(e.row - chunk.first_row);
-        const double d = static_cast<double>(angle_between(e.attitude, tracks[0][i]));
+        const double d = static_cast<double>(angle_between(e.attitude, reference.finest(i)));
         const double t = static_cast<double>(e.row) * shape.period_s;
         ++m.compared;
         m.max_difference = std::max(m.max_difference, d);
@@ -543,9 +559,7 @@ bool run_study(const Options& o, StudyResult& result, std::string& error) {
       }
     }
   }
-  result.reference = richardson_estimate(
-      differences, Reference::order,
-      std::numeric_limits<double>::epsilon() / 2 * static_cast<double>(angle_turned));
+  result.reference = reference.estimate();
   if (truth) {
     result.reference_true = reference_true;
   }
@@ -615,9 +629,9 @@ void print_reference(const Options& o, const StudyResult& r) {
         "used:\n"
         "    the declared %d; upper end the 1-vs-2 difference plus the log's own rounding: %.3e "
         "rad\n",
-        std::isfinite(e.order_fine) ? text("%.2f", e.order_fine).c_str() : "-",
-        std::isfinite(e.order_coarse) ? text("%.2f", e.order_coarse).c_str() : "-", e.estimate_rad,
-        e.declared_order, e.high_rad);
+        std::isfinite(e.order_fine) ? number_text("%.2f", e.order_fine).c_str() : "-",
+        std::isfinite(e.order_coarse) ? number_text("%.2f", e.order_coarse).c_str() : "-",
+        e.estimate_rad, e.declared_order, e.high_rad);
   }
   std::printf(
       "    the log's own rounding (its values are doubles): up to %.3e rad (eps/2 x the angle "
@@ -644,12 +658,13 @@ void print_table(const Options& o, const StudyResult& r) {
   for (const MethodRun& m : r.runs) {
     std::printf("%-34s %-6s %-12s %6lld %10.3e %9lld %11s %6s %8s %11s %11s %-7s%s\n",
                 m.method.c_str(), m.scalar, input_word(m.input), static_cast<long long>(m.k),
-                m.step_s, static_cast<long long>(m.run->steps()), cell(m.max_difference).c_str(),
-                std::isfinite(m.order) ? text("%.2f", m.order).c_str() : "-",
-                std::isfinite(ns_per_step(m)) ? text("%.1f", ns_per_step(m)).c_str() : "-",
-                cell(growth_rate(m)).c_str(), cell(extrapolated(o, m)).c_str(),
-                at_resolution(r, m) ? "ref-res" : "-",
-                truth ? ("  " + cell(m.max_true)).c_str() : "");
+                m.step_s, static_cast<long long>(m.run->steps()),
+                scientific_cell(m.max_difference).c_str(),
+                std::isfinite(m.order) ? number_text("%.2f", m.order).c_str() : "-",
+                std::isfinite(ns_per_step(m)) ? number_text("%.1f", ns_per_step(m)).c_str() : "-",
+                scientific_cell(growth_rate(m)).c_str(),
+                scientific_cell(extrapolated(o, m)).c_str(), at_resolution(r, m) ? "ref-res" : "-",
+                truth ? ("  " + scientific_cell(m.max_true)).c_str() : "");
   }
   std::printf(
       "k: log periods per sample (a step spans the method's samples per step); input exact: "
@@ -739,8 +754,8 @@ bool write_svg(const Options& o, const StudyResult& r) {
               (slash == std::string::npos ? file : file.substr(slash + 1));
   fig.subtitle = "against the log's finest solution (" + std::string(r.reference_name) +
                  "), not truth; " + form_words(r.shape.form) + " log, " +
-                 text("%g s", static_cast<double>(r.shape.last_row) * r.shape.period_s) + " at " +
-                 text("%g Hz", 1.0 / r.shape.period_s);
+                 number_text("%g s", static_cast<double>(r.shape.last_row) * r.shape.period_s) +
+                 " at " + number_text("%g Hz", 1.0 / r.shape.period_s);
   svg::Chart error_chart;
   error_chart.title = "Max difference from the log's finest solution against step";
   error_chart.x_label = "step (s)";
@@ -752,9 +767,9 @@ bool write_svg(const Options& o, const StudyResult& r) {
   error_chart.has_reference = true;
   if (o.has_budget) {
     error_chart.reference_y = o.budget;
-    error_chart.reference_label =
-        "budget " + text("%.3e rad", o.budget) + " (over " + text("%g s", o.horizon) + ")";
-    fig.reference_key = "budget (" + text("%.3e rad", o.budget) + ")";
+    error_chart.reference_label = "budget " + number_text("%.3e rad", o.budget) + " (over " +
+                                  number_text("%g s", o.horizon) + ")";
+    fig.reference_key = "budget (" + number_text("%.3e rad", o.budget) + ")";
   } else {
     error_chart.reference_y = r.reference.high_rad;
     error_chart.reference_label = "reference's own error, upper end (Richardson)";
@@ -802,7 +817,7 @@ bool write_svg(const Options& o, const StudyResult& r) {
     if (o.horizon > 0) {
       fig.keys.push_back(
           {is_double ? svg::LineStyle::dashed : svg::LineStyle::dotted, svg::Marker::none,
-           scalar + ", extrapolated to " + text("%g s", o.horizon) + " (an extrapolation)"});
+           scalar + ", extrapolated to " + number_text("%g s", o.horizon) + " (an extrapolation)"});
     }
   }
   fig.charts.push_back(error_chart);

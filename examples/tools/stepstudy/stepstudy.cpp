@@ -32,6 +32,7 @@
 #include "log_study.hpp"
 #include "measure.hpp"
 #include "method_registry.hpp"
+#include "number_text.hpp"
 #include "options.hpp"
 #include "study_motions.hpp"
 #include "svg_chart.hpp"
@@ -87,15 +88,6 @@ const MethodInfo* find_method(const std::string& name) {
     }
   }
   return nullptr;
-}
-
-std::string format(const char* fmt, double v) {
-  std::array<char, 64> buffer{};
-  std::snprintf(buffer.data(), buffer.size(), fmt, v);
-  return buffer.data();
-}
-std::string sci(double v) {
-  return std::isfinite(v) ? format("%.3e", v) : (std::isnan(v) ? "-" : "inf");
 }
 
 std::vector<double> step_grid(double lo, double hi, int n) {
@@ -210,13 +202,13 @@ void print_table(const std::vector<Row>& rows, bool bounds_only, bool local_erro
               bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order", "ns/step",
               local_errors ? "  sum of local errors (rad)" : "");
   for (const Row& r : rows) {
-    const std::string order = std::isfinite(r.order) ? format("%.2f", r.order) : "-";
-    const std::string ns = std::isfinite(r.ns_per_step) ? format("%.1f", r.ns_per_step) : "-";
-    const std::string bound = r.bound_note.empty() ? sci(r.bound_rad) : r.bound_note;
-    const std::string local = local_errors ? "  " + sci(r.local_error_sum_rad) : "";
+    const std::string order = std::isfinite(r.order) ? number_text("%.2f", r.order) : "-";
+    const std::string ns = std::isfinite(r.ns_per_step) ? number_text("%.1f", r.ns_per_step) : "-";
+    const std::string bound = r.bound_note.empty() ? scientific_cell(r.bound_rad) : r.bound_note;
+    const std::string local = local_errors ? "  " + scientific_cell(r.local_error_sum_rad) : "";
     std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s%s\n", r.method.c_str(),
                 r.scalar.c_str(), r.step_s, static_cast<long long>(r.steps),
-                sci(r.max_error_rad).c_str(), bound.c_str(), order.c_str(), ns.c_str(),
+                scientific_cell(r.max_error_rad).c_str(), bound.c_str(), order.c_str(), ns.c_str(),
                 local.c_str());
   }
 }
@@ -228,9 +220,9 @@ bool write_csv(const std::string& path, const std::vector<Row>& rows, bool local
   }
   out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step"
       << (local_errors ? ",local_error_sum_rad\n" : "\n");
-  auto field = [](double v) { return std::isnan(v) ? std::string() : format("%.17g", v); };
+  auto field = [](double v) { return std::isnan(v) ? std::string() : number_text("%.17g", v); };
   for (const Row& r : rows) {
-    out << r.method << ',' << r.scalar << ',' << format("%.17g", r.step_s) << ','
+    out << r.method << ',' << r.scalar << ',' << number_text("%.17g", r.step_s) << ','
         << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step);
     if (local_errors) {
       out << ',' << field(r.local_error_sum_rad);
@@ -244,9 +236,10 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
                const std::vector<std::string>& methods, const std::vector<Row>& rows) {
   svg::Figure fig;
   fig.title = "halfspin step study: " + motion.name;
-  fig.subtitle = motion.summary +
-                 (o.bounds_only ? "; bounds over " + format("%g s", table_horizon(o))
-                                : "; errors and bounds over runs of " + format("%g s", o.duration));
+  fig.subtitle =
+      motion.summary +
+      (o.bounds_only ? "; bounds over " + number_text("%g s", table_horizon(o))
+                     : "; errors and bounds over runs of " + number_text("%g s", o.duration));
   svg::Chart error_chart;
   error_chart.title =
       o.bounds_only ? "Horizon bound against step" : "Max attitude error against step";
@@ -259,11 +252,13 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
   // Like with like: the chart's errors and bounds cover table_horizon(o); a budget for a longer
   // (or shorter) --horizon is drawn scaled to it, as if the error grew linearly, and says so.
   const double budget_scale = o.has_budget ? table_horizon(o) / o.horizon : 1.0;
-  const std::string budget_text =
-      budget_scale == 1.0
-          ? "budget " + format("%.3e rad", o.budget) + " over " + format("%g s", o.horizon)
-          : "budget x " + format("%g s", table_horizon(o)) + " / " + format("%g s", o.horizon) +
-                " = " + format("%.3e rad", o.budget * budget_scale) + " (linear growth assumed)";
+  const std::string budget_text = budget_scale == 1.0
+                                      ? "budget " + number_text("%.3e rad", o.budget) + " over " +
+                                            number_text("%g s", o.horizon)
+                                      : "budget x " + number_text("%g s", table_horizon(o)) +
+                                            " / " + number_text("%g s", o.horizon) + " = " +
+                                            number_text("%.3e rad", o.budget * budget_scale) +
+                                            " (linear growth assumed)";
   if (o.has_budget) {
     error_chart.has_reference = true;
     error_chart.reference_y = o.budget * budget_scale;
@@ -467,7 +462,7 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
     }
     std::printf("    %-30s %10.0f flop/s  step %.4e s  %s %s rad  %s\n", c.name,
                 static_cast<double>(c.cost_flops_per_s), static_cast<double>(c.step_s), figure,
-                sci(static_cast<double>(c.bound_rad)).c_str(), outcome_text(c.outcome));
+                scientific_cell(static_cast<double>(c.bound_rad)).c_str(), outcome_text(c.outcome));
   }
   std::printf("  largest step meeting the budget, per studied method (select_step):\n");
   for (const std::string& name : methods) {
@@ -623,7 +618,8 @@ int main(int argc, char** argv) {
         "  each run:    %g s (the table's errors and bounds cover the run%s); steps %.3e .. "
         "%.3e s (%d, log-spaced)\n",
         o.duration,
-        o.has_budget ? (", the recommendation --horizon " + format("%g s", o.horizon)).c_str() : "",
+        o.has_budget ? (", the recommendation --horizon " + number_text("%g s", o.horizon)).c_str()
+                     : "",
         step_min, step_max, o.steps);
   }
   std::printf(
@@ -644,7 +640,7 @@ int main(int argc, char** argv) {
       using S = typename decltype(tag)::type;
       for (const char* scalar : scalars) {
         for (const double dt : steps) {
-          progress.show(++done, name + " " + scalar + " step " + format("%.3e s", dt));
+          progress.show(++done, name + " " + scalar + " step " + number_text("%.3e s", dt));
           if (std::string(scalar) == "double") {
             rows.push_back(study_point<S, double, PlainAccumulation>(o, motion, dt, failed));
           } else if (o.compensated_float) {
@@ -710,9 +706,9 @@ int main(int argc, char** argv) {
         std::ofstream out(o.recommendation_file);
         out << "method=" << file_choice.method << '\n'
             << "form=" << (file_choice.delta ? "delta" : "rate") << '\n'
-            << "step_s=" << format("%.17g", file_choice.step_s) << '\n'
-            << "gyro_rate_hz=" << format("%.17g", o.gyro_rate) << '\n'
-            << "bound_rad=" << format("%.17g", file_choice.bound_rad) << '\n';
+            << "step_s=" << number_text("%.17g", file_choice.step_s) << '\n'
+            << "gyro_rate_hz=" << number_text("%.17g", o.gyro_rate) << '\n'
+            << "bound_rad=" << number_text("%.17g", file_choice.bound_rad) << '\n';
         if (!out.flush()) {
           std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n",
                        o.recommendation_file.c_str());

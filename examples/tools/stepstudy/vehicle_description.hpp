@@ -18,6 +18,7 @@
 
 #include "halfspin/bounds/motion_description.hpp"
 #include "halfspin/core/vector3.hpp"
+#include "number_text.hpp"
 #include "options.hpp"
 
 namespace halfspin::tools::stepstudy {
@@ -27,14 +28,9 @@ namespace detail {
 using tools::detail::as_vector;
 using tools::detail::degrees_per_radian;
 
-inline std::string printed(const char* fmt, double v) {
-  std::array<char, 64> buffer{};
-  std::snprintf(buffer.data(), buffer.size(), fmt, v);
-  return buffer.data();
-}
-
 inline std::string triple(const char* fmt, const Vector3<double>& v) {
-  return "(" + printed(fmt, v.x) + ", " + printed(fmt, v.y) + ", " + printed(fmt, v.z) + ")";
+  return "(" + number_text(fmt, v.x) + ", " + number_text(fmt, v.y) + ", " + number_text(fmt, v.z) +
+         ")";
 }
 
 // "rad/s", "rad/s^2", ...: the unit of D_k.
@@ -60,21 +56,21 @@ inline MotionDescription<double> vehicle_description(const Options& o, std::stri
       d.maneuver = o.has_axis_rates ? RateEnvelope<double>::from_axis_rates_and_bandwidth(
                                           detail::as_vector(o.axis_rates), o.bandwidth_hz)
                                     : RateEnvelope<double>::from_bandwidth(d0, o.bandwidth_hz);
-      parts.push_back(detail::printed("max rate %g rad/s", d0) +
-                      detail::printed(", bandwidth %g Hz", o.bandwidth_hz));
+      parts.push_back(number_text("max rate %g rad/s", d0) +
+                      number_text(", bandwidth %g Hz", o.bandwidth_hz));
     } else {
       d.maneuver = RateEnvelope<double>::from_derivatives(d0);
-      parts.push_back(detail::printed("max rate %g rad/s (D1.. unknown)", d0));
+      parts.push_back(number_text("max rate %g rad/s (D1.. unknown)", d0));
     }
   }
   for (const VibrationOption& v : o.vibration) {
     d.vibration.add(vibration_line(v));
-    parts.push_back(detail::printed("vibration %g Hz", v.frequency_hz));
+    parts.push_back(number_text("vibration %g Hz", v.frequency_hz));
   }
   if (o.has_coning) {
     d.coning = ConingSpec<double>{o.coning_deg / detail::degrees_per_radian, o.coning_hz};
-    parts.push_back(detail::printed("coning %g deg", o.coning_deg) +
-                    detail::printed(" at %g Hz", o.coning_hz));
+    parts.push_back(number_text("coning %g deg", o.coning_deg) +
+                    number_text(" at %g Hz", o.coning_hz));
   }
   summary.clear();
   for (const std::string& p : parts) {
@@ -87,7 +83,6 @@ inline MotionDescription<double> vehicle_description(const Options& o, std::stri
 // understood").
 inline void print_vehicle_description(const Options& o, const MotionDescription<double>& d) {
   using detail::derivative_unit;
-  using detail::printed;
   std::printf("Description as understood (bounds only):\n");
   const bool maneuver_given = !o.envelope.empty() || o.has_max_rate || o.has_axis_rates;
   if (!maneuver_given) {
@@ -103,7 +98,7 @@ inline void print_vehicle_description(const Options& o, const MotionDescription<
       origin = "from " + o.max_rate_option + ": D0 = max |w|";
     }
     if (o.has_bandwidth) {
-      origin += printed(", D_k = (2*pi*B)^k * D0 with B = %g Hz (Bernstein)", o.bandwidth_hz);
+      origin += number_text(", D_k = (2*pi*B)^k * D0 with B = %g Hz (Bernstein)", o.bandwidth_hz);
     }
     std::printf("  manoeuvre envelope (%s):\n", origin.c_str());
     for (std::size_t k = 0; k < 6; ++k) {
@@ -116,7 +111,7 @@ inline void print_vehicle_description(const Options& o, const MotionDescription<
       } else if (k == 0) {
         source = "given";
         if (o.max_rate_option == "--max-rate-deg" || o.max_rate_option == "--axis-rates-deg") {
-          source += printed(" (%g deg/s)", dk * detail::degrees_per_radian);
+          source += number_text(" (%g deg/s)", dk * detail::degrees_per_radian);
         }
       } else {
         source =
