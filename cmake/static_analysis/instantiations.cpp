@@ -59,6 +59,11 @@ T exercise(const Quaternion<T>& q, const Quaternion<T>& r, const Vector3<T>& v, 
   sink += norm(quaternion_from_scalar_last(to_scalar_last(q)));
   sink += norm(quaternion_from_su2_matrix(to_su2_matrix(q)));
 
+  const GyroNoiseTerms<T> gyro{v.x, v.y, v.z, q.w};
+  sink += sensor_attitude_error(gyro, r.w).combined_rad + sensor_fraction_budget(gyro, r.x, r.y) +
+          angle_random_walk_from_degrees_per_root_hour(v.x) + rate_from_degrees_per_hour(v.y) +
+          rate_random_walk_from_degrees_per_hour_root_hour(v.z);
+
   TwoSpeedAccumulator<T> accumulator(4);
   if (accumulator.add(v)) {
     sink += norm(two_speed_update(q, accumulator.take()));

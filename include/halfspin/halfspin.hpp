@@ -61,6 +61,7 @@
 #include "halfspin/bounds/recommendation.hpp"
 #include "halfspin/bounds/roundoff_floor.hpp"
 #include "halfspin/bounds/runge_kutta_bounds.hpp"
+#include "halfspin/bounds/sensor_error.hpp"
 #include "halfspin/bounds/step_selection.hpp"
 
 // truth

@@ -31,6 +31,7 @@
 #include "halfspin/bounds/step_selection.hpp"
 #include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/stepper_traits.hpp"
+#include "interval_budget.hpp"
 #include "method_registry.hpp"
 
 namespace halfspin::tools::stepstudy {
@@ -78,12 +79,13 @@ struct LongestFixes {
 
 template <class T, class Accumulation, class... S>
 LongestFixes<T> longest_fixes(StepperList<S...> /*list*/, const MotionDescription<T>& d,
-                              T budget_rad, T sample_rate_hz) {
+                              const IntervalBudget& budget, double longest_s, T sample_rate_hz) {
   LongestFixes<T> best;
   auto consider = [&](auto tag) {
     using St = typename decltype(tag)::type;
     const T dt = static_cast<T>(periods_per_step(St::layout, St::window)) / sample_rate_hz;
-    const FixInterval<T> f = longest_fix_interval<St, T, Accumulation>(d, dt, budget_rad);
+    const FixInterval<T> f =
+        longest_fix_interval_within<St, T, Accumulation>(d, dt, budget, longest_s);
     const bool usable =
         f.status == FixIntervalStatus::ok || f.status == FixIntervalStatus::unbounded;
     if (usable && (!best.found || f.interval_s > best.interval.interval_s)) {
@@ -146,7 +148,7 @@ void print_slowest_gyro(const std::string& label, List list,
 // The whole advice, for scalar T with Accumulation, printed when nothing meets the budget.
 template <class T, class Accumulation, class List>
 void print_what_would_meet(List list, const MotionDescription<double>& d_double, double budget_rad,
-                           double horizon_s, double gyro_hz) {
+                           double horizon_s, double gyro_hz, const IntervalBudget& fix_budget) {
   const MotionDescription<T> d = d_double.converted<T>();
   const char* scalar = std::is_same<T, float>::value ? "float" : "double";
   const LeastBound<T> best =
@@ -177,7 +179,8 @@ void print_what_would_meet(List list, const MotionDescription<double>& d_double,
       const bool plain = std::is_same<Accumulation, PlainAccumulation>::value;
       std::printf(
           "    the limit is %s's rounding: alone it exceeds the budget. It grows with the %s, so\n"
-          "    a faster gyro %s; double%s or a shorter time between fixes reduce it\n",
+          "    a faster gyro %s for this method (another method, with its own rounding terms, may\n"
+          "    still meet it, below); double%s or a shorter time between fixes reduce it\n",
           scalar, plain ? "number of steps" : "angle traversed",
           plain ? "makes it worse" : "does not help",
           plain && std::is_same<T, float>::value ? ", the compensated accumulation" : "");
@@ -204,12 +207,13 @@ void print_what_would_meet(List list, const MotionDescription<double>& d_double,
                                                   gyro_hz);
   }
   const LongestFixes<T> fixes =
-      longest_fixes<T, Accumulation>(list, d, static_cast<T>(budget_rad), static_cast<T>(gyro_hz));
+      longest_fixes<T, Accumulation>(list, d, fix_budget, horizon_s, static_cast<T>(gyro_hz));
   if (fixes.found) {
     std::printf(
         "    external attitude fixes at %g Hz gyro, %s: at most %.4g s apart (%s; "
-        "longest_fix_interval)\n",
-        gyro_hz, scalar, static_cast<double>(fixes.interval.interval_s), fixes.name.c_str());
+        "longest_fix_interval%s)\n",
+        gyro_hz, scalar, static_cast<double>(fixes.interval.interval_s), fixes.name.c_str(),
+        fix_budget.has_sensor ? ", the criterion over that interval" : "");
   } else {
     std::printf(
         "    external attitude fixes at %g Hz gyro, %s: none helps (one step's bound alone "

@@ -31,6 +31,7 @@
 #include "log_runs.hpp"
 #include "method_registry.hpp"
 #include "number_text.hpp"
+#include "sensor_report.hpp"
 #include "svg_chart.hpp"
 
 namespace halfspin::tools::stepstudy {
@@ -692,10 +693,11 @@ void print_table(const Options& o, const StudyResult& r) {
 
 void print_budget(const Options& o, const StudyResult& r) {
   std::printf(
-      "\nBudget %.3e rad over %g s, against the extrapolations above (linear growth; an "
+      "\nBudget %.3e rad over %g s%s, against the extrapolations above (linear growth; an "
       "extrapolation\nfrom %g s of log, not a bound): the largest step meeting it, per method "
       "and scalar:\n",
-      o.budget, o.horizon, static_cast<double>(r.shape.last_row) * r.shape.period_s);
+      o.budget, o.horizon, budget_origin(o).c_str(),
+      static_cast<double>(r.shape.last_row) * r.shape.period_s);
   for (std::size_t i = 0; i < r.runs.size(); ++i) {
     const MethodRun& m = r.runs[i];
     const bool last_of_group = i + 1 == r.runs.size() || r.runs[i + 1].method != m.method ||
@@ -902,6 +904,7 @@ int run_log_study(const Options& o) {
     return result.failure_code;
   }
   std::printf("\n");
+  print_sensor_errors(o);
   print_reference(o, result);
   print_table(o, result);
   if (o.has_budget) {

@@ -10,6 +10,7 @@
 #include <string_view>
 #include <vector>
 
+#include "halfspin/bounds/sensor_error.hpp"
 #include "log_options.hpp"
 #include "method_registry.hpp"
 #include "motion_options.hpp"
@@ -69,6 +70,17 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   std::string recommendation_file;
   bool fixes = false;         // --fixes: longest time between external attitude fixes per method
   bool local_errors = false;  // --local-errors: also sum each step's own error (truth runs)
+
+  // The gyro's noise terms (SI; the *-deg options convert datasheet units) and the criterion
+  // they give: the integration error at most sensor_fraction of the sensor-driven error over
+  // --horizon. With --budget too, `budget` is the stricter of the two and `absolute_budget` the
+  // one given; with the terms alone, `budget` is the criterion's.
+  bool has_sensor = false;
+  GyroNoiseTerms<double> sensor{};
+  double sensor_fraction = 0.1;
+  bool has_absolute_budget = false;
+  double absolute_budget = 0;  // rad, --budget as given
+  double sensor_budget = 0;    // rad, sensor_fraction x the combined sensor error over --horizon
 
   LogStudyOptions log;  // --log, --log-truth: a gyro log studied without truth
 };
@@ -263,6 +275,27 @@ inline const char* help_text() {
          "whether that\n"
          "                       covers --horizon\n"
          "\n"
+         "Sensor errors (the integration error only has to be small beside the gyro's own):\n"
+         "  --angle-random-walk N        rad/sqrt(s) (--angle-random-walk-deg: deg/sqrt(h))\n"
+         "  --bias-instability B         rad/s (--bias-instability-deg: deg/h)\n"
+         "  --rate-random-walk K         rad/s/sqrt(s) (--rate-random-walk-deg: deg/h/sqrt(h))\n"
+         "  --residual-bias b            rad/s left after calibration (--residual-bias-deg: "
+         "deg/h)\n"
+         "                       the gyro's noise terms, per axis, as a datasheet or\n"
+         "                       halfspin-gyro-noise (the Allan deviation of a static log) gives\n"
+         "                       them; each needs --horizon. Printed: the attitude error each\n"
+         "                       causes over --horizon, per axis: N*sqrt(t) and K*t^1.5/sqrt(3)\n"
+         "                       (1 sigma), B*t (the trade's rule for the bias wander), |b|*t, "
+         "and\n"
+         "                       their root-sum-square (include/halfspin/bounds/sensor_error.hpp "
+         "has\n"
+         "                       the derivations and sources). The table gains bound/sensor: each\n"
+         "                       bound over the sensor error over the same time.\n"
+         "  --sensor-fraction F  the criterion: the integration error at most F (default 0.1) of\n"
+         "                       the combined sensor error over --horizon. It is the budget when\n"
+         "                       --budget is not given, else the stricter of the two is; the\n"
+         "                       recommendation, the largest steps and the advice use it, and\n"
+         "                       --fixes applies it over each interval between fixes.\n"
          "\n"
          "Log study (your own gyro log, without truth):\n"
          "  --log FILE           study FILE instead of a truth motion: a gyro log, its form read "
@@ -366,6 +399,63 @@ namespace detail {
 using tools::detail::parse_number;
 using tools::detail::parse_triple;
 using tools::detail::split;
+
+}  // namespace detail
+
+namespace detail {
+
+// One of the noise-term options: its value (finite; not negative except the residual bias), in
+// SI or, for the *-deg spelling, in the datasheet unit, stored in SI.
+template <class Value>
+bool sensor_term(const std::string& a, const Value& value, Options& o, std::string& error) {
+  std::string v;
+  double x = 0;
+  if (!value(v)) {
+    return false;
+  }
+  const bool signed_term = a.rfind("--residual-bias", 0) == 0;
+  if (!parse_number(v, x) || (!signed_term && x < 0)) {
+    error = a + ": '" + v + "' is not a " + (signed_term ? "" : "non-negative ") + "finite number";
+    return false;
+  }
+  const bool datasheet = a.size() > 4 && a.compare(a.size() - 4, 4, "-deg") == 0;
+  if (a.rfind("--angle-random-walk", 0) == 0) {
+    o.sensor.angle_random_walk = datasheet ? angle_random_walk_from_degrees_per_root_hour(x) : x;
+  } else if (a.rfind("--bias-instability", 0) == 0) {
+    o.sensor.bias_instability = datasheet ? rate_from_degrees_per_hour(x) : x;
+  } else if (a.rfind("--rate-random-walk", 0) == 0) {
+    o.sensor.rate_random_walk = datasheet ? rate_random_walk_from_degrees_per_hour_root_hour(x) : x;
+  } else {
+    o.sensor.residual_bias = datasheet ? rate_from_degrees_per_hour(x) : x;
+  }
+  o.has_sensor = true;
+  return true;
+}
+
+// With noise terms: the criterion over --horizon, and the budget the study uses (the stricter of
+// it and --budget).
+inline bool apply_sensor_criterion(Options& o, bool have_horizon, std::string& error) {
+  o.has_absolute_budget = o.has_budget;
+  o.absolute_budget = o.budget;
+  if (!o.has_sensor) {
+    return true;
+  }
+  if (!have_horizon) {
+    error = "the gyro's noise terms need --horizon (the time over which the sensor error grows)";
+    return false;
+  }
+  o.sensor_budget = sensor_fraction_budget(o.sensor, o.horizon, o.sensor_fraction);
+  if (!(o.sensor_budget > 0)) {
+    if (!o.has_budget) {
+      error = "the gyro's noise terms are all zero: they set no criterion (give --budget)";
+      return false;
+    }
+    return true;
+  }
+  o.budget = o.has_budget ? std::fmin(o.budget, o.sensor_budget) : o.sensor_budget;
+  o.has_budget = true;
+  return true;
+}
 
 }  // namespace detail
 
@@ -599,6 +689,23 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
         return false;
       }
       have_horizon = true;
+    } else if (a == "--angle-random-walk" || a == "--angle-random-walk-deg" ||
+               a == "--bias-instability" || a == "--bias-instability-deg" ||
+               a == "--rate-random-walk" || a == "--rate-random-walk-deg" ||
+               a == "--residual-bias" || a == "--residual-bias-deg") {
+      if (!detail::sensor_term(a, value, o, error)) {
+        return false;
+      }
+    } else if (a == "--sensor-fraction") {
+      if (!positive(o.sensor_fraction)) {
+        return false;
+      }
+      if (o.sensor_fraction > 1) {
+        error =
+            "--sensor-fraction: at most 1 (the integration error as a fraction of the "
+            "sensor's)";
+        return false;
+      }
     } else if (a == "--gyro-rate") {
       if (!positive(o.gyro_rate)) {
         return false;
@@ -611,6 +718,9 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       error = "unknown argument '" + a + "'";
       return false;
     }
+  }
+  if (!detail::apply_sensor_criterion(o, have_horizon, error)) {
+    return false;
   }
   if (!o.log.file.empty() || !o.log.truth.empty()) {
     return check_log_options(o, step_given, have_horizon, error);

@@ -34,6 +34,7 @@
 #include "method_registry.hpp"
 #include "number_text.hpp"
 #include "options.hpp"
+#include "sensor_report.hpp"
 #include "study_motions.hpp"
 #include "svg_chart.hpp"
 #include "vehicle_description.hpp"
@@ -197,35 +198,48 @@ void fill_orders(std::vector<Row>& rows) {
   }
 }
 
-void print_table(const std::vector<Row>& rows, bool bounds_only, bool local_errors) {
-  std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s%s\n", "method", "scalar", "step (s)",
-              bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order", "ns/step",
-              local_errors ? "  sum of local errors (rad)" : "");
+// The table; with noise terms, each bound as a fraction of the sensor-driven error over the same
+// horizon (the criterion's view: at most --sensor-fraction meets it).
+void print_table(const std::vector<Row>& rows, const Options& o) {
+  const double sensor = sensor_error_over(o, table_horizon(o));
+  std::printf("%-34s %-6s %10s %10s %11s %14s %6s %10s%s%s\n", "method", "scalar", "step (s)",
+              o.bounds_only ? "steps" : "steps run", "max err rad", "bound (rad)", "order",
+              "ns/step", o.has_sensor ? "  bound/sensor" : "",
+              o.local_errors ? "  sum of local errors (rad)" : "");
   for (const Row& r : rows) {
     const std::string order = std::isfinite(r.order) ? number_text("%.2f", r.order) : "-";
     const std::string ns = std::isfinite(r.ns_per_step) ? number_text("%.1f", r.ns_per_step) : "-";
     const std::string bound = r.bound_note.empty() ? scientific_cell(r.bound_rad) : r.bound_note;
-    const std::string local = local_errors ? "  " + scientific_cell(r.local_error_sum_rad) : "";
-    std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s%s\n", r.method.c_str(),
+    const std::string fraction =
+        o.has_sensor
+            ? number_text("  %12.3g", r.bound_note.empty() ? r.bound_rad / sensor : std::nan(""))
+            : "";
+    const std::string local = o.local_errors ? "  " + scientific_cell(r.local_error_sum_rad) : "";
+    std::printf("%-34s %-6s %10.3e %10lld %11s %14s %6s %10s%s%s\n", r.method.c_str(),
                 r.scalar.c_str(), r.step_s, static_cast<long long>(r.steps),
                 scientific_cell(r.max_error_rad).c_str(), bound.c_str(), order.c_str(), ns.c_str(),
-                local.c_str());
+                fraction.c_str(), local.c_str());
   }
 }
 
-bool write_csv(const std::string& path, const std::vector<Row>& rows, bool local_errors) {
+bool write_csv(const std::string& path, const std::vector<Row>& rows, const Options& o) {
   std::ofstream out(path);
   if (!out) {
     return false;
   }
   out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step"
-      << (local_errors ? ",local_error_sum_rad\n" : "\n");
+      << (o.local_errors ? ",local_error_sum_rad" : "") << (o.has_sensor ? ",sensor_error_rad" : "")
+      << '\n';
   auto field = [](double v) { return std::isnan(v) ? std::string() : number_text("%.17g", v); };
+  const double sensor = sensor_error_over(o, table_horizon(o));
   for (const Row& r : rows) {
     out << r.method << ',' << r.scalar << ',' << number_text("%.17g", r.step_s) << ','
         << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step);
-    if (local_errors) {
+    if (o.local_errors) {
       out << ',' << field(r.local_error_sum_rad);
+    }
+    if (o.has_sensor) {
+      out << ',' << field(sensor);
     }
     out << '\n';
   }
@@ -252,13 +266,14 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
   // Like with like: the chart's errors and bounds cover table_horizon(o); a budget for a longer
   // (or shorter) --horizon is drawn scaled to it, as if the error grew linearly, and says so.
   const double budget_scale = o.has_budget ? table_horizon(o) / o.horizon : 1.0;
-  const std::string budget_text = budget_scale == 1.0
-                                      ? "budget " + number_text("%.3e rad", o.budget) + " over " +
-                                            number_text("%g s", o.horizon)
-                                      : "budget x " + number_text("%g s", table_horizon(o)) +
-                                            " / " + number_text("%g s", o.horizon) + " = " +
-                                            number_text("%.3e rad", o.budget * budget_scale) +
-                                            " (linear growth assumed)";
+  const std::string budget_text =
+      (budget_scale == 1.0
+           ? "budget " + number_text("%.3e rad", o.budget) + " over " +
+                 number_text("%g s", o.horizon)
+           : "budget x " + number_text("%g s", table_horizon(o)) + " / " +
+                 number_text("%g s", o.horizon) + " = " +
+                 number_text("%.3e rad", o.budget * budget_scale) + " (linear growth assumed)") +
+      budget_origin(o);
   if (o.has_budget) {
     error_chart.has_reference = true;
     error_chart.reference_y = o.budget * budget_scale;
@@ -358,14 +373,17 @@ void print_fix_intervals(const Options& o, const MotionDescription<T>& d,
                          const std::vector<std::string>& methods) {
   std::printf(
       "  longest time between external attitude fixes meeting the budget, per studied method at\n"
-      "  the step the %g Hz gyro gives it (longest_fix_interval; --horizon %g s asked):\n",
-      o.gyro_rate, o.horizon);
+      "  the step the %g Hz gyro gives it (longest_fix_interval; --horizon %g s asked)%s:\n",
+      o.gyro_rate, o.horizon,
+      interval_budget(o).has_sensor
+          ? ";\n  with the sensor criterion over each interval itself, searched up to --horizon"
+          : "");
   for (const std::string& name : methods) {
     visit_method(name, [&](auto tag) {
       using S = typename decltype(tag)::type;
       const T dt = gyro_step<S, T>(o);
       const FixInterval<T> f =
-          longest_fix_interval<S, T, Accumulation>(d, dt, static_cast<T>(o.budget));
+          longest_fix_interval_within<S, T, Accumulation>(d, dt, interval_budget(o), o.horizon);
       const double step = static_cast<double>(dt);
       switch (f.status) {
         case FixIntervalStatus::ok:
@@ -420,9 +438,10 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
       recommend_stepper<T, Accumulation>(SampleDrivenList{}, d, static_cast<T>(o.budget),
                                          static_cast<T>(o.horizon), static_cast<T>(o.gyro_rate));
   std::printf(
-      "\nRecommendation in %s, %s accumulation: budget %.3e rad (%.4f deg) over %g s, gyro %g "
+      "\nRecommendation in %s, %s accumulation: budget %.3e rad (%.4f deg) over %g s%s, gyro %g "
       "Hz\n",
-      scalar, Accumulation::name, o.budget, o.budget / degree, o.horizon, o.gyro_rate);
+      scalar, Accumulation::name, o.budget, o.budget / degree, o.horizon, budget_origin(o).c_str(),
+      o.gyro_rate);
   Chosen chosen;
   auto candidates = r.candidates;
   std::stable_sort(candidates.begin(), candidates.end(), [](const auto& a, const auto& b) {
@@ -502,7 +521,7 @@ Chosen recommend(const Options& o, const StudyMotion& motion,
   }
   if (!r.found) {
     print_what_would_meet<T, Accumulation>(SampleDrivenList{}, motion.description, o.budget,
-                                           o.horizon, o.gyro_rate);
+                                           o.horizon, o.gyro_rate, interval_budget(o));
   }
   return chosen;
 }
@@ -630,6 +649,7 @@ int main(int argc, char** argv) {
   if (o.bounds_only) {
     print_vehicle_description(o, motion.description);
   }
+  print_sensor_errors(o);
 
   std::vector<Row> rows;
   Progress progress(methods.size() * scalars.size() * steps.size());
@@ -657,13 +677,20 @@ int main(int argc, char** argv) {
   std::printf(
       o.bounds_only ? "Bounds over %g s:\n" : "Max errors and bounds over each run of %g s:\n",
       table_horizon(o));
-  print_table(rows, o.bounds_only, o.local_errors);
+  print_table(rows, o);
+  if (o.has_sensor) {
+    std::printf(
+        "bound/sensor: each bound over %g s divided by the sensor-driven error over the same %g s\n"
+        "(%.3e rad, combined as above); the criterion asks at most %g over --horizon.\n",
+        table_horizon(o), table_horizon(o), sensor_error_over(o, table_horizon(o)),
+        o.sensor_fraction);
+  }
   if (failed) {
     std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");
   }
 
   int status = failed ? exit_failure : exit_ok;
-  if (!o.csv.empty() && !write_csv(o.csv, rows, o.local_errors)) {
+  if (!o.csv.empty() && !write_csv(o.csv, rows, o)) {
     std::fprintf(stderr, "halfspin-stepstudy: cannot write %s\n", o.csv.c_str());
     status = exit_failure;
   }

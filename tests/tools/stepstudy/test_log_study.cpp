@@ -414,6 +414,25 @@ TEST_CASE("log study: --budget lists the largest step whose extrapolation meets 
   CHECK(has_line(r.out, "coning_2_sample", "double step"));
 }
 
+TEST_CASE("log study: the sensor criterion sets the budget the extrapolations are held to",
+          "[tools]") {
+  // An invented gyro: 0.5 deg/sqrt(h) angle random walk alone. Over 60 s its error is
+  // N*sqrt(60) (sensor_error.hpp; IEEE Std 952-1997 Annex C's angle random walk), and 10 % of it
+  // is the budget (common practice, no source: 1 deg/sqrt(h) = pi/180/60 rad/sqrt(s)).
+  const MadeLog m = make_log("coning", "delta");
+  const Outcome r = study({"--log", m.log, "--methods", "coning_2_sample", "--scalar", "double",
+                           "--angle-random-walk-deg", "0.5", "--horizon", "60"},
+                          "sensor_budget");
+  INFO(r.out << r.err);
+  REQUIRE(r.code == 0);
+  const double budget = 0.1 * 0.5 * std::acos(-1.0) / 180 / 60 * std::sqrt(60.0);
+  char expected[96];
+  std::snprintf(expected, sizeof expected, "Budget %.3e rad over 60 s (10 %% of the sensor-driven",
+                budget);
+  CHECK(r.out.find(expected) != std::string::npos);
+  CHECK(r.out.find("Sensor-driven attitude error over --horizon 60 s") != std::string::npos);
+}
+
 // xmllint (Debian libxml2-utils) parses the chart; its subtitle says what the errors are against.
 TEST_CASE("log study: the SVG is well-formed and marked as not against truth", "[tools]") {
   const MadeLog m = make_log("coning", "rate");

@@ -24,6 +24,7 @@
 #include "halfspin/bounds/bound_report.hpp"
 #include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/bounds/sensor_error.hpp"
 #include "halfspin/propagation/compensated_accumulation.hpp"
 #include "halfspin/propagation/stepper_catalogue.hpp"
 
@@ -1183,4 +1184,172 @@ TEST_CASE("nothing meets the budget: the limiting term, and alternatives that do
                                     " --scalar float --gyro-rate 2000 --methods " + method,
                                 "advice_fixes");
   CHECK(fixed.out.find("  recommended: ") != std::string::npos);
+}
+
+TEST_CASE("the gyro's own error beside the integration error, and the fraction criterion",
+          "[tools]") {
+  // A gyro with datasheet figures of our own invention: angle random walk 0.25 deg/sqrt(h),
+  // bias instability 3.5 deg/h, rate random walk 9 deg/h/sqrt(h), residual bias 2 deg/h after
+  // calibration; a vehicle to 2 rad/s at 3 Hz; 10 minutes between fixes.
+  const std::string gyro =
+      "--angle-random-walk-deg 0.25 --bias-instability-deg 3.5 --rate-random-walk-deg 9 "
+      "--residual-bias-deg -2 ";
+  const std::string vehicle =
+      "--max-rate 2 --bandwidth 3 --gyro-rate 1000 --horizon 600 "
+      "--methods coning_2_sample,runge_kutta_4_sampled ";
+  const std::string csv = path("sensor.csv");
+  const Result r = run_tool(gyro + vehicle + "--csv '" + csv + "'", "sensor");
+  REQUIRE(r.exit_code == 0);
+  INFO(r.out);
+  // The terms, converted from datasheet units (common practice, no source: 1 deg = pi/180 rad,
+  // 1 h = 3600 s, sqrt(h) = 60 sqrt(s)), and the error each causes over 600 s (IEEE Std 952-1997
+  // Annex C's terms; the formulas in include/halfspin/bounds/sensor_error.hpp, derived and
+  // checked there): N sqrt(t), K t^1.5/sqrt(3), B t, |b| t, root-sum-square.
+  const double deg = std::acos(-1.0) / 180;
+  const double t = 600;
+  const double n = 0.25 * deg / 60, b_i = 3.5 * deg / 3600, k = 9 * deg / 3600 / 60,
+               b = 2 * deg / 3600;
+  const double arw = n * std::sqrt(t), rrw = k * std::pow(t, 1.5) / std::sqrt(3.0), bi = b_i * t,
+               bias = b * t;
+  CHECK(number_after(r.out, "angle random walk N", "N ") == Approx(n).epsilon(1e-3));
+  CHECK(number_after(r.out, "angle random walk N", "N*sqrt(t)") == Approx(arw).epsilon(1e-3));
+  CHECK(number_after(r.out, "rate random walk K", "K*t^1.5/sqrt(3)") == Approx(rrw).epsilon(1e-3));
+  CHECK(number_after(r.out, "bias instability B", "B*t") == Approx(bi).epsilon(1e-3));
+  CHECK(number_after(r.out, "residual bias b", "|b|*t") == Approx(bias).epsilon(1e-3));
+  const double combined = std::sqrt(arw * arw + rrw * rrw + bi * bi + bias * bias);
+  CHECK(number_after(r.out, "combined (root-sum-square)", "square)") ==
+        Approx(combined).epsilon(1e-3));
+  // The criterion: 10 % of it is the budget, and the recommendation meets it.
+  const double criterion = number_after(r.out, "criterion: the integration error", "): ");
+  CHECK(criterion == Approx(0.1 * combined).epsilon(1e-3));
+  CHECK(r.out.find("the study's budget: the criterion's") != std::string::npos);
+  CHECK(r.out.find("over 600 s (10 % of the sensor-driven error)") != std::string::npos);
+  const double recommended = number_after(r.out, "  recommended: ", "bound ");
+  REQUIRE(std::isfinite(recommended));
+  CHECK(recommended <= criterion * (1 + 1e-3));
+  // Side by side: each bound over 600 s as a fraction of the sensor error over the same 600 s,
+  // in the table and (the sensor figure) in the CSV.
+  CHECK(r.out.find("bound/sensor") != std::string::npos);
+  const std::vector<std::string> lines = lines_of(read_file(csv));
+  REQUIRE(lines.size() > 1);
+  CHECK(lines[0] == std::string(csv_header) + ",sensor_error_rad");
+  for (std::size_t i = 1; i < lines.size(); ++i) {
+    const std::vector<std::string> f = split(lines[i], ',');
+    REQUIRE(f.size() == 7u);
+    CHECK(std::stod(f[6]) == Approx(combined).epsilon(1e-12));
+  }
+  // The criterion acts exactly as an absolute budget of the same size: the same choice.
+  const Result same = run_tool(vehicle + "--budget " + std::to_string(criterion), "sensor_same");
+  REQUIRE(same.exit_code == 0);
+  CHECK(word_after(same.out, "  recommended: ", "recommended: ") ==
+        word_after(r.out, "  recommended: ", "recommended: "));
+  // With --budget too, the stricter one is used and the output says which.
+  const Result tight = run_tool(gyro + vehicle + "--budget 1e-4", "sensor_tight");
+  REQUIRE(tight.exit_code == 0);
+  CHECK(tight.out.find("(--budget, stricter than 10 % of the sensor-driven error)") !=
+        std::string::npos);
+  CHECK(number_after(tight.out, "Recommendation in double", "budget ") == Approx(1e-4));
+  const Result loose = run_tool(gyro + vehicle + "--budget 1", "sensor_loose");
+  REQUIRE(loose.exit_code == 0);
+  CHECK(loose.out.find("(10 % of the sensor-driven error, stricter than --budget)") !=
+        std::string::npos);
+  CHECK(number_after(loose.out, "Recommendation in double", "budget ") ==
+        Approx(criterion).epsilon(1e-3));
+  // Another fraction scales the criterion.
+  const Result half = run_tool(gyro + vehicle + "--sensor-fraction 0.5", "sensor_half");
+  REQUIRE(half.exit_code == 0);
+  CHECK(number_after(half.out, "criterion: the integration error", "): ") ==
+        Approx(5 * criterion).epsilon(1e-3));
+}
+
+TEST_CASE("noise-term options: bad values and missing companions exit 1 with a message",
+          "[tools]") {
+  const std::string base = "--max-rate 2 --bandwidth 3 ";
+  const std::vector<std::pair<std::string, std::string>> cases{
+      {"--angle-random-walk 1e-4", "need --horizon"},
+      {"--angle-random-walk -1e-4 --horizon 60", "non-negative"},
+      {"--rate-random-walk-deg nan --horizon 60", "finite"},
+      {"--angle-random-walk 1e-4 --horizon 60 --sensor-fraction 2", "at most 1"},
+      {"--angle-random-walk 0 --horizon 60", "all zero"},
+  };
+  for (const auto& c : cases) {
+    const Result r = run_tool(base + c.first, "sensor_bad");
+    INFO(c.first << "\n" << r.err);
+    CHECK(r.exit_code == 1);
+    CHECK(r.err.find(c.second) != std::string::npos);
+  }
+  // A negative residual bias is a bias like any other; zero terms with --budget run.
+  CHECK(run_tool(base + "--residual-bias -1e-5 --horizon 60", "sensor_signed").exit_code == 0);
+  CHECK(run_tool(base + "--angle-random-walk 0 --horizon 60 --budget 1e-3", "sensor_zero")
+            .exit_code == 0);
+}
+
+template <class Stepper, class T, class Accumulation>
+void check_sensor_fix_interval(const std::string& out, std::size_t from, double horizon_s,
+                               const halfspin::GyroNoiseTerms<double>& gyro) {
+  const auto d = worked_example().template converted<T>();
+  const T dt = static_cast<T>(halfspin::periods_per_step(Stepper::layout, Stepper::window)) /
+               static_cast<T>(2000.0);
+  const auto criterion = [&](long long k) {
+    return 0.1 *
+           halfspin::sensor_attitude_error(gyro, static_cast<double>(k) * static_cast<double>(dt))
+               .combined_rad;
+  };
+  const auto bound = [&](long long k) {
+    return static_cast<double>(
+        halfspin::error_bound_after_steps<Stepper, T, Accumulation>(d, dt, k));
+  };
+  INFO(Stepper::name << " in " << (sizeof(T) == 4 ? "float" : "double"));
+  const auto printed = printed_fix_interval(out, Stepper::name, from);
+  const long long k = printed.second;
+  const auto last = static_cast<long long>(std::floor(horizon_s / static_cast<double>(dt)));
+  REQUIRE(k >= 1);
+  REQUIRE(k <= last);
+  // It meets the criterion over itself, and no longer interval up to the horizon does: the
+  // search is checked by scanning every longer count (k + 1 .. the horizon's count).
+  CHECK(bound(k) <= criterion(k));
+  long long longer_meeting = 0;
+  for (long long j = k + 1; j <= last; ++j) {
+    if (bound(j) <= criterion(j)) {
+      longer_meeting = j;
+      break;
+    }
+  }
+  CHECK(longer_meeting == 0);
+}
+
+TEST_CASE("fix intervals under the sensor criterion meet it over themselves, and are the longest",
+          "[tools]") {
+  // The worked example's vehicle (README), a 2 kHz gyro with invented datasheet figures, and
+  // --horizon 60 s between fixes. With the criterion the budget shrinks with the interval (the
+  // sensor error grows as sqrt(t) .. t^1.5), so the longest interval is no longer
+  // longest_fix_interval at the horizon's budget: each printed interval is checked against the
+  // library's bound (error_bound_after_steps) and the criterion (sensor_error.hpp) at every count.
+  const halfspin::GyroNoiseTerms<double> gyro{
+      halfspin::angle_random_walk_from_degrees_per_root_hour(0.25), 0,
+      halfspin::rate_random_walk_from_degrees_per_hour_root_hour(9.0), 0};
+  const Result r = run_tool(
+      "--max-rate 3 --bandwidth 5 --vibration 120:0,0,0.01:rad --horizon 60 --gyro-rate 2000 "
+      "--angle-random-walk-deg 0.25 --rate-random-walk-deg 9 --fixes "
+      "--methods coning_2_sample,magnus_4",
+      "sensor_fixes");
+  INFO(r.out << r.err);
+  REQUIRE(r.exit_code == 0);
+  CHECK(r.out.find("with the sensor criterion over each interval itself") != std::string::npos);
+  const std::size_t in_float = r.out.find("Recommendation in float, compensated");
+  const std::size_t in_double = r.out.find("Recommendation in double, plain");
+  REQUIRE(in_float != std::string::npos);
+  REQUIRE(in_double != std::string::npos);
+  check_sensor_fix_interval<halfspin::Coning2Sample, float, halfspin::CompensatedAccumulation>(
+      r.out, in_float, 60, gyro);
+  // Magnus 4's first step alone is over the criterion for one step (2 kHz: dt = 1 ms).
+  const auto d = worked_example().converted<float>();
+  const double one_step =
+      halfspin::error_bound_after_steps<halfspin::Magnus4, float,
+                                        halfspin::CompensatedAccumulation>(d, 1e-3F, 1);
+  CHECK(one_step > 0.1 * halfspin::sensor_attitude_error(gyro, 1e-3).combined_rad);
+  CHECK(r.out.find("magnus_4                           step 1.0000e-03 s: no time between fixes",
+                   in_float) < in_double);
+  check_sensor_fix_interval<halfspin::Coning2Sample, double, halfspin::PlainAccumulation>(
+      r.out, in_double, 60, gyro);
 }
