@@ -1,11 +1,13 @@
 #pragma once
-// A small hand-written SVG writer for log–log charts (halfspin-stepstudy's figure). No library:
-// the document is plain SVG 1.1 text, UTF-8, one <svg> with the charts stacked vertically and one
-// legend column on the right shared by all charts.
+// A small hand-written SVG writer for log–log charts (halfspin-stepstudy's and
+// halfspin-gyro-noise's figures). No library: the document is plain SVG 1.1 text, UTF-8, one <svg>
+// with the charts stacked vertically and one legend column on the right shared by all charts.
 //
 //   Figure { title, subtitle, charts, legend (one colour per entry), keys (line/marker styles) }
 //   Chart  { title, axis labels with units, series, optional horizontal reference line }
-//   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y) }
+//   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y),
+//            optional vertical bars (low, high) per point }
+//   ChartLabel { text at data coordinates, in a series colour } (Chart::labels)
 //
 // Both axes are logarithmic: points with a non-positive or non-finite coordinate cannot be drawn
 // and are left out (render() counts them in the chart's note). Axis ranges are whole decades
@@ -36,6 +38,17 @@ struct Series {
   LineStyle line = LineStyle::solid;
   Marker marker = Marker::none;
   std::vector<std::pair<double, double>> points;  // (x, y), drawn in this order
+  // Optional vertical bars, one (low, high) per point (a confidence interval): empty for none.
+  std::vector<std::pair<double, double>> bars;
+};
+
+// A text placed at data coordinates (x, y) inside a chart, in a series colour.
+struct ChartLabel {
+  double x = 0;
+  double y = 0;
+  std::string text;
+  std::size_t colour = 0;
+  bool below = false;  // under the point (else above it)
 };
 
 struct Chart {
@@ -46,6 +59,7 @@ struct Chart {
   bool has_reference = false;  // a horizontal line at y = reference_y
   double reference_y = 0;
   std::string reference_label;
+  std::vector<ChartLabel> labels;
 };
 
 struct LegendEntry {
@@ -236,7 +250,8 @@ inline std::string render(const Figure& figure) {
     double y_max = 0;
     std::size_t left_out = 0;
     for (const Series& s : chart.series) {
-      for (const auto& p : s.points) {
+      for (std::size_t i = 0; i < s.points.size(); ++i) {
+        const auto& p = s.points[i];
         if (!detail::drawable(p.first, p.second)) {
           ++left_out;
           continue;
@@ -245,6 +260,14 @@ inline std::string render(const Figure& figure) {
         x_max = std::max(x_max, p.first);
         y_min = std::min(y_min, p.second);
         y_max = std::max(y_max, p.second);
+        if (i < s.bars.size()) {
+          for (const double end : {s.bars[i].first, s.bars[i].second}) {
+            if (detail::drawable(p.first, end)) {
+              y_min = std::min(y_min, end);
+              y_max = std::max(y_max, end);
+            }
+          }
+        }
       }
     }
     if (chart.has_reference && chart.reference_y > 0 && std::isfinite(chart.reference_y)) {
@@ -354,9 +377,26 @@ inline std::string render(const Figure& figure) {
         }
         out << "\"/>\n";
       }
+      for (std::size_t i = 0; i < s.bars.size() && i < s.points.size(); ++i) {
+        const double x = s.points[i].first;
+        const auto [low, high] = s.bars[i];
+        if (!detail::drawable(x, low) || !detail::drawable(x, high)) continue;
+        const double xp = px(x);
+        out << "<path class=\"bar\" d=\"M" << num(xp - 3) << ',' << num(py(low)) << "H"
+            << num(xp + 3) << "M" << num(xp) << ',' << num(py(low)) << "V" << num(py(high)) << "M"
+            << num(xp - 3) << ',' << num(py(high)) << "H" << num(xp + 3) << "\" stroke=\"" << c_str
+            << "\" stroke-width=\"1.1\" fill=\"none\" stroke-opacity=\"0.75\"/>\n";
+      }
       for (const auto& p : pts) {
         detail::marker(out, s.marker, p.first, p.second, c_str);
       }
+    }
+    for (const ChartLabel& l : chart.labels) {
+      if (!detail::drawable(l.x, l.y)) continue;
+      out << "<text class=\"label\" x=\"" << num(px(l.x) + 6) << "\" y=\""
+          << num(py(l.y) + (l.below ? 16 : -6)) << "\" font-size=\"11\" fill=\"" << colour(l.colour)
+          << "\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">" << escape(l.text)
+          << "</text>\n";
     }
     if (left_out > 0) {
       out << "<text x=\"" << num(plot_left + 6) << "\" y=\"" << num(y_top + 14)
