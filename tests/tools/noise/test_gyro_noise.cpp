@@ -8,7 +8,9 @@
 // 1 % (Bonferroni); the seeds are fixed, so the outcome is deterministic. Each such case also
 // checks that a clearly wrong value (×1.5 or ×0.6) falls outside, so the intervals mean
 // something.
+#include <sys/resource.h>
 #include <sys/wait.h>
+#include <unistd.h>
 
 #include <array>
 #include <cmath>
@@ -343,4 +345,52 @@ TEST_CASE("bad logs are rejected with FILE:LINE - usage errors and the help's ca
   fs::create_directories(scratch);
   CHECK(run(tool, {ok, "--scratch-dir", scratch.string()}, dir).code == 0);
   CHECK(fs::is_empty(scratch));
+}
+
+namespace {
+
+// fork + exec + wait4: the child's own peak resident set (ru_maxrss, KiB on Linux).
+long peak_rss_kib(const std::vector<std::string>& argv_text) {
+  std::vector<std::string> copies = argv_text;
+  std::vector<char*> argv;
+  for (std::string& a : copies) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  const pid_t pid = fork();
+  if (pid == 0) {
+    if (std::freopen("/dev/null", "w", stdout) == nullptr) _exit(127);
+    execv(argv[0], argv.data());
+    _exit(127);
+  }
+  REQUIRE(pid > 0);
+  int status = 0;
+  rusage usage{};
+  REQUIRE(wait4(pid, &status, 0, &usage) == pid);
+  REQUIRE(WIFEXITED(status));
+  REQUIRE(WEXITSTATUS(status) == 0);
+  return usage.ru_maxrss;
+}
+
+}  // namespace
+
+TEST_CASE("memory does not grow with the log's length", "[soak]") {
+  // Peak RSS of the tool on 2^18 and 2^21 samples (8 times as long, 170 MB of CSV): a tool that
+  // kept even one double per sample would grow by 14 MiB; the bound allows 2 MiB (allocator
+  // noise, and the three more octaves' buffers of 48 KiB each). The figures are printed for the
+  // README (measured there with a 10x log), not asserted as targets.
+  const fs::path dir = work_dir("memory");
+  std::array<long, 2> peak{};
+  for (std::size_t i = 0; i < 2; ++i) {
+    LogSpec spec;
+    spec.samples = i == 0 ? 1 << 18 : 1 << 21;
+    spec.n = 7e-5;
+    spec.b = 1e-4;
+    spec.band_lo = 0.01;
+    spec.band_hi = 2e4;
+    spec.k = 3.6e-5;
+    const fs::path log = write_log(dir, spec);
+    peak[i] = peak_rss_kib({tool, log.string(), "--scratch-dir", dir.string()});
+    std::printf("halfspin-gyro-noise on %ld samples: peak RSS %ld KiB\n", spec.samples, peak[i]);
+    fs::remove(log);
+  }
+  CHECK(peak[1] - peak[0] < 2048);
 }
