@@ -478,7 +478,10 @@ std::string chart_svg(const Settings& s, const LogSummary& log,
     svg::Series sum;
     sum.colour = 5;
     sum.line = svg::LineStyle::dotted;
-    for (double tau = tau_lo; tau <= tau_hi * 1.0001; tau *= std::sqrt(2.0)) {
+    // Half-octave steps from the first to the last averaging time.
+    const auto half_octaves = static_cast<int>(std::round(2 * std::log2(tau_hi / tau_lo)));
+    for (int i = 0; i <= half_octaves; ++i) {
+      const double tau = tau_lo * std::exp2(0.5 * i);
       sum.points.emplace_back(tau, std::sqrt(terms[a].model(tau)));
     }
     c.series.push_back(sum);

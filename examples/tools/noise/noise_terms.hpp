@@ -179,7 +179,7 @@ inline bool solve_subset(const std::vector<double>& tau, const std::vector<doubl
   std::array<std::size_t, term_count> index{};
   std::size_t n = 0;
   for (std::size_t p = 0; p < term_count; ++p) {
-    if ((mask >> p) & 1U) index[n++] = p;
+    if (((mask >> p) & 1U) != 0) index[n++] = p;
   }
   // Columns scaled to unit weighted norm, for conditioning (τ^p spans many decades).
   std::array<long double, term_count> scale{};
@@ -251,7 +251,7 @@ inline AxisTerms fit_terms(const std::vector<AllanPoint>& curve, std::size_t axi
       if (!detail::solve_subset(tau, value, weight, mask, c)) continue;
       bool feasible = true;
       for (std::size_t p = 0; p < term_count; ++p) {
-        if (((mask >> p) & 1U) && !(c[p] > 0)) feasible = false;
+        if (((mask >> p) & 1U) != 0 && !(c[p] > 0)) feasible = false;
       }
       if (!feasible) continue;
       double residual = 0;

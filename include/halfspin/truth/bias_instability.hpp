@@ -136,20 +136,20 @@ class BiasInstabilityBank {
     variance_ =
         T(0.693147180559945309417232121458176568L) / pi<T> * bias_instability * bias_instability;
     const T q = std::sqrt(variance_);
-    T correlation_time = T(0.01) * band_shortest;
+    T time_constant = T(0.01) * band_shortest;  // T_i, s
     for (std::size_t i = 0; i < count_; ++i) {
       Coefficients& k = coefficients_[i];
-      const T a = sample_period / correlation_time;
+      const T a = sample_period / time_constant;
       const T c = -std::expm1(-a);
-      k.correlation_time = correlation_time;
+      k.correlation_time = time_constant;
       k.decay = c;
       k.innovation = q * std::sqrt(c * (T(2) - c));
-      k.mean_integral = correlation_time * c;
-      k.innovation_share = correlation_time * c / (T(2) - c);
+      k.mean_integral = time_constant * c;
+      k.innovation_share = time_constant * c / (T(2) - c);
       const T c_over_a = c / a;
       const T r = gauss_markov_f_over_cube(a) - c_over_a * c_over_a * c_over_a / (T(2) - c);
-      k.integral_spread = q * correlation_time * a * std::sqrt(a) * std::sqrt(r > T(0) ? r : T(0));
-      correlation_time *= T(2);
+      k.integral_spread = q * time_constant * a * std::sqrt(a) * std::sqrt(r > T(0) ? r : T(0));
+      time_constant *= T(2);
     }
   }
 
