@@ -473,7 +473,7 @@ std::string chart_svg(const Settings& s, const LogSummary& log,
     points.marker = svg::Marker::filled_circle;
     for (const AllanPoint& p : curve) {
       points.points.emplace_back(p.tau, p.deviation[a]);
-      points.bars.emplace_back(p.low[a], p.high[a]);
+      c.bars.push_back({p.tau, p.low[a], p.high[a], 0});
     }
     svg::Series sum;
     sum.colour = 5;

@@ -5,8 +5,8 @@
 //
 //   Figure { title, subtitle, charts, legend (one colour per entry), keys (line/marker styles) }
 //   Chart  { title, axis labels with units, series, optional horizontal reference line }
-//   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y),
-//            optional vertical bars (low, high) per point }
+//   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y) }
+//   ErrorBar { x, low, high, colour } (Chart::bars: vertical bars, e.g. confidence intervals)
 //   ChartLabel { text at data coordinates, in a series colour } (Chart::labels)
 //
 // Both axes are logarithmic: points with a non-positive or non-finite coordinate cannot be drawn
@@ -38,8 +38,14 @@ struct Series {
   LineStyle line = LineStyle::solid;
   Marker marker = Marker::none;
   std::vector<std::pair<double, double>> points;  // (x, y), drawn in this order
-  // Optional vertical bars, one (low, high) per point (a confidence interval): empty for none.
-  std::vector<std::pair<double, double>> bars;
+};
+
+// A vertical bar from low to high at x (a confidence interval), in a series colour.
+struct ErrorBar {
+  double x = 0;
+  double low = 0;
+  double high = 0;
+  std::size_t colour = 0;
 };
 
 // A text placed at data coordinates (x, y) inside a chart, in a series colour.
@@ -59,6 +65,7 @@ struct Chart {
   bool has_reference = false;  // a horizontal line at y = reference_y
   double reference_y = 0;
   std::string reference_label;
+  std::vector<ErrorBar> bars;  // drawn under the series
   std::vector<ChartLabel> labels;
 };
 
@@ -250,8 +257,7 @@ inline std::string render(const Figure& figure) {
     double y_max = 0;
     std::size_t left_out = 0;
     for (const Series& s : chart.series) {
-      for (std::size_t i = 0; i < s.points.size(); ++i) {
-        const auto& p = s.points[i];
+      for (const auto& p : s.points) {
         if (!detail::drawable(p.first, p.second)) {
           ++left_out;
           continue;
@@ -260,14 +266,12 @@ inline std::string render(const Figure& figure) {
         x_max = std::max(x_max, p.first);
         y_min = std::min(y_min, p.second);
         y_max = std::max(y_max, p.second);
-        if (i < s.bars.size()) {
-          for (const double end : {s.bars[i].first, s.bars[i].second}) {
-            if (detail::drawable(p.first, end)) {
-              y_min = std::min(y_min, end);
-              y_max = std::max(y_max, end);
-            }
-          }
-        }
+      }
+    }
+    for (const ErrorBar& b : chart.bars) {
+      if (detail::drawable(b.x, b.low) && detail::drawable(b.x, b.high)) {
+        y_min = std::min(y_min, b.low);
+        y_max = std::max(y_max, b.high);
       }
     }
     if (chart.has_reference && chart.reference_y > 0 && std::isfinite(chart.reference_y)) {
@@ -360,6 +364,15 @@ inline std::string render(const Figure& figure) {
           << escape(chart.reference_label) << "</text>\n</g>\n";
     }
 
+    for (const ErrorBar& b : chart.bars) {
+      if (!detail::drawable(b.x, b.low) || !detail::drawable(b.x, b.high)) continue;
+      const double xp = px(b.x);
+      out << "<path class=\"bar\" d=\"M" << num(xp - 3) << ',' << num(py(b.low)) << "H"
+          << num(xp + 3) << "M" << num(xp) << ',' << num(py(b.low)) << "V" << num(py(b.high)) << "M"
+          << num(xp - 3) << ',' << num(py(b.high)) << "H" << num(xp + 3) << "\" stroke=\""
+          << colour(b.colour)
+          << "\" stroke-width=\"1.1\" fill=\"none\" stroke-opacity=\"0.75\"/>\n";
+    }
     for (const Series& s : chart.series) {
       const std::string c_str = colour(s.colour);
       std::vector<std::pair<double, double>> pts;
@@ -376,16 +389,6 @@ inline std::string render(const Figure& figure) {
           out << num(p.first) << ',' << num(p.second) << ' ';
         }
         out << "\"/>\n";
-      }
-      for (std::size_t i = 0; i < s.bars.size() && i < s.points.size(); ++i) {
-        const double x = s.points[i].first;
-        const auto [low, high] = s.bars[i];
-        if (!detail::drawable(x, low) || !detail::drawable(x, high)) continue;
-        const double xp = px(x);
-        out << "<path class=\"bar\" d=\"M" << num(xp - 3) << ',' << num(py(low)) << "H"
-            << num(xp + 3) << "M" << num(xp) << ',' << num(py(low)) << "V" << num(py(high)) << "M"
-            << num(xp - 3) << ',' << num(py(high)) << "H" << num(xp + 3) << "\" stroke=\"" << c_str
-            << "\" stroke-width=\"1.1\" fill=\"none\" stroke-opacity=\"0.75\"/>\n";
       }
       for (const auto& p : pts) {
         detail::marker(out, s.marker, p.first, p.second, c_str);
