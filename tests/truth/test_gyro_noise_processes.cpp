@@ -72,10 +72,11 @@ std::vector<AllanPoint> allan(const std::vector<double>& increment, double tau0,
                               double confidence) {
   const std::size_t n = increment.size();
   LD mean = 0;
-  for (double v : increment) mean += v;
+  for (double v : increment) mean += static_cast<LD>(v);
   mean /= static_cast<LD>(n);
   std::vector<LD> theta(n + 1, 0);
-  for (std::size_t i = 0; i < n; ++i) theta[i + 1] = theta[i] + (increment[i] - mean);
+  for (std::size_t i = 0; i < n; ++i)
+    theta[i + 1] = theta[i] + (static_cast<LD>(increment[i]) - mean);
   std::vector<AllanPoint> out;
   for (std::size_t m = 1; n / m >= 2; m *= 2) {
     LD sum = 0;
@@ -214,7 +215,7 @@ TEST_CASE("Gauss-Markov Allan variance: the closed form matches GSL quadrature o
     const double quad = annex_c_allan_variance(psd, tau);
     const double closed = halfspin::gauss_markov_allan_variance(tau, correlation, q2);
     INFO("x = " << x << ": closed form " << closed << ", quadrature " << quad);
-    worst = std::max(worst, std::fabs(static_cast<LD>(closed) / quad - 1));
+    worst = std::max(worst, std::fabs(static_cast<LD>(closed) / static_cast<LD>(quad) - 1));
     CHECK(std::fabs(closed / quad - 1) < 1e-9);
   }
   halfspin::test::report_worst("Gauss-Markov Allan variance vs GSL quadrature (relative)", worst);
@@ -268,7 +269,8 @@ TEST_CASE("bias-instability bank: flat within 1 percent over its band, as derive
     }
     CHECK(worst_low >= 0.99);
     CHECK(worst_high <= 1 + 1e-12);
-    halfspin::test::report_worst("bank deviation / flicker deviation, lowest in band", worst_low);
+    halfspin::test::report_worst("bank deviation / flicker deviation, lowest in band",
+                                 static_cast<LD>(worst_low));
     CHECK(worst_telescoped < 1e-12);
     // The band is where the flatness ends: a factor 10 outside it the deficit exceeds 1 %.
     CHECK(std::sqrt(bank.allan_variance(band.shortest / 10) / flicker) < 0.99);

@@ -97,12 +97,13 @@ inline double chi_squared_quantile(double p, double nu) {
     return nu * c * c * c;
   }
   const long double a = 0.5L * static_cast<long double>(nu);
+  const auto target = static_cast<long double>(p);
   long double lo = 0;
   long double hi = std::max(4.0L * a + 100, 1.0L);
-  while (regularized_gamma_p(a, hi) < p) hi *= 2;
+  while (regularized_gamma_p(a, hi) < target) hi *= 2;
   for (int i = 0; i < 200 && hi - lo > 1e-17L * hi; ++i) {
     const long double mid = 0.5L * (lo + hi);
-    (regularized_gamma_p(a, mid) < p ? lo : hi) = mid;
+    (regularized_gamma_p(a, mid) < target ? lo : hi) = mid;
   }
   return static_cast<double>(lo + hi);  // x = 2·(the gamma variable)
 }
@@ -187,7 +188,7 @@ inline bool solve_subset(const std::vector<double>& tau, const std::vector<doubl
     long double s = 0;
     for (std::size_t i = 0; i < tau.size(); ++i) {
       const long double x = std::pow(static_cast<long double>(tau[i]), term_power[index[j]]);
-      s += weight[i] * x * x;
+      s += static_cast<long double>(weight[i]) * x * x;
     }
     scale[j] = s > 0 ? 1 / std::sqrt(s) : 1;
   }
@@ -197,9 +198,10 @@ inline bool solve_subset(const std::vector<double>& tau, const std::vector<doubl
     for (std::size_t j = 0; j < n; ++j) {
       row[j] = std::pow(static_cast<long double>(tau[i]), term_power[index[j]]) * scale[j];
     }
+    const auto w = static_cast<long double>(weight[i]);
     for (std::size_t j = 0; j < n; ++j) {
-      for (std::size_t k = 0; k < n; ++k) a[j][k] += weight[i] * row[j] * row[k];
-      a[j][n] += weight[i] * row[j] * value[i];
+      for (std::size_t k = 0; k < n; ++k) a[j][k] += w * row[j] * row[k];
+      a[j][n] += w * row[j] * static_cast<long double>(value[i]);
     }
   }
   for (std::size_t col = 0; col < n; ++col) {
