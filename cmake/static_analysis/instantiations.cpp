@@ -25,6 +25,13 @@ template class BatchPropagator<double, 4, NoRenormalization, CompensatedAccumula
 // The tools evaluate truth in long double only.
 template struct VibrationLinesMotion<float>;
 template struct VibrationLinesMotion<double>;
+// The synthetic gyro's noise processes (the tools use them only through tests).
+template class BiasInstabilityBank<float>;
+template class BiasInstabilityBank<double>;
+template class SyntheticGyro<float, ConstantRateMotion<float>>;
+template class SyntheticGyro<double, ConstantRateMotion<double>>;
+template float gauss_markov_allan_variance<float>(float, float, float) noexcept;
+template double gauss_markov_allan_variance<double>(double, double, double) noexcept;
 
 }  // namespace halfspin
 

@@ -66,6 +66,7 @@
 
 // truth
 #include "halfspin/truth/axisymmetric_body.hpp"
+#include "halfspin/truth/bias_instability.hpp"
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/composed_motion.hpp"
 #include "halfspin/truth/constant_rate.hpp"

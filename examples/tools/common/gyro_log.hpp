@@ -30,6 +30,7 @@
 //   GyroLogForm, gyro_log_header(form)
 //   GyroLogLayout, resolve_gyro_log_layout(header, form, mapped, layout) → reason or ""
 //                                        which columns of a header hold t, x, y, z and the form
+//   read_gyro_log_layout(reader, log, form, mapped) → layout or nothing (reported on stderr)
 //   StagedOutputFile                     writes to a temporary file beside the destination and
 //                                        renames it over the destination on commit(); removes the
 //                                        temporary on destruction if not committed (no partial
@@ -404,6 +405,42 @@ inline std::string resolve_gyro_log_layout(std::string_view header, std::optiona
   }
   layout = std::move(l);
   return "";
+}
+
+// Reads the header of the gyro log `log` from `reader` and resolves its layout with --form and
+// --columns (`form`, `columns`); nothing if the header is missing or does not fit, reported on
+// stderr as LOG:1: reason. Ignored columns are noted. The reader then reads the used columns.
+inline std::optional<GyroLogLayout> read_gyro_log_layout(
+    NumericCsvReader<4>& reader, const std::string& log, std::optional<GyroLogForm> form,
+    const std::array<std::string, 4>& columns) {
+  std::string header;
+  if (!reader.read_header(header)) {
+    if (reader.line() == 0) {
+      std::fprintf(stderr,
+                   "%s:1: empty file: no header line (expected 't,wx,wy,wz' or 't,dx,dy,dz')\n",
+                   log.c_str());
+    } else {
+      std::fprintf(stderr, "%s:1: header line longer than %zu characters\n", log.c_str(),
+                   max_line_length);
+    }
+    return std::nullopt;
+  }
+  GyroLogLayout layout;
+  const std::string reason = resolve_gyro_log_layout(header, form, columns, layout);
+  if (!reason.empty()) {
+    std::fprintf(stderr, "%s:1: %s\n", log.c_str(), reason.c_str());
+    return std::nullopt;
+  }
+  if (!layout.ignored.empty()) {
+    std::string list;
+    for (const std::size_t c : layout.ignored) {
+      list += (list.empty() ? "" : ", ") + std::to_string(c + 1) + " '" + layout.header[c] + "'";
+    }
+    std::fprintf(stderr, "%s:1: note: column%s %s not used (ignored in every row)\n", log.c_str(),
+                 layout.ignored.size() > 1 ? "s" : "", list.c_str());
+  }
+  reader.select_columns(layout.column, layout.field_count);
+  return layout;
 }
 
 inline constexpr const char* attitude_csv_header = "t,qw,qx,qy,qz";

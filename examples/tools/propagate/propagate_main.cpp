@@ -54,40 +54,6 @@ std::string check_method(const std::string& name) {
   return "";
 }
 
-// The log's layout from its header and the options (--columns, --form); nothing (reported) if
-// the header is missing or does not fit. Ignored columns are noted.
-std::optional<GyroLogLayout> read_log_layout(NumericCsvReader<4>& reader, const Options& opt) {
-  const std::string& log = opt.log;
-  std::string header;
-  if (!reader.read_header(header)) {
-    if (reader.line() == 0) {
-      std::fprintf(stderr,
-                   "%s:1: empty file: no header line (expected 't,wx,wy,wz' or 't,dx,dy,dz')\n",
-                   log.c_str());
-    } else {
-      std::fprintf(stderr, "%s:1: header line longer than %zu characters\n", log.c_str(),
-                   max_line_length);
-    }
-    return std::nullopt;
-  }
-  GyroLogLayout layout;
-  const std::string reason = resolve_gyro_log_layout(header, opt.form, opt.columns, layout);
-  if (!reason.empty()) {
-    std::fprintf(stderr, "%s:1: %s\n", log.c_str(), reason.c_str());
-    return std::nullopt;
-  }
-  if (!layout.ignored.empty()) {
-    std::string list;
-    for (const std::size_t c : layout.ignored) {
-      list += (list.empty() ? "" : ", ") + std::to_string(c + 1) + " '" + layout.header[c] + "'";
-    }
-    std::fprintf(stderr, "%s:1: note: column%s %s not used (ignored in every row)\n", log.c_str(),
-                 layout.ignored.size() > 1 ? "s" : "", list.c_str());
-  }
-  reader.select_columns(layout.column, layout.field_count);
-  return layout;
-}
-
 // The unit options must fit the log's form: the usage error, or "".
 std::string match_units_to_form(const Options& opt, GyroLogForm form) {
   if (form == GyroLogForm::delta_angle && !opt.rate_unit.empty()) {
@@ -150,7 +116,8 @@ int propagate_log(Options& opt) {
     return exit_input;
   }
   NumericCsvReader<4> reader(in);
-  const std::optional<GyroLogLayout> layout = read_log_layout(reader, opt);
+  const std::optional<GyroLogLayout> layout =
+      read_gyro_log_layout(reader, opt.log, opt.form, opt.columns);
   if (!layout) return exit_input;
   std::string mismatch = match_units_to_form(opt, layout->form);
   if (mismatch.empty()) mismatch = match_method_to_form(opt, layout->form);

@@ -1,11 +1,13 @@
 #pragma once
-// A small hand-written SVG writer for log–log charts (halfspin-stepstudy's figure). No library:
-// the document is plain SVG 1.1 text, UTF-8, one <svg> with the charts stacked vertically and one
-// legend column on the right shared by all charts.
+// A small hand-written SVG writer for log–log charts (halfspin-stepstudy's and
+// halfspin-gyro-noise's figures). No library: the document is plain SVG 1.1 text, UTF-8, one <svg>
+// with the charts stacked vertically and one legend column on the right shared by all charts.
 //
 //   Figure { title, subtitle, charts, legend (one colour per entry), keys (line/marker styles) }
 //   Chart  { title, axis labels with units, series, optional horizontal reference line }
 //   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y) }
+//   ErrorBar { x, low, high, colour } (Chart::bars: vertical bars, e.g. confidence intervals)
+//   ChartLabel { text at data coordinates, in a series colour } (Chart::labels)
 //
 // Both axes are logarithmic: points with a non-positive or non-finite coordinate cannot be drawn
 // and are left out (render() counts them in the chart's note). Axis ranges are whole decades
@@ -38,6 +40,23 @@ struct Series {
   std::vector<std::pair<double, double>> points;  // (x, y), drawn in this order
 };
 
+// A vertical bar from low to high at x (a confidence interval), in a series colour.
+struct ErrorBar {
+  double x = 0;
+  double low = 0;
+  double high = 0;
+  std::size_t colour = 0;
+};
+
+// A text placed at data coordinates (x, y) inside a chart, in a series colour.
+struct ChartLabel {
+  double x = 0;
+  double y = 0;
+  std::string text;
+  std::size_t colour = 0;
+  bool below = false;  // under the point (else above it)
+};
+
 struct Chart {
   std::string title;
   std::string x_label;  // with units
@@ -46,6 +65,8 @@ struct Chart {
   bool has_reference = false;  // a horizontal line at y = reference_y
   double reference_y = 0;
   std::string reference_label;
+  std::vector<ErrorBar> bars;  // drawn under the series
+  std::vector<ChartLabel> labels;
 };
 
 struct LegendEntry {
@@ -247,6 +268,12 @@ inline std::string render(const Figure& figure) {
         y_max = std::max(y_max, p.second);
       }
     }
+    for (const ErrorBar& b : chart.bars) {
+      if (detail::drawable(b.x, b.low) && detail::drawable(b.x, b.high)) {
+        y_min = std::min(y_min, b.low);
+        y_max = std::max(y_max, b.high);
+      }
+    }
     if (chart.has_reference && chart.reference_y > 0 && std::isfinite(chart.reference_y)) {
       y_min = std::min(y_min, chart.reference_y);
       y_max = std::max(y_max, chart.reference_y);
@@ -337,6 +364,15 @@ inline std::string render(const Figure& figure) {
           << escape(chart.reference_label) << "</text>\n</g>\n";
     }
 
+    for (const ErrorBar& b : chart.bars) {
+      if (!detail::drawable(b.x, b.low) || !detail::drawable(b.x, b.high)) continue;
+      const double xp = px(b.x);
+      out << "<path class=\"bar\" d=\"M" << num(xp - 3) << ',' << num(py(b.low)) << "H"
+          << num(xp + 3) << "M" << num(xp) << ',' << num(py(b.low)) << "V" << num(py(b.high)) << "M"
+          << num(xp - 3) << ',' << num(py(b.high)) << "H" << num(xp + 3) << "\" stroke=\""
+          << colour(b.colour)
+          << "\" stroke-width=\"1.1\" fill=\"none\" stroke-opacity=\"0.75\"/>\n";
+    }
     for (const Series& s : chart.series) {
       const std::string c_str = colour(s.colour);
       std::vector<std::pair<double, double>> pts;
@@ -357,6 +393,13 @@ inline std::string render(const Figure& figure) {
       for (const auto& p : pts) {
         detail::marker(out, s.marker, p.first, p.second, c_str);
       }
+    }
+    for (const ChartLabel& l : chart.labels) {
+      if (!detail::drawable(l.x, l.y)) continue;
+      out << "<text class=\"label\" x=\"" << num(px(l.x) + 6) << "\" y=\""
+          << num(py(l.y) + (l.below ? 16 : -6)) << "\" font-size=\"11\" fill=\"" << colour(l.colour)
+          << "\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">" << escape(l.text)
+          << "</text>\n";
     }
     if (left_out > 0) {
       out << "<text x=\"" << num(plot_left + 6) << "\" y=\"" << num(y_top + 14)

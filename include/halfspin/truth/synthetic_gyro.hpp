@@ -18,6 +18,22 @@
 //    rate sample gets a Gaussian error of σ = N·√(1/dt) = N·√(sample rate); a delta-angle gets
 //    the integral of that noise over its interval, σ = N·√dt. Noise draws are made for every
 //    sample whatever N is, so two gyros with the same seed see the same noise sequence;
+//    the rate random walk and the bias instability draw from a second source of their own
+//    (seeded from the same seed) and only when they are enabled, so a model without them gives
+//    bit for bit the sequence it gave before they existed;
+//  - rate random walk K (rad/s/√s): a bias that random-walks, b(t) = K·W(t), W a standard Wiener
+//    process starting at 0 with the first sample; increments of σ = K·√dt per sample and axis. A
+//    delta-angle gets the exact integral of b over its interval, a rate sample its mean over the
+//    interval of length dt that ends at t_k (as for the white noise: Annex C's relations then hold
+//    from τ = dt in both forms, as for a gyro that averages over its sample interval), drawn
+//    jointly with the increment from two normals z₁, z₂ (common practice, no source: Gaussian
+//    moments of a Wiener process, Var ∫₀^Δ W = Δ³/3, Cov(∫₀^Δ W, W(Δ)) = Δ²/2):
+//        b_end = b + K√dt·z₁,   ∫ b dt = b·dt + K·dt^{3/2}·(z₁/2 + z₂/(2√3));
+//  - bias instability B (rad/s): flicker rate noise, flat Allan deviation √(2 ln 2/π)·B ≈ 0.664·B
+//    over a band of averaging times [flicker_band_shortest, flicker_band_longest], made as a sum
+//    of octave-spaced Gauss–Markov processes, exact in discrete time and integrated exactly over
+//    each sample interval (rate samples: the mean over it, as for the random walk; derivation,
+//    flatness within 1 % over the band, and its limits: truth/bias_instability.hpp);
 //  - quantization to a multiple of the least significant bit (LSB), rounding to nearest: rates
 //    to rate_quantum (rad/s), each sample independently (an instantaneous reading, error ≤ LSB/2);
 //    delta-angles to angle_quantum (rad), carrying the residual to the next sample when
@@ -37,6 +53,7 @@
 
 #include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/core/vector3.hpp"
+#include "halfspin/truth/bias_instability.hpp"
 
 namespace halfspin {
 
@@ -152,6 +169,10 @@ struct GyroErrorModel {
   T rate_quantum{};                 // rad/s, LSB of a rate output; 0 = not quantized
   T angle_quantum{};                // rad, LSB of a delta-angle output; 0 = not quantized
   bool carry_angle_residual{true};  // delta-angles: carry the rounding residual to the next sample
+  T rate_random_walk{};             // K, rad/s/√s; 0 = none
+  T bias_instability{};             // B, rad/s; 0 = none
+  T flicker_band_shortest{};        // s: B's flat Allan band starts here (needs B > 0)
+  T flicker_band_longest{};         // s: and ends here (truth/bias_instability.hpp, §4)
 };
 
 // Samples `Motion` (anything with rate(T) → Vector3<T> in rad/s, and optionally
@@ -169,7 +190,15 @@ class SyntheticGyro {
         noise_(seed),
         rate_sigma_(model.noise_density / std::sqrt(sample_period)),
         angle_sigma_(model.noise_density * std::sqrt(sample_period)),
-        index_(form == GyroOutputForm::rate ? 0 : 1) {}
+        index_(form == GyroOutputForm::rate ? 0 : 1),
+        process_noise_(seed ^ process_seed_offset),
+        walk_step_(model.rate_random_walk * std::sqrt(sample_period)),
+        walk_integral_(model.rate_random_walk * sample_period * std::sqrt(sample_period) / T(2)),
+        walk_integral_spread_(walk_integral_ / std::sqrt(T(3))),
+        instability_(model.bias_instability, model.flicker_band_shortest,
+                     model.flicker_band_longest, sample_period) {
+    instability_.start(normal());
+  }
 
   // The next sample: a rate (rad/s) at t_k = k·dt, or a delta-angle (rad) over (t_{k−1}, t_k];
   // advances k.
@@ -177,12 +206,17 @@ class SyntheticGyro {
     const Vector3<T> noise{noise_.next_gaussian(), noise_.next_gaussian(), noise_.next_gaussian()};
     Vector3<T> out;
     if (form_ == GyroOutputForm::rate) {
-      const Vector3<T> v = truth_rate(index_) + model_.bias + rate_sigma_ * noise;
+      Vector3<T> v = truth_rate(index_) + model_.bias + rate_sigma_ * noise;
+      if (has_processes()) {
+        v += next_process_rate();
+      }
       out = {quantize(v.x, model_.rate_quantum), quantize(v.y, model_.rate_quantum),
              quantize(v.z, model_.rate_quantum)};
     } else {
-      const Vector3<T> v =
-          truth_delta_angle_sample(index_) + dt_ * model_.bias + angle_sigma_ * noise;
+      Vector3<T> v = truth_delta_angle_sample(index_) + dt_ * model_.bias + angle_sigma_ * noise;
+      if (has_processes()) {
+        v += next_process_angle();
+      }
       const Vector3<T> carried = model_.carry_angle_residual ? v + residual_ : v;
       out = {quantize(carried.x, model_.angle_quantum), quantize(carried.y, model_.angle_quantum),
              quantize(carried.z, model_.angle_quantum)};
@@ -210,6 +244,11 @@ class SyntheticGyro {
   constexpr T noise_sigma() const noexcept {
     return form_ == GyroOutputForm::rate ? rate_sigma_ : angle_sigma_;
   }
+  // The rate random walk's bias (rad/s) at the next sample's time (rates) or at the start of the
+  // next sample's interval (delta-angles).
+  constexpr const Vector3<T>& rate_random_walk_bias() const noexcept { return walk_; }
+  // The bias-instability processes (truth/bias_instability.hpp): count, correlation times, band.
+  constexpr const BiasInstabilityBank<T>& bias_instability() const noexcept { return instability_; }
   // Whether next() returns rates (rad/s) or delta-angles (rad).
   constexpr GyroOutputForm form() const noexcept { return form_; }
   // The sample period dt, s.
@@ -223,8 +262,52 @@ class SyntheticGyro {
   GaussianNoiseSource<T> noise_;
   T rate_sigma_;
   T angle_sigma_;
+  // The rate random walk's and bias instability's own source is seeded with seed XOR this (the
+  // first 64 bits of the fractional part of √2), so it never replays the white-noise draws.
+  static constexpr std::uint64_t process_seed_offset = 0x6A09E667F3BCC908ULL;
+
+  // A standard normal deviate from the processes' source, as a callable for the bank.
+  auto normal() noexcept {
+    return [this]() noexcept { return process_noise_.next_gaussian(); };
+  }
+
+  constexpr bool has_processes() const noexcept {
+    return walk_step_ > T(0) || instability_.process_count() > 0;
+  }
+
+  // Rate random walk plus bias instability (rad/s): their mean over the interval (t_k − dt, t_k]
+  // (see the header comment); advances them.
+  Vector3<T> next_process_rate() noexcept { return (T(1) / dt_) * next_process_angle(); }
+
+  // Their integral over the sample interval (rad); advances them to its end.
+  Vector3<T> next_process_angle() noexcept {
+    Vector3<T> sum = Vector3<T>::zero();
+    if (walk_step_ > T(0)) {
+      Vector3<T> z1;
+      Vector3<T> z2;
+      z1.x = process_noise_.next_gaussian();
+      z2.x = process_noise_.next_gaussian();
+      z1.y = process_noise_.next_gaussian();
+      z2.y = process_noise_.next_gaussian();
+      z1.z = process_noise_.next_gaussian();
+      z2.z = process_noise_.next_gaussian();
+      sum = dt_ * walk_ + walk_integral_ * z1 + walk_integral_spread_ * z2;
+      walk_ += walk_step_ * z1;
+    }
+    if (instability_.process_count() > 0) {
+      sum += instability_.next_angle(normal());
+    }
+    return sum;
+  }
+
   std::int64_t index_;
   Vector3<T> residual_{};
+  GaussianNoiseSource<T> process_noise_;
+  T walk_step_;             // K√dt, rad/s
+  T walk_integral_;         // K·dt^{3/2}/2, rad
+  T walk_integral_spread_;  // K·dt^{3/2}/(2√3), rad
+  Vector3<T> walk_{};       // the random-walk bias, rad/s
+  BiasInstabilityBank<T> instability_;
 };
 
 }  // namespace halfspin
