@@ -1,6 +1,7 @@
 // halfspin-gyro-log: writes the exact gyro log (rates or delta-angles) of one of the library's
 // truth motions or of the user's own (a turn carrying coning and vibration lines, composed
-// exactly), and optionally its truth attitude, for halfspin-propagate. `--help` documents it all.
+// exactly), optionally with a gyro's own errors added (SyntheticGyro's processes), and its truth
+// attitude, for halfspin-propagate. `--help` documents it all.
 #include <array>
 #include <cerrno>
 #include <cmath>
@@ -15,6 +16,7 @@
 #include "demo_scenario.hpp"
 #include "gyro_log.hpp"
 #include "halfspin/bounds/motion_description.hpp"
+#include "halfspin/bounds/sensor_error.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/scalar_traits.hpp"
 #include "halfspin/core/vector3.hpp"
@@ -83,6 +85,19 @@ Options:
   --truth FILE    also write the truth attitude t,qw,qx,qy,qz (body -> reference) at every sample
                   time, t = 0 included (halfspin-propagate --truth FILE --initial truth)
   --help          this text
+
+A gyro's own errors, added to every sample (the truth file stays the exact attitude), the same
+option names and units as halfspin-stepstudy's (per axis, independent axes, seeded; made by
+include/halfspin/truth/synthetic_gyro.hpp; a rate sample carries each process's mean over its
+interval, a delta-angle its integral):
+  --angle-random-walk N        white rate noise, rad/sqrt(s) (--angle-random-walk-deg: deg/sqrt(h))
+  --bias-instability B         flicker rate noise, rad/s, flat at 0.664 B in the Allan deviation
+                               over --flicker-band (--bias-instability-deg: deg/h)
+  --flicker-band LO,HI         that band of averaging times, s (default 1,1000)
+  --rate-random-walk K         rad/s/sqrt(s) (--rate-random-walk-deg: deg/h/sqrt(h))
+  --gyro-bias X,Y,Z            a constant bias per axis, rad/s (--gyro-bias-deg: deg/h)
+  --seed S                     the noise sequence (default 1)
+A log of a still gyro (--turn 0,0,0 with errors) is the static log halfspin-gyro-noise reads.
 All numbers are written with 17 significant digits (they round-trip a double). Truth is evaluated
 in long double. Files are written through temporaries in the same directory and renamed at the
 end: on any error nothing is written.
@@ -117,6 +132,14 @@ bool parse_positive(const std::string& text, double& out) {
   return tools::detail::parse_number(text, out) && out > 0.0;
 }
 
+// No errors; bias instability, when given, flat over 1 .. 1000 s unless --flicker-band says.
+GyroErrorModel<double> default_errors() {
+  GyroErrorModel<double> m;
+  m.flicker_band_shortest = 1;
+  m.flicker_band_longest = 1000;
+  return m;
+}
+
 // Grouped by meaning, not packed: read once from the command line.
 struct Settings {  // NOLINT(clang-analyzer-optin.performance.Padding)
   bool delta = false;
@@ -131,6 +154,10 @@ struct Settings {  // NOLINT(clang-analyzer-optin.performance.Padding)
   std::vector<VibrationOption> vibration;
   std::string output;
   std::string truth;
+  // The gyro's own errors (SI), added to every sample when any is given.
+  bool has_errors = false;
+  GyroErrorModel<double> errors = default_errors();
+  std::uint64_t seed = 1;
 };
 
 // The user's motion: a turn carrying classical coning carrying vibration lines, each part
@@ -194,6 +221,20 @@ bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FIL
   // rounding of duration*rate, e.g. 0.3 s at 10 Hz).
   const auto last = static_cast<std::int64_t>(std::floor(s.duration_s * s.rate_hz * (1.0 + 1e-12)));
   double previous_t = 0.0;
+  // The errors: a still gyro's output, sample for sample (its index runs with k: rates from
+  // k = 0, delta-angles from k = 1).
+  const ConstantRateMotion<Real> still{Quaternion<Real>::identity(), Vector3<Real>::zero()};
+  GyroErrorModel<Real> model;
+  model.bias = {static_cast<Real>(s.errors.bias.x), static_cast<Real>(s.errors.bias.y),
+                static_cast<Real>(s.errors.bias.z)};
+  model.noise_density = static_cast<Real>(s.errors.noise_density);
+  model.rate_random_walk = static_cast<Real>(s.errors.rate_random_walk);
+  model.bias_instability = static_cast<Real>(s.errors.bias_instability);
+  model.flicker_band_shortest = static_cast<Real>(s.errors.flicker_band_shortest);
+  model.flicker_band_longest = static_cast<Real>(s.errors.flicker_band_longest);
+  SyntheticGyro<Real, ConstantRateMotion<Real>> sensor(
+      still, s.delta ? GyroOutputForm::delta_angle : GyroOutputForm::rate,
+      Real(1) / static_cast<Real>(s.rate_hz), model, s.seed);
   for (std::int64_t k = 0; k <= last; ++k) {
     const double t = static_cast<double>(k) / s.rate_hz;  // from the integer k, never accumulated
     if (truth != nullptr) {
@@ -212,6 +253,9 @@ bool write_log(const Motion& motion, const Settings& s, std::FILE* log, std::FIL
       v = truth_delta_angle(motion, static_cast<Real>(previous_t), static_cast<Real>(t));
     }
     previous_t = t;
+    if (s.has_errors) {
+      v += sensor.next();
+    }
     write_csv_row(log,
                   std::array<double, 4>{t, static_cast<double>(v.x), static_cast<double>(v.y),
                                         static_cast<double>(v.z)},
@@ -252,6 +296,61 @@ bool motion_part(const std::string& a, const std::string& value, Settings& s) {
   return true;
 }
 
+// A gyro-error option (--angle-random-walk[-deg], --bias-instability[-deg], --flicker-band,
+// --rate-random-walk[-deg], --gyro-bias[-deg], --seed) with its value; false if `a` is none.
+bool sensor_error_part(const std::string& a, const std::string& value, Settings& s) {
+  const bool degrees = a.size() > 4 && a.compare(a.size() - 4, 4, "-deg") == 0;
+  const std::string name = degrees ? a.substr(0, a.size() - 4) : a;
+  double x = 0;
+  const auto non_negative = [&]() {
+    if (!tools::detail::parse_number(value, x) || x < 0) {
+      usage_error(a + " '" + value + "': expected a finite number >= 0");
+    }
+    return x;
+  };
+  if (name == "--angle-random-walk") {
+    non_negative();
+    s.errors.noise_density = degrees ? angle_random_walk_from_degrees_per_root_hour(x) : x;
+  } else if (name == "--bias-instability") {
+    non_negative();
+    s.errors.bias_instability = degrees ? rate_from_degrees_per_hour(x) : x;
+  } else if (name == "--rate-random-walk") {
+    non_negative();
+    s.errors.rate_random_walk = degrees ? rate_random_walk_from_degrees_per_hour_root_hour(x) : x;
+  } else if (name == "--gyro-bias") {
+    std::array<double, 3> b{};
+    if (!tools::detail::parse_triple(value, b, true)) {
+      usage_error(a + " '" + value + "': expected three finite numbers X,Y,Z (" +
+                  (degrees ? "deg/h" : "rad/s") + ")");
+    }
+    for (double& c : b) c = degrees ? rate_from_degrees_per_hour(c) : c;
+    s.errors.bias = {b[0], b[1], b[2]};
+  } else if (a == "--flicker-band") {
+    std::array<double, 2> band{};
+    const std::size_t comma = value.find(',');
+    if (comma == std::string::npos || !parse_positive(value.substr(0, comma), band[0]) ||
+        !parse_positive(value.substr(comma + 1), band[1]) || !(band[1] > band[0])) {
+      usage_error("--flicker-band '" + value + "': expected LO,HI with 0 < LO < HI (s)");
+    }
+    s.errors.flicker_band_shortest = band[0];
+    s.errors.flicker_band_longest = band[1];
+    return true;  // the band alone adds no error
+  } else if (a == "--seed") {
+    char* end = nullptr;
+    errno = 0;
+    const unsigned long long seed = std::strtoull(value.c_str(), &end, 10);
+    if (value.empty() || value[0] == '-' || *end != '\0' || errno != 0) {
+      usage_error("--seed '" + value + "': expected a whole number >= 0");
+    }
+    s.seed = seed;
+    return true;
+  } else {
+    return false;
+  }
+  s.has_errors = true;
+  return true;
+}
+
 Settings parse_settings(int argc, char** argv) {
   Settings s;
   for (int i = 1; i < argc; ++i) {
@@ -261,15 +360,17 @@ Settings parse_settings(int argc, char** argv) {
       std::fputs(help_text, stdout);
       std::exit(exit_ok);
     }
-    const bool takes_value = a == "--motion" || a == "--form" || a == "--rate" ||
-                             a == "--duration" || a == "--output" || a == "--truth" ||
-                             a == "--turn" || a == "--turn-deg" || a == "--coning" ||
-                             a == "--vibration";
+    const bool takes_value =
+        a == "--motion" || a == "--form" || a == "--rate" || a == "--duration" || a == "--output" ||
+        a == "--truth" || a == "--turn" || a == "--turn-deg" || a == "--coning" ||
+        a == "--vibration" || a == "--seed" || a == "--flicker-band" ||
+        a.rfind("--angle-random-walk", 0) == 0 || a.rfind("--bias-instability", 0) == 0 ||
+        a.rfind("--rate-random-walk", 0) == 0 || a.rfind("--gyro-bias", 0) == 0;
     if (!takes_value) usage_error("unknown option or argument '" + a + "'");
     if (i + 1 >= argc) usage_error("option " + a + " needs a value");
     // NOLINTNEXTLINE(cppcoreguidelines-pro-bounds-pointer-arithmetic): main's argv, index < argc
     const std::string value = argv[++i];
-    if (motion_part(a, value, s)) continue;
+    if (motion_part(a, value, s) || sensor_error_part(a, value, s)) continue;
     if (a == "--motion") {
       s.motion = value;
     } else if (a == "--form") {

@@ -287,6 +287,43 @@ TEST_CASE(
   }
 }
 
+TEST_CASE("a still log from halfspin-gyro-log gives back the datasheet figures it was made with",
+          "[tools]") {
+  // The user's path: halfspin-gyro-log writes a still gyro with an invented datasheet's angle
+  // random walk (0.5 deg/sqrt(h)) and bias (20 deg/h), this tool reads N back (Annex C: the
+  // -1/2 line at tau = 1 s) within its interval, and the mean rate is the bias (common practice,
+  // no source: 1 deg/sqrt(h) = pi/180/60 rad/sqrt(s), 1 deg/h = pi/180/3600 rad/s).
+  const fs::path dir = work_dir("from_gyro_log");
+  const fs::path log = dir / "still.csv";
+  const Run made =
+      run(HALFSPIN_GYRO_LOG_EXE,
+          {"--turn", "0,0,0", "--rate", "100", "--duration", "300", "--angle-random-walk-deg",
+           "0.5", "--gyro-bias-deg", "20,20,20", "--seed", "11", "--output", log.string()},
+          dir);
+  REQUIRE(made.code == 0);
+  // 99.9 % per axis, as the other cases here: three axes at 95 % each would miss one in seven
+  // runs by chance alone.
+  const Run r = run(
+      tool, {log.string(), "--confidence", "0.999", "--terms", (dir / "terms.csv").string()}, dir);
+  INFO(r.out << r.err);
+  REQUIRE(r.code == 0);
+  const double pi = std::acos(-1.0);
+  const double n = 0.5 * pi / 180 / 60;
+  const auto terms = read_terms(dir / "terms.csv");
+  for (const char axis : {'x', 'y', 'z'}) {
+    const TermRow& t = terms.at({axis, "angle_random_walk"});
+    INFO(axis << ": " << t.value << " [" << t.low << ", " << t.high << "], chosen " << n);
+    CHECK(t.visible);
+    CHECK(t.low <= n);
+    CHECK(n <= t.high);
+  }
+  // The mean rate is the bias, to N/sqrt(T) (3e-5 over 300 s; six of them allowed).
+  double mean_x = 0;
+  REQUIRE(std::sscanf(r.out.c_str() + r.out.find("mean rate (rad/s): x "),
+                      "mean rate (rad/s): x %lf", &mean_x) == 1);
+  CHECK(std::fabs(mean_x - 20 * pi / 180 / 3600) <= 6 * n / std::sqrt(300.0));
+}
+
 TEST_CASE("chi-squared quantiles match GSL", "[tools][reference]") {
   // Reference: GSL gsl_cdf_chisq_Pinv (up to ν = 10⁴, where GSL's inversion still converges).
   double worst = 0;

@@ -1,5 +1,6 @@
 // halfspin-gyro-log making the user's motion and halfspin-propagate on real-looking logs (issue 16,
 // items 5 and 6), run as a user would (tool_runner.hpp). Each check names its outside source.
+#include <algorithm>
 #include <array>
 #include <cmath>
 #include <cstddef>
@@ -533,5 +534,83 @@ TEST_CASE("an output that is not a regular file (a named pipe) is written in pla
       REQUIRE(std::system("sleep 0.01") == 0);
     }
     CHECK(slurp(drained).rfind("t,", 0) == 0);  // the CSV header arrived first
+  }
+}
+
+TEST_CASE("gyro-log adds a gyro's own errors: bias, white noise, seeded, and the truth stays exact",
+          "[tools]") {
+  // The errors are SyntheticGyro's (include/halfspin/truth/synthetic_gyro.hpp, checked against
+  // IEEE Std 952-1997 Annex C in tests/truth/); here: that the tool adds them to the exact samples
+  // and leaves the truth alone. Turn (0.3, -0.2, 0.5) rad/s, 1 kHz, 10 s.
+  const fs::path dir = work_dir("gyro_errors");
+  const std::vector<std::string> turn{"--turn", "0.3,-0.2,0.5", "--rate",
+                                      "1000",   "--duration",   "10"};
+  const auto make = [&](const std::string& name, std::vector<std::string> extra,
+                        const std::string& form = "rate") {
+    std::vector<std::string> args = turn;
+    args.insert(args.end(), {"--form", form, "--output", (dir / (name + ".csv")).string(),
+                             "--truth", (dir / (name + "_truth.csv")).string()});
+    args.insert(args.end(), extra.begin(), extra.end());
+    const Run r = gyro_log(args, dir);
+    INFO(name << ": " << r.err);
+    REQUIRE(r.code == 0);
+    return read_csv(dir / (name + ".csv"));
+  };
+  const Csv clean = make("clean", {});
+  // A constant bias in deg/h (common practice, no source: 1 deg/h = pi/180/3600 rad/s): every
+  // sample is the exact one plus the bias, to the rounding of the written values.
+  const Csv biased = make("biased", {"--gyro-bias-deg", "36,-18,0"});
+  const double deg_per_hour = std::acos(-1.0) / 180 / 3600;
+  const std::array<double, 3> bias{36 * deg_per_hour, -18 * deg_per_hour, 0};
+  REQUIRE(biased.rows.size() == clean.rows.size());
+  double worst = 0;
+  for (std::size_t i = 0; i < clean.rows.size(); ++i) {
+    for (std::size_t a = 0; a < 3; ++a) {
+      worst = std::max(worst, std::fabs(biased.rows[i][a + 1] - clean.rows[i][a + 1] - bias[a]));
+    }
+  }
+  CHECK(worst <= 2e-16);
+  CHECK(slurp(dir / "biased_truth.csv") == slurp(dir / "clean_truth.csv"));
+  // White rate noise N: a rate sample's error has variance N^2 / dt, a delta-angle's N^2 dt
+  // (Annex C's angle random walk). Checked per axis on 10^4 samples: the sample variance within
+  // 6 standard errors (sqrt(2/n), the normal approximation of chi-squared), the mean within 6
+  // sigma/sqrt(n) of zero.
+  const double n = 1e-3;
+  for (const std::string form : {"rate", "delta"}) {
+    const Csv exact = form == "rate" ? clean : make("clean_delta", {}, "delta");
+    const Csv noisy = make("noisy_" + form, {"--angle-random-walk", "1e-3", "--seed", "5"}, form);
+    const double variance = form == "rate" ? n * n * 1000 : n * n / 1000;
+    REQUIRE(noisy.rows.size() == exact.rows.size());
+    const auto count = static_cast<double>(exact.rows.size());
+    for (std::size_t a = 0; a < 3; ++a) {
+      double sum = 0, squares = 0;
+      for (std::size_t i = 0; i < exact.rows.size(); ++i) {
+        const double e = noisy.rows[i][a + 1] - exact.rows[i][a + 1];
+        sum += e;
+        squares += e * e;
+      }
+      INFO(form << " axis " << a);
+      CHECK(std::fabs(sum / count) <= 6 * std::sqrt(variance / count));
+      CHECK(squares / count == Approx(variance).epsilon(6 * std::sqrt(2 / count)));
+    }
+  }
+  // Seeded: the same seed writes the same file, another seed another one.
+  make("again", {"--angle-random-walk", "1e-3", "--seed", "5"});
+  make("other", {"--angle-random-walk", "1e-3", "--seed", "6"});
+  CHECK(slurp(dir / "again.csv") == slurp(dir / "noisy_rate.csv"));
+  CHECK(slurp(dir / "other.csv") != slurp(dir / "noisy_rate.csv"));
+  // Bad values exit 1 and name the option.
+  for (const std::vector<std::string>& bad :
+       {std::vector<std::string>{"--angle-random-walk", "-1"},
+        std::vector<std::string>{"--rate-random-walk-deg", "x"},
+        std::vector<std::string>{"--flicker-band", "10,1"},
+        std::vector<std::string>{"--gyro-bias", "1,2"}, std::vector<std::string>{"--seed", "-3"}}) {
+    std::vector<std::string> args = turn;
+    args.insert(args.end(), {"--output", (dir / "bad.csv").string()});
+    args.insert(args.end(), bad.begin(), bad.end());
+    const Run r = gyro_log(args, dir);
+    INFO(bad[0] << " " << bad[1] << ": " << r.err);
+    CHECK(r.code == 1);
+    CHECK(r.err.find(bad[0]) != std::string::npos);
   }
 }
