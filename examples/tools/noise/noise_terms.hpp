@@ -13,17 +13,12 @@
 // times that of n − 1 independent ones (a sum of squares of an MA(1) sequence with correlation
 // −½: the squares correlate at ¼, so Var Σ = (n − 1)·Var·(1 + 2·¼); common practice, no
 // source; flicker and white phase noise are worse). So the m = 1 point gets ν = (n − 1)/2,
-// which covers white phase (quantization), white rate and flicker rate noise alike. Measured
-// on still logs of white rate noise alone (halfspin-gyro-log --turn 0,0,0 --rate 100
-// --angle-random-walk-deg 0.5, seeds 100..139, 300 s; the loop is in README.md): N's 95 %
-// interval held the true value in 97 of 120 axis-logs with ν = n − 1 at m = 1, in 115 of 120
-// with this. On shorter logs it still holds less often than it says (150 s: 216 of 240; 60 s:
-// 333 of 360), and the misses are nearly all low: the joint fit gives the B and K lines small
-// spurious shares that it subtracts from N's points. Not yet corrected. Quantiles: the regularized
-// incomplete gamma function by its series and continued fraction (Abramowitz and Stegun 6.5.29
-// and 6.5.31, from memory), inverted by bisection; above ν = 10⁴ the Wilson–Hilferty cube-root
-// normal approximation (common practice, no source; relative error far below the interval's width
-// there).
+// which covers white phase (quantization), white rate and flicker rate noise alike (measured
+// coverage of N's 95 % interval on still logs of white rate noise alone: README.md).
+// Quantiles: the regularized incomplete gamma function by its series and continued fraction
+// (Abramowitz and Stegun 6.5.29 and 6.5.31, from memory), inverted by bisection; above ν = 10⁴ the
+// Wilson–Hilferty cube-root normal approximation (common practice, no source; relative error far
+// below the interval's width there).
 //
 // Terms (IEEE Std 952-1997 Annex C relations): with σ²(τ) = Σ C_p τ^p,
 //     quantization Q      (slope −1 in σ):   σ² = 3Q²/τ²,           Q = σ(√3 s), rad
@@ -33,7 +28,12 @@
 // The four lines are fitted together to the curve: weighted least squares on σ² with
 // non-negative coefficients (every subset of the terms solved, the best non-negative one
 // kept), weights ν_i/(2 σ²_model(τ_i)²) (the chi-squared variance of σ̂²), reweighted twice
-// from the model so that low scatter does not pull the fit down. Fitting them together keeps a
+// from the model so that low scatter does not pull the fit down. Each term in a subset costs
+// the 99 % point of chi-squared with one degree of freedom (6.63) in the weighted residual: a
+// likelihood-ratio test at 1 % per added term, so a term enters only where the curve needs it.
+// Without it the fit always found small B and K shares in a log of white noise alone and took
+// them off N, whose 95 % interval then held the true value in only 90–93 % of short logs
+// (measured, README.md). Fitting them together keeps a
 // neighbour's overlap out of each line (a line fitted alone near a corner reads high). A term is
 // visible where its line carries at least half of the fitted σ² at a point with at least 4
 // clusters; otherwise "not visible in this log", with the upper limit the curve allows: the least
@@ -46,6 +46,7 @@
 // model (the chart shows the curve whatever it holds).
 #include <algorithm>
 #include <array>
+#include <bitset>
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -260,6 +261,7 @@ inline AxisTerms fit_terms(const std::vector<AllanPoint>& curve, std::size_t axi
   }
   AxisTerms r;
   if (tau.empty()) return r;
+  const double added_term_cost = chi_squared_quantile(0.99, 1.0);
   std::vector<double> model = value;
   for (int iteration = 0; iteration < 3; ++iteration) {
     std::vector<double> weight(tau.size());
@@ -280,8 +282,12 @@ inline AxisTerms fit_terms(const std::vector<AllanPoint>& curve, std::size_t axi
         for (std::size_t p = 0; p < term_count; ++p) m += c[p] * std::pow(tau[i], term_power[p]);
         residual += weight[i] * (value[i] - m) * (value[i] - m);
       }
-      if (residual < best) {
-        best = residual;
+      // Each term in the subset must earn its place (header: the 99 % point of chi-squared
+      // with one degree of freedom per term).
+      const double penalized =
+          residual + added_term_cost * static_cast<double>(std::bitset<term_count>(mask).count());
+      if (penalized < best) {
+        best = penalized;
         best_c = c;
       }
     }
