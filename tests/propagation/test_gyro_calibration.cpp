@@ -392,8 +392,31 @@ TEMPLATE_TEST_CASE("non-finite parameters and a bad temperature range are reject
   p = invented_parameters<T>();
   p.min_temperature = T(30);  // min above T0 (and below max)
   REQUIRE(check_of(p) == CalibrationCheck::bad_temperature_range);
-  REQUIRE(std::string(calibration_check_name(CalibrationCheck::bad_temperature_range)) ==
-          "bad_temperature_range");
+  // Stable names for logs: one per check, none "unknown".
+  const std::array<std::string, 5> names{
+      calibration_check_name(CalibrationCheck::valid),
+      calibration_check_name(CalibrationCheck::non_finite_parameter),
+      calibration_check_name(CalibrationCheck::bad_temperature_range),
+      calibration_check_name(CalibrationCheck::not_positive_determinant),
+      calibration_check_name(CalibrationCheck::ill_conditioned)};
+  REQUIRE(names[2] == "bad_temperature_range");
+  for (std::size_t i = 0; i < names.size(); ++i) {
+    REQUIRE(names[i] != "unknown");
+    for (std::size_t j = 0; j < i; ++j) {
+      REQUIRE(names[i] != names[j]);
+    }
+  }
+  // A valid stage gives its parameters back as given; an invalid one NaN in M and the biases.
+  const GyroCalibrationParameters<T> given = invented_parameters<T>();
+  const GyroCalibrationParameters<T> back = GyroCalibration<T>(given).parameters();
+  REQUIRE(std::memcmp(&back, &given, sizeof given) == 0);
+  GyroCalibrationParameters<T> broken = given;
+  broken.bias.y = std::numeric_limits<T>::quiet_NaN();
+  const GyroCalibrationParameters<T> poisoned = GyroCalibration<T>(broken).parameters();
+  REQUIRE(std::isnan(poisoned.scale_misalignment(1, 1)));
+  REQUIRE(std::isnan(poisoned.bias.x));
+  REQUIRE(std::isnan(poisoned.bias_slope.z));
+  REQUIRE(poisoned.max_temperature == given.max_temperature);
 }
 
 // Outside source: Eigen 3 (determinant and κ∞ in long double).
