@@ -12,7 +12,8 @@ instruction with the same Cortex-M4 timing table as cycle_estimate.py (FROM MEMO
 "taken" when the next executed address is not the next instruction). qemu models no time: these
 are instruction-timing estimates along the executed path, not measurements, and assume zero wait
 states and no stalls. Reported: executed instructions and estimated cycles per step (mean over
-the image's calls).
+the image's calls). Propagator images without a step image (`<stepper>+calibrated`: the gyro
+calibration stage) get a row of their own and the cycles they add per sample to `<stepper>`.
 """
 import os
 import re
@@ -119,15 +120,38 @@ def main(argv):
           "| executed instructions per sample, propagator | estimated cycles per sample, "
           "propagator |")
     print("|---|---:|---:|---:|---:|")
+    propagator_cycles = {}
     for image in images:
         name = image[len("footprint_"):-len("_float_step.elf")]
         n, c, _ = price(os.path.join(footprint, image))
         propagator = os.path.join(footprint, image[:-len("step.elf")] + "propagator.elf")
         if os.path.exists(propagator):
             pn, pc, _ = price(propagator, function=PUSH_FUNCTION)
+            propagator_cycles[name] = (pn, pc)
             print(f"| `{name}` | {n:.0f} | {c:.0f} | {pn:.0f} | {pc:.0f} |")
         else:
             print(f"| `{name}` | {n:.0f} | {c:.0f} | – | – |")
+    # Propagator images without a step image: the calibration stage (<stepper>+calibrated), which
+    # acts per sample before the stepper, so only its propagator image means something.
+    only = sorted(f for f in os.listdir(footprint) if f.endswith("_float_propagator.elf") and
+                  f[:-len("propagator.elf")] + "step.elf" not in images)
+    added = []
+    for image in only:
+        name = image[len("footprint_"):-len("_float_propagator.elf")]
+        pn, pc, _ = price(os.path.join(footprint, image), function=PUSH_FUNCTION)
+        print(f"| `{name}` | – | – | {pn:.0f} | {pc:.0f} |")
+        base = name.split("+")[0]
+        if name.endswith("+calibrated") and base in propagator_cycles:
+            bn, bc = propagator_cycles[base]
+            added.append(f"| `{base}` | {pn - bn:.1f} | {pc - bc:.1f} |")
+    if added:
+        print("\nAdded by the gyro calibration stage (gyro_calibration.hpp) per sample, "
+              "`<stepper>+calibrated` minus `<stepper>` (same plain accumulation):\n")
+        print("| stepper | executed instructions added per sample | estimated cycles added per "
+              "sample |")
+        print("|---|---:|---:|")
+        for line in added:
+            print(line)
     return 0
 
 

@@ -2,8 +2,8 @@
 // uninstantiated templates only superficially, so this unit instantiates the library's templates
 // in float and double, with inputs the analyzer cannot see through. The steppers, the propagator,
 // the bounds and the truth motions are instantiated by the tools (examples/tools/), which are
-// analysed too; this unit covers the rest: core, every representation, the batch propagator and
-// the two-speed accumulator.
+// analysed too; this unit covers the rest: core, every representation, the batch propagator,
+// the two-speed accumulator and the gyro calibration stage.
 #include "halfspin/halfspin.hpp"
 
 namespace halfspin {
@@ -22,6 +22,15 @@ template class BatchPropagator<double, 4>;
 template class BatchPropagator<float, 3, NoRenormalization>;
 template class BatchPropagator<float, 8, FirstOrderRenormalization, CompensatedAccumulation>;
 template class BatchPropagator<double, 4, NoRenormalization, CompensatedAccumulation>;
+// The gyro calibration stage and a calibrated propagator of each sample layout.
+template struct GyroCalibrationParameters<float>;
+template struct GyroCalibrationParameters<double>;
+template class GyroCalibration<float>;
+template class GyroCalibration<double>;
+template class Propagator<float, Coning2Sample, FirstOrderRenormalization, CompensatedAccumulation,
+                          GyroCalibration<float>>;
+template class Propagator<double, Magnus4, ExactRenormalization, PlainAccumulation,
+                          GyroCalibration<double>>;
 // The tools evaluate truth in long double only.
 template struct VibrationLinesMotion<float>;
 template struct VibrationLinesMotion<double>;
@@ -70,6 +79,21 @@ T exercise(const Quaternion<T>& q, const Quaternion<T>& r, const Vector3<T>& v, 
   sink += sensor_attitude_error(gyro, r.w).combined_rad + sensor_fraction_budget(gyro, r.x, r.y) +
           angle_random_walk_from_degrees_per_root_hour(v.x) + rate_from_degrees_per_hour(v.y) +
           rate_random_walk_from_degrees_per_hour_root_hour(v.z);
+  GyroCalibrationParameters<T> parameters;
+  parameters.scale_misalignment = m;
+  parameters.bias = v;
+  const GyroCalibration<T> stage(parameters);
+  sink += norm(stage.rate(v)) + norm(stage.delta_angle(v, T(1e-3))) +
+          (stage.check() == CalibrationCheck::valid ? T(1) : T(0));
+  sink += calibration_check_name(stage.check())[0] == 'v' ? T(1) : T(0);
+  CalibratedPropagator<T, Coning2Sample> calibrated(q, GyroLimits<T>{T(35), T(0.01)}, stage);
+  sink += calibrated.set_temperature(v.x) == Status::ok ? T(1) : T(0);
+  sink += calibrated.push(v, T(1e-3)) == Status::ok ? norm(calibrated.attitude()) : T(0);
+  CalibratedPropagator<T, RungeKutta4RateFunction> rate_function(q, GyroLimits<T>{T(35), T(0.01)},
+                                                                 stage);
+  sink += rate_function.advance([&v](T tau) noexcept { return tau * v; }, T(1e-3)) == Status::ok
+              ? norm(rate_function.attitude()) + norm(rate_function.calibration().bias())
+              : T(0);
 
   TwoSpeedAccumulator<T> accumulator(4);
   if (accumulator.add(v)) {

@@ -37,6 +37,7 @@
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
 #include "halfspin/propagation/explicit_runge_kutta.hpp"
 #include "halfspin/propagation/exponential_map_step.hpp"
+#include "halfspin/propagation/gyro_calibration.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/lie_group_runge_kutta.hpp"
 #include "halfspin/propagation/magnus4.hpp"

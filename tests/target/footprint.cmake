@@ -102,6 +102,37 @@ foreach(stepper_name IN ITEMS exponential_map_hold_end coning_1_sample coning_2_
       "${image} ${stepper_name}+compensated float ${mode} ${stepper_type}\n")
   endforeach()
 endforeach()
+# The gyro calibration stage (gyro_calibration.hpp) on a few steppers, propagator images only
+# (the stage acts per sample, before the stepper): rates with windows of 1 and 3 samples, and
+# delta-angles (M·(Δθ − b·dt)). Same plain accumulation as the stepper's own propagator image, so
+# the difference is the stage's per-sample cost (bench/target/cycle_trace.py prints it as
+# "<stepper>+calibrated") and its flash.
+foreach(entry IN ITEMS exponential_map_hold_end|float coning_1_sample|float
+                       coning_2_sample|float,double magnus_4|float runge_kutta_4_sampled|float)
+  string(REPLACE "|" ";" fields "${entry}")
+  list(GET fields 0 stepper_name)
+  list(GET fields 1 scalars)
+  string(REPLACE "," ";" scalars "${scalars}")
+  list(FIND _catalogue_names ${stepper_name} at)
+  if(at EQUAL -1)
+    message(FATAL_ERROR "footprint.cmake: ${stepper_name} is not in the stepper catalogue")
+  endif()
+  list(GET _catalogue_types ${at} stepper_type)
+  foreach(scalar IN LISTS scalars)
+    set(image footprint_${stepper_name}+calibrated_${scalar}_propagator)
+    halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
+    target_compile_definitions(${image} PRIVATE
+      "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
+      "HALFSPIN_FOOTPRINT_SCALAR=${scalar}"
+      "HALFSPIN_FOOTPRINT_STEP_ONLY=0"
+      "HALFSPIN_FOOTPRINT_CALIBRATION=1")
+    target_compile_options(${image} PRIVATE -fstack-usage)
+    halfspin_footprint_warnings(${image})
+    set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
+    string(APPEND _halfspin_footprint_manifest
+      "${image} ${stepper_name}+calibrated ${scalar} propagator ${stepper_type}\n")
+  endforeach()
+endforeach()
 file(MAKE_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
 file(WRITE "${HALFSPIN_FOOTPRINT_DIR}/manifest.txt" "${_halfspin_footprint_manifest}")
 

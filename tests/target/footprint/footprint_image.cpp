@@ -12,6 +12,8 @@
 //                                 halfspin::PlainAccumulation); with another one the step image
 //                                 steps that policy's state (increment + accumulation) and the
 //                                 propagator image uses it
+//   HALFSPIN_FOOTPRINT_CALIBRATION  optional, 1: the propagator image holds the gyro calibration
+//                                 stage (gyro_calibration.hpp) with invented parameters
 //
 // The halfspin code sits in one non-inlined extern "C" function per image
 // (halfspin_footprint_push, halfspin_footprint_advance or halfspin_footprint_step), so that
@@ -25,6 +27,7 @@
 #include "halfspin/core/quaternion.hpp"
 #include "halfspin/core/vector3.hpp"
 #include "halfspin/propagation/compensated_accumulation.hpp"
+#include "halfspin/propagation/gyro_calibration.hpp"
 #include "halfspin/propagation/gyro_input.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "halfspin/propagation/renormalization.hpp"
@@ -34,6 +37,10 @@
 
 #if !defined(HALFSPIN_FOOTPRINT_ACCUMULATION)
 #define HALFSPIN_FOOTPRINT_ACCUMULATION halfspin::PlainAccumulation
+#endif
+
+#if !defined(HALFSPIN_FOOTPRINT_CALIBRATION)
+#define HALFSPIN_FOOTPRINT_CALIBRATION 0
 #endif
 
 #if !defined(HALFSPIN_FOOTPRINT_STEPPER) || !defined(HALFSPIN_FOOTPRINT_SCALAR) || \
@@ -166,21 +173,46 @@ int main() {
 #else
 
 namespace {
-using Propagator =
-    halfspin::Propagator<T, Stepper, halfspin::FirstOrderRenormalization, Accumulation>;
+using Calibration = std::conditional_t<HALFSPIN_FOOTPRINT_CALIBRATION != 0,
+                                       halfspin::GyroCalibration<T>, halfspin::NoCalibration>;
+using Propagator = halfspin::Propagator<T, Stepper, halfspin::FirstOrderRenormalization,
+                                        Accumulation, Calibration>;
+#if HALFSPIN_FOOTPRINT_CALIBRATION
+constexpr halfspin::GyroLimits<T> limits{T(35), T(0.01)};
+
+// Invented calibration: scale factors and misalignments of a few parts per thousand to per cent,
+// a bias of a few mrad/s with a slope of tens of µrad/s per °C; nothing measured.
+halfspin::GyroCalibrationParameters<T> invented_calibration() noexcept {
+  halfspin::GyroCalibrationParameters<T> p;
+  p.scale_misalignment = {{{T(1.012), T(0.0031), T(-0.0024)},
+                           {T(-0.0017), T(0.994), T(0.0042)},
+                           {T(0.0026), T(-0.0035), T(1.007)}}};
+  p.bias = {T(0.0021), T(-0.0013), T(0.0034)};
+  p.bias_slope = {T(2.0e-5), T(-1.5e-5), T(3.5e-5)};
+  p.reference_temperature = T(25);
+  p.min_temperature = T(-40);
+  p.max_temperature = T(85);
+  return p;
+}
+#endif
 }  // namespace
 
 // The propagator object lives in .bss/.data (not on the stack) so that its size shows up as a
 // symbol of its own in the RAM column.
 extern "C" {
+#if HALFSPIN_FOOTPRINT_CALIBRATION
+Propagator halfspin_footprint_propagator(Quat::identity(), limits,
+                                         halfspin::GyroCalibration<T>(invented_calibration()));
+#else
 Propagator halfspin_footprint_propagator(Quat::identity(), halfspin::GyroLimits<T>{T(35), T(0.01)});
+#endif
 }
 
 namespace {
 // A template, so that only the entry point for the stepper's layout is instantiated.
 template <class S>
 halfspin::Status push_once(
-    halfspin::Propagator<T, S, halfspin::FirstOrderRenormalization, Accumulation>& p,
+    halfspin::Propagator<T, S, halfspin::FirstOrderRenormalization, Accumulation, Calibration>& p,
     const Vec& sample, T dt) noexcept {
   if constexpr (S::layout == halfspin::SampleLayout::rate_function) {
     // Rate-function steppers take a callable instead of samples: a = the sample, b = −a/2.
@@ -199,6 +231,12 @@ extern "C" __attribute__((noinline)) halfspin::Status halfspin_footprint_push(co
 int main() {
   const unsigned repeat = halfspin_footprint_repeat;
   unsigned rejected = 0;
+#if HALFSPIN_FOOTPRINT_CALIBRATION
+  // A temperature within the calibrated range (°C), set once as firmware would between samples.
+  rejected +=
+      halfspin::is_rejection(halfspin_footprint_propagator.set_temperature(T(41.5))) ? 1u : 0u;
+  rejected += halfspin_footprint_propagator.calibration().valid() ? 0u : 1u;
+#endif
   for (unsigned r = 0; r < repeat; ++r) {
     for (std::size_t k = 0; k < input_count; ++k) {
       const halfspin::Status s = halfspin_footprint_push(read_sample(k), T(halfspin_footprint_dt));

@@ -152,6 +152,72 @@ void run_rate_function(const char* label = Policy::name) {
   trace.finish(p.elapsed_seconds());
 }
 
+// The gyro calibration stage (gyro_calibration.hpp) with invented parameters: a temperature set
+// before the first sample and changed half-way through the log, so that b(T) is recomputed and
+// both biases replay. Rate, delta-angle and rate-function steppers (the rate function is
+// calibrated per evaluated rate).
+halfspin::GyroCalibrationParameters<float> replay_calibration() {
+  halfspin::GyroCalibrationParameters<float> p;
+  p.scale_misalignment = {
+      {{1.0123f, 0.0037f, -0.0021f}, {-0.0044f, 0.9911f, 0.0029f}, {0.0018f, -0.0052f, 1.0064f}}};
+  p.bias = {0.0031f, -0.0017f, 0.0026f};
+  p.bias_slope = {2.5e-5f, -1.75e-5f, 3.25e-5f};
+  p.reference_temperature = 25.0f;
+  p.min_temperature = -40.0f;
+  p.max_temperature = 85.0f;
+  return p;
+}
+
+template <class Stepper, class Accumulation = halfspin::PlainAccumulation>
+void run_calibrated(const char* label) {
+  const halfspin::GyroCalibration<float> stage(replay_calibration());
+  if (!stage.valid()) {
+    std::printf("# %s/%s: invalid calibration (%s)\n", Stepper::name, label,
+                halfspin::calibration_check_name(stage.check()));
+    ++failures;
+  }
+  halfspin::CalibratedPropagator<float, Stepper, halfspin::FirstOrderRenormalization, Accumulation>
+      p(Quaternion<float>::identity(), limits, stage);
+  Trace trace('Q', Stepper::name, label);
+  const auto temperature = [&](float celsius) {
+    const Status status = p.set_temperature(celsius);
+    if (status != Status::ok) {
+      trace.reject(status);
+    }
+  };
+  temperature(31.3f);
+  GyroLog log;
+  Vector3<float> start{};
+  for (int k = 0; k < sample_count; ++k) {
+    if (k == sample_count / 2) {
+      temperature(38.7f);
+    }
+    const GyroSample s = log.next();
+    Status status;
+    if constexpr (Stepper::layout == halfspin::SampleLayout::rate_function) {
+      if (k == 0) {  // the first sample only starts the first interval
+        start = s.rate;
+        continue;
+      }
+      const Vector3<float> end = s.rate;
+      const auto rate_at = [&start, &end](float tau) noexcept {
+        return start + (tau * halfspin_replay::sample_rate) * (end - start);
+      };
+      status = p.advance(rate_at, sample_period);
+      start = end;
+    } else {
+      status =
+          p.push(halfspin::carries_delta_angles(Stepper::layout) ? s.delta : s.rate, sample_period);
+    }
+    if (status == Status::ok) {
+      trace.step(p.attitude(), p.last_error_estimate());
+    } else if (status != Status::waiting_for_samples) {
+      trace.reject(status);
+    }
+  }
+  trace.finish(p.elapsed_seconds());
+}
+
 // The two-speed arrangement: delta-angles accumulated at the sample rate, the attitude updated
 // every fourth one, first-order renormalization after each update.
 void run_two_speed() {
@@ -307,6 +373,14 @@ int main() {
       "first_order+compensated");
   run_rate_function<RungeKutta4RateFunction, FirstOrderRenormalization, CompensatedAccumulation>(
       "first_order+compensated");
+
+  // The calibration stage: M·(ω − b(T)) and M·(Δθ − b(T)·dt) are products and sums, and b(T)
+  // one product and two sums, so they replay like the steps.
+  run_calibrated<ExponentialMapHoldEnd>("first_order+calibrated");
+  run_calibrated<RungeKutta4Sampled>("first_order+calibrated");
+  run_calibrated<Coning2Sample>("first_order+calibrated");
+  run_calibrated<Coning2Sample, CompensatedAccumulation>("first_order+compensated+calibrated");
+  run_calibrated<RungeKutta4RateFunction>("first_order+calibrated");
 
   run_libm_exponential();
   run_libm_exponential_calls();
