@@ -543,11 +543,11 @@ TEST_CASE("gyro-log adds a gyro's own errors: bias, white noise, seeded, and the
   // IEEE Std 952-1997 Annex C in tests/truth/); here: that the tool adds them to the exact samples
   // and leaves the truth alone. Turn (0.3, -0.2, 0.5) rad/s, 1 kHz, 10 s.
   const fs::path dir = work_dir("gyro_errors");
-  const std::vector<std::string> turn{"--turn", "0.3,-0.2,0.5", "--rate",
-                                      "1000",   "--duration",   "10"};
+  const std::vector<std::string> turn_args{"--turn", "0.3,-0.2,0.5", "--rate",
+                                           "1000",   "--duration",   "10"};
   const auto make = [&](const std::string& name, std::vector<std::string> extra,
                         const std::string& form = "rate") {
-    std::vector<std::string> args = turn;
+    std::vector<std::string> args = turn_args;
     args.insert(args.end(), {"--form", form, "--output", (dir / (name + ".csv")).string(),
                              "--truth", (dir / (name + "_truth.csv")).string()});
     args.insert(args.end(), extra.begin(), extra.end());
@@ -605,7 +605,7 @@ TEST_CASE("gyro-log adds a gyro's own errors: bias, white noise, seeded, and the
         std::vector<std::string>{"--rate-random-walk-deg", "x"},
         std::vector<std::string>{"--flicker-band", "10,1"},
         std::vector<std::string>{"--gyro-bias", "1,2"}, std::vector<std::string>{"--seed", "-3"}}) {
-    std::vector<std::string> args = turn;
+    std::vector<std::string> args = turn_args;
     args.insert(args.end(), {"--output", (dir / "bad.csv").string()});
     args.insert(args.end(), bad.begin(), bad.end());
     const Run r = gyro_log(args, dir);

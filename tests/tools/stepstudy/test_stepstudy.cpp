@@ -1344,9 +1344,9 @@ TEST_CASE("fix intervals under the sensor criterion meet it over themselves, and
       r.out, in_float, 60, gyro);
   // Magnus 4's first step alone is over the criterion for one step (2 kHz: dt = 1 ms).
   const auto d = worked_example().converted<float>();
-  const double one_step =
+  const auto one_step = static_cast<double>(
       halfspin::error_bound_after_steps<halfspin::Magnus4, float,
-                                        halfspin::CompensatedAccumulation>(d, 1e-3F, 1);
+                                        halfspin::CompensatedAccumulation>(d, 1e-3F, 1));
   CHECK(one_step > 0.1 * halfspin::sensor_attitude_error(gyro, 1e-3).combined_rad);
   CHECK(r.out.find("magnus_4                           step 1.0000e-03 s: no time between fixes",
                    in_float) < in_double);
