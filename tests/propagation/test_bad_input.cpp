@@ -4,7 +4,6 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
-#include <cstring>
 #include <limits>
 #include <vector>
 
@@ -14,6 +13,7 @@
 #include "halfspin/propagation/magnus4.hpp"
 #include "halfspin/propagation/propagator.hpp"
 #include "propagation_test_steppers.hpp"
+#include "rejection_checks.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
@@ -23,82 +23,16 @@ namespace {
 template <class T>
 constexpr GyroLimits<T> limits{T(35), T(0.1)};
 
-template <class T>
-bool same_bits(const Quaternion<T>& a, const Quaternion<T>& b) {
-  return std::memcmp(&a, &b, sizeof(Quaternion<T>)) == 0;
-}
+using test::same_bits;
 
-struct BadSample {
-  const char* what;
-  Status expected;
-};
-
-// Feeds `good` samples, offers one bad sample, then more good samples, to a propagator and to a
-// twin that skips the bad one; checks status, untouched attitude, count, identical continuation.
-template <class T, class Stepper, class Offer>
-void check_rejection(const char* what, Status expected, Offer offer_bad, T scale) {
-  INFO(what);
-  test::RandomRotations rng(601);
-  const Quaternion<T> q0 = rng.quaternion<T>();
-  Propagator<T, Stepper> p(q0, limits<T>, T(1e-4));
-  Propagator<T, Stepper> twin(q0, limits<T>, T(1e-4));
-  const T dt = T(1e-3);
-  // Leave the window partly filled so that the history matters.
-  for (int k = 0; k < 4; ++k) {
-    const Vector3<T> s = rng.unit_vector<T>() * scale;
-    p.push(s, dt);
-    twin.push(s, dt);
-  }
-  const Quaternion<T> before = p.attitude();
-  const std::uint64_t rejected_before = p.counters().rejected();
-  const Status got = offer_bad(p);
-  REQUIRE(got == expected);
-  REQUIRE(is_rejection(got));
-  REQUIRE(same_bits(p.attitude(), before));
-  REQUIRE(p.counters().rejected() == rejected_before + 1);
-  for (int k = 0; k < 6; ++k) {
-    const Vector3<T> s = rng.unit_vector<T>() * scale;
-    REQUIRE(p.push(s, dt) == twin.push(s, dt));
-    REQUIRE(same_bits(p.attitude(), twin.attitude()));
-  }
-  REQUIRE(p.counters().steps == twin.counters().steps);
-}
-
+// Every input class against a twin (support/rejection_checks.hpp), on a plain propagator with a
+// 35 rad/s gyro range and a 100 ms gap limit.
 template <class T, class Stepper>
 void check_all_classes(T scale, bool delta_angles) {
-  const T nan = std::numeric_limits<T>::quiet_NaN();
-  const T inf = std::numeric_limits<T>::infinity();
-  const T dt = T(1e-3);
-  const Vector3<T> ok = Vector3<T>{T(0.1), T(-0.2), T(0.3)} * scale;
-  for (int axis = 0; axis < 3; ++axis) {
-    for (const T bad : {nan, inf, -inf}) {
-      Vector3<T> s = ok;
-      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = bad;
-      check_rejection<T, Stepper>(
-          "non-finite component", Status::non_finite, [&](auto& p) { return p.push(s, dt); },
-          scale);
-    }
-    // Beyond the gyro's range on this axis (rate 36 rad/s > 35 rad/s; as a delta-angle over dt).
-    for (const T sign : {T(1), T(-1)}) {
-      Vector3<T> s = ok;
-      const T over = sign * T(36) * (delta_angles ? dt : T(1));
-      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = over;
-      check_rejection<T, Stepper>(
-          "over range", Status::over_range, [&](auto& p) { return p.push(s, dt); }, scale);
-    }
-  }
-  for (const T bad_dt : {T(0), T(-0.0), T(-1e-3), -std::numeric_limits<T>::denorm_min()}) {
-    check_rejection<T, Stepper>(
-        "non-positive step", Status::non_positive_step, [&](auto& p) { return p.push(ok, bad_dt); },
-        scale);
-  }
-  check_rejection<T, Stepper>(
-      "zero ticks", Status::non_positive_step, [&](auto& p) { return p.push(ok, Ticks{0}); },
-      scale);
-  for (const T bad_dt : {nan, inf, -inf}) {
-    check_rejection<T, Stepper>(
-        "non-finite step", Status::non_finite, [&](auto& p) { return p.push(ok, bad_dt); }, scale);
-  }
+  const auto make = [](const Quaternion<T>& q0) {
+    return Propagator<T, Stepper>(q0, limits<T>, T(1e-4));
+  };
+  test::check_every_input_class<T>(make, scale, delta_angles, 601);
 }
 
 }  // namespace

@@ -25,6 +25,7 @@
 #include "halfspin/truth/classical_coning.hpp"
 #include "halfspin/truth/synthetic_gyro.hpp"
 #include "propagation_test_steppers.hpp"
+#include "rejection_checks.hpp"
 #include "test_support.hpp"
 
 using namespace halfspin;
@@ -37,14 +38,7 @@ using LdVector = Eigen::Matrix<long double, 3, 1>;
 template <class T>
 constexpr GyroLimits<T> limits{T(35), T(0.1)};  // 2000 °/s full scale; gaps above 100 ms
 
-template <class T>
-bool same_bits(const Quaternion<T>& a, const Quaternion<T>& b) {
-  return std::memcmp(&a, &b, sizeof(Quaternion<T>)) == 0;
-}
-template <class T>
-bool same_bits(const Vector3<T>& a, const Vector3<T>& b) {
-  return std::memcmp(&a, &b, sizeof(Vector3<T>)) == 0;
-}
+using test::same_bits;
 
 template <class T>
 LdMatrix to_eigen(const Matrix3<T>& m) {
@@ -511,100 +505,27 @@ TEMPLATE_TEST_CASE("a condition number just inside the limit passes and just out
 
 namespace {
 
-// Feeds samples to a calibrated propagator and to a twin, offers one bad input to the first only,
-// then more samples to both: checks the status, the attitude bit for bit, the count of the class,
-// and an identical continuation (so the history and the stage's state were untouched too).
-template <class T, class Stepper, class Offer>
-void check_rejection(const char* what, Status expected, Offer offer_bad, T scale,
-                     const GyroLimits<T>& lim = limits<T>) {
-  INFO(what);
-  test::RandomRotations rng(602);
-  const Quaternion<T> q0 = rng.quaternion<T>();
-  GyroCalibration<T> stage(invented_parameters<T>());
-  REQUIRE(stage.set_temperature(T(47)) == Status::ok);
-  CalibratedPropagator<T, Stepper> p(q0, lim, stage, T(1e-4));
-  CalibratedPropagator<T, Stepper> twin(q0, lim, stage, T(1e-4));
-  const T dt = T(1e-3);
-  for (int k = 0; k < 4; ++k) {  // leaves a multi-sample window partly filled
-    const Vector3<T> s = rng.unit_vector<T>() * scale;
-    p.push(s, dt);
-    twin.push(s, dt);
-  }
-  const Quaternion<T> before = p.attitude();
-  const PropagationCounters counted = p.counters();
-  const Status got = offer_bad(p);
-  REQUIRE(got == expected);
-  REQUIRE(is_rejection(got));
-  REQUIRE(same_bits(p.attitude(), before));
-  REQUIRE(p.counters().rejected() == counted.rejected() + 1);
-  REQUIRE(p.counters().samples_accepted == counted.samples_accepted);
-  switch (expected) {
-    case Status::non_finite:
-      REQUIRE(p.counters().rejected_non_finite == counted.rejected_non_finite + 1);
-      break;
-    case Status::over_range:
-      REQUIRE(p.counters().rejected_over_range == counted.rejected_over_range + 1);
-      break;
-    case Status::non_positive_step:
-      REQUIRE(p.counters().rejected_non_positive_step == counted.rejected_non_positive_step + 1);
-      break;
-    case Status::step_too_long:
-    case Status::ok:
-    case Status::waiting_for_samples:
-      FAIL("not a class this test offers");
-      break;
-  }
-  for (int k = 0; k < 6; ++k) {
-    const Vector3<T> s = rng.unit_vector<T>() * scale;
-    REQUIRE(p.push(s, dt) == twin.push(s, dt));
-    REQUIRE(same_bits(p.attitude(), twin.attitude()));
-  }
-  REQUIRE(p.counters().steps == twin.counters().steps);
-}
-
+// Every input class against a twin (support/rejection_checks.hpp), on a calibrated propagator at
+// 47 °C; the range is the raw reading's: 36 rad/s is over a 35 rad/s gyro even where the stage
+// would scale it below (M's diagonal is 0.986–1.019, so not here either way). Then a raw sample
+// that is finite and within a gyro range of T's maximum, whose calibrated value overflows (M's
+// largest entry 1.0185 times a raw 0.99·max; over dt = 1 s for delta-angles, so that max_rate·dt
+// admits it): non_finite, state intact.
 template <class T, class Stepper>
 void check_all_classes(T scale, bool delta_angles) {
-  const T nan = std::numeric_limits<T>::quiet_NaN();
-  const T inf = std::numeric_limits<T>::infinity();
-  const T dt = T(1e-3);
-  const Vector3<T> ok = Vector3<T>{T(0.1), T(-0.2), T(0.3)} * scale;
-  for (int axis = 0; axis < 3; ++axis) {
-    for (const T bad : {nan, inf, -inf}) {
-      Vector3<T> s = ok;
-      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = bad;
-      check_rejection<T, Stepper>(
-          "non-finite raw component", Status::non_finite, [&](auto& p) { return p.push(s, dt); },
-          scale);
-    }
-    // The range is the raw reading's: 36 rad/s is over a 35 rad/s gyro even where the stage
-    // would scale it below (M's diagonal is 0.986–1.019, so not here either way).
-    for (const T sign : {T(1), T(-1)}) {
-      Vector3<T> s = ok;
-      (axis == 0 ? s.x : axis == 1 ? s.y : s.z) = sign * T(36) * (delta_angles ? dt : T(1));
-      check_rejection<T, Stepper>(
-          "raw over range", Status::over_range, [&](auto& p) { return p.push(s, dt); }, scale);
-    }
-  }
-  for (const T bad_dt : {T(0), T(-0.0), T(-1e-3)}) {
-    check_rejection<T, Stepper>(
-        "non-positive step", Status::non_positive_step, [&](auto& p) { return p.push(ok, bad_dt); },
-        scale);
-  }
-  check_rejection<T, Stepper>(
-      "zero ticks", Status::non_positive_step, [&](auto& p) { return p.push(ok, Ticks{0}); },
-      scale);
-  for (const T bad_dt : {nan, inf, -inf}) {
-    check_rejection<T, Stepper>(
-        "non-finite step", Status::non_finite, [&](auto& p) { return p.push(ok, bad_dt); }, scale);
-  }
-  // A raw sample that is finite and within a gyro range of T's maximum, whose calibrated value
-  // overflows (M's largest entry 1.0185 times a raw 0.99·max; over dt = 1 s for delta-angles, so
-  // that max_rate·dt admits it): non_finite, state intact.
+  GyroCalibration<T> stage(invented_parameters<T>());
+  REQUIRE(stage.set_temperature(T(47)) == Status::ok);
+  const auto make_with = [&stage](const GyroLimits<T>& lim) {
+    return [&stage, lim](const Quaternion<T>& q0) {
+      return CalibratedPropagator<T, Stepper>(q0, lim, stage, T(1e-4));
+    };
+  };
+  test::check_every_input_class<T>(make_with(limits<T>), scale, delta_angles, 602);
   const GyroLimits<T> wide{std::numeric_limits<T>::max(), T(2)};
   const Vector3<T> huge{std::numeric_limits<T>::max() * T(0.99), T(0), T(0)};
-  check_rejection<T, Stepper>(
-      "calibrated sample overflows", Status::non_finite,
-      [&](auto& p) { return p.push(huge, T(1)); }, scale, wide);
+  test::check_rejection_against_twin<T>(
+      "calibrated sample overflows", Status::non_finite, make_with(wide),
+      [&](auto& p) { return p.push(huge, T(1)); }, scale, 602);
 }
 
 }  // namespace

@@ -50,89 +50,77 @@ function(halfspin_add_footprint_executable name)
 endfunction()
 
 set(HALFSPIN_FOOTPRINT_DIR "${CMAKE_BINARY_DIR}/footprint")
-set(_halfspin_footprint_manifest "")
+set_property(GLOBAL PROPERTY HALFSPIN_FOOTPRINT_MANIFEST "")
 
+# The stepper type of a catalogued stepper name (fails at configure time for any other name).
+function(halfspin_footprint_stepper_type name out)
+  list(FIND _catalogue_names ${name} at)
+  if(at EQUAL -1)
+    message(FATAL_ERROR "footprint.cmake: ${name} is not in the stepper catalogue")
+  endif()
+  list(GET _catalogue_types ${at} type)
+  set(${out} ${type} PARENT_SCOPE)
+endfunction()
+
+# One footprint image: footprint_<stepper><variant>_<scalar>_<mode>, from footprint_image.cpp
+# with the stepper, scalar and mode, plus the variant's extra compile definitions; its manifest
+# line (image stepper<variant> scalar mode stepper-type) names the variant as
+# bench/target/cycle_trace.py reports it ("<stepper>+compensated", "<stepper>+calibrated").
+function(halfspin_add_footprint_image stepper_name scalar mode variant)
+  halfspin_footprint_stepper_type(${stepper_name} stepper_type)
+  set(image footprint_${stepper_name}${variant}_${scalar}_${mode})
+  halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
+  target_compile_definitions(${image} PRIVATE
+    "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
+    "HALFSPIN_FOOTPRINT_SCALAR=${scalar}"
+    "HALFSPIN_FOOTPRINT_STEP_ONLY=$<STREQUAL:${mode},step>"
+    ${ARGN})
+  # Per-function stack frames (<object>.su) for the report's stack column.
+  target_compile_options(${image} PRIVATE -fstack-usage)
+  halfspin_footprint_warnings(${image})
+  set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
+  set_property(GLOBAL APPEND_STRING PROPERTY HALFSPIN_FOOTPRINT_MANIFEST
+    "${image} ${stepper_name}${variant} ${scalar} ${mode} ${stepper_type}\n")
+endfunction()
+
+# Every stepper, its scalars, both modes.
 foreach(entry IN LISTS HALFSPIN_FOOTPRINT_STEPPERS)
   string(REPLACE "|" ";" fields "${entry}")
   list(GET fields 0 stepper_name)
-  list(GET fields 1 stepper_type)
   list(GET fields 2 scalars)
   string(REPLACE "," ";" scalars "${scalars}")
   foreach(scalar IN LISTS scalars)
     foreach(mode IN ITEMS propagator step)
-      set(image footprint_${stepper_name}_${scalar}_${mode})
-      halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
-      target_compile_definitions(${image} PRIVATE
-        "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
-        "HALFSPIN_FOOTPRINT_SCALAR=${scalar}"
-        "HALFSPIN_FOOTPRINT_STEP_ONLY=$<STREQUAL:${mode},step>")
-      # Per-function stack frames (<object>.su) for the report's stack column.
-      target_compile_options(${image} PRIVATE -fstack-usage)
-      halfspin_footprint_warnings(${image})
-      set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
-      # manifest line: image stepper scalar mode stepper-type
-      string(APPEND _halfspin_footprint_manifest
-        "${image} ${stepper_name} ${scalar} ${mode} ${stepper_type}\n")
+      halfspin_add_footprint_image(${stepper_name} ${scalar} ${mode} "")
     endforeach()
   endforeach()
 endforeach()
 # The compensated accumulation (compensated_accumulation.hpp) on a few steppers, float, the two
 # cheapest among them: its flash and its cycles, per step in the step images (increment +
-# accumulation) and per sample in the propagator images (reported by
-# bench/target/cycle_trace.py as "<stepper>+compensated").
+# accumulation) and per sample in the propagator images.
 foreach(stepper_name IN ITEMS exponential_map_hold_end coning_1_sample coning_2_sample
                              coning_3_sample magnus_4 runge_kutta_4_sampled commutator_free_4)
-  list(FIND _catalogue_names ${stepper_name} at)
-  if(at EQUAL -1)
-    message(FATAL_ERROR "footprint.cmake: ${stepper_name} is not in the stepper catalogue")
-  endif()
-  list(GET _catalogue_types ${at} stepper_type)
   foreach(mode IN ITEMS propagator step)
-    set(image footprint_${stepper_name}+compensated_float_${mode})
-    halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
-    target_compile_definitions(${image} PRIVATE
-      "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
-      "HALFSPIN_FOOTPRINT_SCALAR=float"
-      "HALFSPIN_FOOTPRINT_STEP_ONLY=$<STREQUAL:${mode},step>"
+    halfspin_add_footprint_image(${stepper_name} float ${mode} +compensated
       "HALFSPIN_FOOTPRINT_ACCUMULATION=halfspin::CompensatedAccumulation")
-    target_compile_options(${image} PRIVATE -fstack-usage)
-    halfspin_footprint_warnings(${image})
-    set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
-    string(APPEND _halfspin_footprint_manifest
-      "${image} ${stepper_name}+compensated float ${mode} ${stepper_type}\n")
   endforeach()
 endforeach()
 # The gyro calibration stage (gyro_calibration.hpp) on a few steppers, propagator images only
 # (the stage acts per sample, before the stepper): rates with windows of 1 and 3 samples, and
 # delta-angles (M·(Δθ − b·dt)). Same plain accumulation as the stepper's own propagator image, so
-# the difference is the stage's per-sample cost (bench/target/cycle_trace.py prints it as
-# "<stepper>+calibrated") and its flash.
+# the difference is the stage's per-sample cost and its flash.
 foreach(entry IN ITEMS exponential_map_hold_end|float coning_1_sample|float
                        coning_2_sample|float,double magnus_4|float runge_kutta_4_sampled|float)
   string(REPLACE "|" ";" fields "${entry}")
   list(GET fields 0 stepper_name)
   list(GET fields 1 scalars)
   string(REPLACE "," ";" scalars "${scalars}")
-  list(FIND _catalogue_names ${stepper_name} at)
-  if(at EQUAL -1)
-    message(FATAL_ERROR "footprint.cmake: ${stepper_name} is not in the stepper catalogue")
-  endif()
-  list(GET _catalogue_types ${at} stepper_type)
   foreach(scalar IN LISTS scalars)
-    set(image footprint_${stepper_name}+calibrated_${scalar}_propagator)
-    halfspin_add_footprint_executable(${image} footprint/footprint_image.cpp)
-    target_compile_definitions(${image} PRIVATE
-      "HALFSPIN_FOOTPRINT_STEPPER=${stepper_type}"
-      "HALFSPIN_FOOTPRINT_SCALAR=${scalar}"
-      "HALFSPIN_FOOTPRINT_STEP_ONLY=0"
+    halfspin_add_footprint_image(${stepper_name} ${scalar} propagator +calibrated
       "HALFSPIN_FOOTPRINT_CALIBRATION=1")
-    target_compile_options(${image} PRIVATE -fstack-usage)
-    halfspin_footprint_warnings(${image})
-    set_target_properties(${image} PROPERTIES RUNTIME_OUTPUT_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
-    string(APPEND _halfspin_footprint_manifest
-      "${image} ${stepper_name}+calibrated ${scalar} propagator ${stepper_type}\n")
   endforeach()
 endforeach()
+get_property(_halfspin_footprint_manifest GLOBAL PROPERTY HALFSPIN_FOOTPRINT_MANIFEST)
 file(MAKE_DIRECTORY "${HALFSPIN_FOOTPRINT_DIR}")
 file(WRITE "${HALFSPIN_FOOTPRINT_DIR}/manifest.txt" "${_halfspin_footprint_manifest}")
 
