@@ -35,7 +35,7 @@ class EigenExponentialMapRun {
  public:
   EigenExponentialMapRun() : gyro_(gyro_table<T>()) {}
 
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     const Vector3<T>& w = gyro_.rate[i_];
     const Eigen::Matrix<T, 3, 1> phi(w.x * dt_, w.y * dt_, w.z * dt_);
     const T angle = phi.norm();
@@ -86,7 +86,7 @@ class OdeintRk4Run {
     }
   }
 
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     const Kinematics system{&windows_[i_], T(0.25) * dt_};
     stepper_.do_step(system, q_, T(0), dt_);
     i_ = (i_ + 1) & table_mask;
@@ -113,7 +113,7 @@ class FloorExponentialMapRun {
  public:
   FloorExponentialMapRun() : gyro_(gyro_table<T>()) {}
 
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     const Vector3<T>& w = gyro_.rate[i_];
     const T px = w.x * dt_;
     const T py = w.y * dt_;

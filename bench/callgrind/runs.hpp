@@ -47,7 +47,7 @@ class BareStepRun {
     }
   }
 
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     if constexpr (rate_function) {
       const LinearRate<T> rate{gyro_.rate[i_], gyro_.rate_slope[i_]};
       q_ = Stepper::step(q_, rate, T(sample_period_s));
@@ -90,7 +90,7 @@ class PropagatorRun {
   }
 
   // One step: new_samples pushes (the last one steps), or one advance.
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     if constexpr (rate_function) {
       const LinearRate<T> rate{gyro_.rate[k_], gyro_.rate_slope[k_]};
       static_cast<void>(propagator_.advance(rate, dt_));

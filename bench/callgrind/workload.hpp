@@ -14,6 +14,19 @@
 //
 // Benchmark and tool code (not part of the installed library): it may use the standard library.
 
+// Every Run's step() (runs.hpp, baseline_runs.hpp) is flattened: every call in it inlined. A
+// firmware image holds one stepper and g++ inlines its whole step there; this binary holds every
+// stepper in both scalars, and past its unit-growth limit g++ 12 -O3 stopped inlining and called
+// the quaternion product and exponential out of line in both the bare step and the propagator
+// (callgrind: apply_increment and quaternion_exp_minus_one as functions of their own). Flattening
+// measures each path as it compiles alone. Functions marked noinline (the propagator's rare paths)
+// stay out of line, as they do in an image.
+#if defined(__GNUC__)
+#define HALFSPIN_BENCH_FLATTEN [[gnu::flatten]]
+#else
+#define HALFSPIN_BENCH_FLATTEN
+#endif
+
 #include <array>
 #include <cmath>
 #include <cstddef>

@@ -4,6 +4,7 @@
 // integral of that rate over its sample interval (t_prev, t], in rad.
 
 #include <cmath>
+#include <limits>
 
 #include "halfspin/core/vector3.hpp"
 #include "halfspin/propagation/status.hpp"
@@ -66,6 +67,46 @@ Status validate_delta_angle(const Vector3<T>& delta, T dt, const GyroLimits<T>& 
     return Status::over_range;
   }
   return Status::ok;
+}
+
+// The limits with each value brought into T's finite range (a larger, infinite or NaN value
+// becomes T's largest), for the one-pass acceptance tests below: with finite limits they need no
+// separate finiteness test (|x| ≤ a finite bound is false for a NaN or an infinite x).
+template <class T>
+constexpr GyroLimits<T> finite_limits(const GyroLimits<T>& limits) noexcept {
+  constexpr T largest = std::numeric_limits<T>::max();
+  return {limits.max_rate <= largest ? limits.max_rate : largest,
+          limits.max_step <= largest ? limits.max_step : largest};
+}
+
+// The common case in one pass, for `finite` = finite_limits(limits): true only when
+// validate_rate(rate, dt, limits) is ok, and exactly when it is if the limits were finite already
+// (an infinite or NaN limit, brought down to T's largest, can refuse a sample the validation
+// accepts; the caller then classifies it with validate_rate, which decides). Five comparisons and
+// no branch between them.
+template <class T>
+constexpr bool accepts_rate(const Vector3<T>& rate, T dt, const GyroLimits<T>& finite) noexcept {
+  const T r = finite.max_rate;
+  return static_cast<bool>(static_cast<int>(std::fabs(rate.x) <= r) &
+                           static_cast<int>(std::fabs(rate.y) <= r) &
+                           static_cast<int>(std::fabs(rate.z) <= r) & static_cast<int>(dt > T(0)) &
+                           static_cast<int>(dt <= finite.max_step));
+}
+
+// The same for a delta-angle and validate_delta_angle. The bound max_rate·dt is brought into the
+// finite range too (it overflows for a huge rate limit over a long step, and |±∞| ≤ ∞ would let an
+// infinite delta-angle pass); with max_rate ≤ the original limit it is never above the
+// validation's bound (rounding is monotonic), so acceptance still implies ok.
+template <class T>
+constexpr bool accepts_delta_angle(const Vector3<T>& delta, T dt,
+                                   const GyroLimits<T>& finite) noexcept {
+  constexpr T largest = std::numeric_limits<T>::max();
+  const T product = finite.max_rate * dt;
+  const T b = product <= largest ? product : largest;
+  return static_cast<bool>(static_cast<int>(std::fabs(delta.x) <= b) &
+                           static_cast<int>(std::fabs(delta.y) <= b) &
+                           static_cast<int>(std::fabs(delta.z) <= b) & static_cast<int>(dt > T(0)) &
+                           static_cast<int>(dt <= finite.max_step));
 }
 
 }  // namespace halfspin
