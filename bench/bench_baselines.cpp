@@ -29,7 +29,6 @@ BENCHMARK(measure<EigenExponentialMapRun<double>>)->Name("baseline/eigen_exponen
 BENCHMARK(measure<OdeintRk4Run<float>>)->Name("baseline/odeint_rk4/float");
 BENCHMARK(measure<OdeintRk4Run<double>>)->Name("baseline/odeint_rk4/double");
 BENCHMARK(measure<FirstOrderNormalizedRun<float>>)->Name("baseline/first_order_normalized/float");
-BENCHMARK(measure<FirstOrderNormalizedRun<double>>)
-    ->Name("baseline/first_order_normalized/double");
+BENCHMARK(measure<FirstOrderNormalizedRun<double>>)->Name("baseline/first_order_normalized/double");
 BENCHMARK(measure<FloorExponentialMapRun<float>>)->Name("floor/exponential_map/float");
 BENCHMARK(measure<FloorExponentialMapRun<double>>)->Name("floor/exponential_map/double");
