@@ -343,13 +343,14 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
     }
   }
   if (o.baseline) {
-    // The reference series: its own ink, its own legend words, and a label in each chart at its
-    // largest step, so that it cannot be read as one of the methods.
-    fig.legend.push_back({std::string(first_order_normalized_name) + ": " +
-                              first_order_normalized_label +
-                              " (reference, not a halfspin method; no bound)",
-                          svg::reference_series_colour});
-    for (const char* scalar : {"double", "float"}) {
+    // The reference series: its own ink, its own legend words, a note in the subtitle and one
+    // label in each chart, so that it cannot be read as one of the methods.
+    fig.subtitle += "; brown: a reference, not a halfspin method";
+    fig.legend.push_back(
+        {std::string("reference: ") + first_order_normalized_label, svg::reference_series_colour});
+    const std::string label = std::string(first_order_normalized_label) + " (reference)";
+    bool labelled = false;
+    for (const char* scalar : {"float", "double"}) {
       const bool is_double = std::string(scalar) == "double";
       svg::Series measured{svg::reference_series_colour,
                            svg::LineStyle::solid,
@@ -366,13 +367,17 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
       if (measured.points.empty()) {
         continue;
       }
-      const std::string label = std::string(first_order_normalized_label) + ", " + scalar;
-      const auto& last = measured.points.back();
-      error_chart.labels.push_back(
-          {last.first, last.second, label, svg::reference_series_colour, !is_double});
-      const auto& last_cost = cost.points.back();
-      cost_chart.labels.push_back(
-          {last_cost.first, last_cost.second, label, svg::reference_series_colour, !is_double});
+      if (!labelled) {
+        // Above a point a third of the way along the steps (the largest step's end of the chart
+        // meets the legend), and beside the costliest-but-one point of the cost chart.
+        const auto& at = measured.points[measured.points.size() / 3];
+        error_chart.labels.push_back({at.first, at.second, label, svg::reference_series_colour});
+        auto by_cost = cost.points;
+        std::sort(by_cost.begin(), by_cost.end());
+        const auto& c = by_cost[by_cost.size() > 1 ? by_cost.size() - 2 : 0];
+        cost_chart.labels.push_back({c.first, c.second, label, svg::reference_series_colour});
+        labelled = true;
+      }
       error_chart.series.push_back(measured);
       cost_chart.series.push_back(cost);
     }
