@@ -10,13 +10,17 @@
 //                       q̇ = ½ q ⊗ (0, ω), one do_step by hand per call (integrate_* would copy the
 //                       stepper); ω at a stage time is the sample at that node (start, middle,
 //                       end of a two-period step), the input runge_kutta_4_sampled takes
+//   FirstOrderNormalizedRun<T>  the first-order update many firmwares use today,
+//                       q ← q + ½·dt·q ⊗ (0, ω) then q/‖q‖ (a square root and a division),
+//                       with the latest rate sample (examples/tools/common/first_order_update.hpp,
+//                       the code halfspin-stepstudy's reference series runs)
 //   FloorExponentialMapRun<T>   the minimal hand-written kernel of the same math as
 //   exponential_map_hold_end:
 //                       φ = ω·dt, the series of cos(θ/2) and sin(θ/2)/θ to the θ⁶ term (the degree
 //                       the library keeps), one Hamilton product written out: the floor
 //
 // Like BareStepRun, the Odeint and floor runs normalize once per pass over the table (the Eigen
-// run normalizes every step, as specified).
+// and first-order runs normalize every step, as specified).
 
 #include <array>
 #include <cstddef>
@@ -25,6 +29,7 @@
 #include <Eigen/Geometry>
 #include <boost/numeric/odeint/stepper/runge_kutta4.hpp>
 
+#include "first_order_update.hpp"
 #include "halfspin/core/quaternion.hpp"
 #include "workload.hpp"
 
@@ -105,6 +110,26 @@ class OdeintRk4Run {
   boost::numeric::odeint::runge_kutta4<State, T, State, T> stepper_{};
   State q_{T(1), T(0), T(0), T(0)};
   T dt_ = T(2 * sample_period_s);
+  std::size_t i_ = 0;
+};
+
+template <class T>
+class FirstOrderNormalizedRun {
+ public:
+  FirstOrderNormalizedRun() : gyro_(gyro_table<T>()) {}
+
+  void step() noexcept {
+    q_ = tools::first_order_normalized_step(q_, gyro_.rate[i_], dt_);
+    i_ = (i_ + 1) & table_mask;
+  }
+
+  const Quaternion<T>& attitude() const noexcept { return q_; }
+  bool healthy_after(std::uint64_t /*steps*/) const noexcept { return healthy(q_); }
+
+ private:
+  const GyroTable<T>& gyro_;
+  Quaternion<T> q_ = Quaternion<T>::identity();
+  T dt_ = T(sample_period_s);
   std::size_t i_ = 0;
 };
 

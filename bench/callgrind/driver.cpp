@@ -6,10 +6,10 @@
 //   halfspin_callgrind_driver --list        every method: name, flops, sample-driven (1/0)
 //
 // <method> is a stepper's name (the step/… benchmarks) or eigen_exponential_map, odeint_rk4,
-// floor_exponential_map (the baselines; `step` mode only). `step` runs the bare step (BareStepRun),
-// `propagator` the Propagator path (PropagatorRun): the same loop bodies as halfspin_bench. Prints
-// the final attitude so that nothing can be optimized away; exit 1 if the run went wrong, 2 on bad
-// usage.
+// first_order_normalized, floor_exponential_map (the baselines; `step` mode only). `step` runs the
+// bare step (BareStepRun), `propagator` the Propagator path (PropagatorRun): the same loop bodies
+// as halfspin_bench. Prints the final attitude so that nothing can be optimized away; exit 1 if the
+// run went wrong, 2 on bad usage.
 //
 // Benchmark tool code (not part of the installed library).
 #include <cstdint>
@@ -47,6 +47,7 @@ int run_typed(std::string_view method, std::uint64_t steps, bool propagator) {
   if (!propagator) {
     if (method == "eigen_exponential_map") return run<bench::EigenExponentialMapRun<T>>(steps);
     if (method == "odeint_rk4") return run<bench::OdeintRk4Run<T>>(steps);
+    if (method == "first_order_normalized") return run<bench::FirstOrderNormalizedRun<T>>(steps);
     if (method == "floor_exponential_map") return run<bench::FloorExponentialMapRun<T>>(steps);
   }
   int status = 2;

@@ -24,6 +24,7 @@ import tempfile
 DEFAULT_PROPAGATOR = ["exponential_map_hold_end", "exponential_map_hold_start", "coning_1_sample",
                       "coning_2_sample", "magnus_4", "runge_kutta_4_sampled", "runge_kutta_4_rate_function"]
 BASELINES = [("eigen_exponential_map", "baseline/eigen_exponential_map"), ("odeint_rk4", "baseline/odeint_rk4"),
+             ("first_order_normalized", "baseline/first_order_normalized"),
              ("floor_exponential_map", "floor/exponential_map")]
 
 

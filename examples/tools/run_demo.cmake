@@ -1,7 +1,9 @@
 # The demo (`cmake --workflow --preset demo`, target run_demo): the invented survey drone of
 # examples/tools/common/demo_scenario.hpp — a banked turn carrying 85 Hz engine-vibration coning,
 # 1 kHz gyro, budget 0.1° over 10 minutes.
-#   1. halfspin-stepstudy on the scenario: the table, the recommendation, CSV and SVG under OUT;
+#   1. halfspin-stepstudy on the scenario: the table, the recommendation, CSV and SVG under OUT,
+#      with the first-order firmware update as a reference series (--baseline) and its same-cost
+#      factor line (float, at the demo's gyro rate);
 #   2. halfspin-gyro-log writes the scenario's 10-minute gyro log in the form the recommended
 #      method takes (rates or delta-angles), and the truth;
 #   3. halfspin-propagate runs the log through the recommended method in double and in float
@@ -31,7 +33,7 @@ endfunction()
 
 run("1. Which method and step meet 0.1 deg over 10 minutes?"
   "${STEPSTUDY}" --motion demo --budget ${budget_rad} --horizon ${horizon_s}
-  --gyro-rate ${gyro_rate_hz} --csv "${OUT}/demo_study.csv" --svg "${OUT}/demo_study.svg"
+  --gyro-rate ${gyro_rate_hz} --baseline --csv "${OUT}/demo_study.csv" --svg "${OUT}/demo_study.svg"
   --recommendation-file "${OUT}/demo_recommendation.txt")
 
 file(STRINGS "${OUT}/demo_recommendation.txt" lines)

@@ -36,6 +36,8 @@ bool check_log_options(const Options& o, bool step_given, bool have_horizon, std
     excluded = "--step, --step-min or --step-max (a log's steps are whole log periods: --steps)";
   } else if (o.local_errors) {
     excluded = "--local-errors (it needs a truth motion)";
+  } else if (o.baseline) {
+    excluded = "--baseline (it needs a truth motion)";
   } else if (o.fixes) {
     excluded = "--fixes (bounds need a description of the motion)";
   } else if (!o.recommendation_file.empty()) {

@@ -70,6 +70,7 @@ struct Options {  // NOLINT(clang-analyzer-optin.performance.Padding)
   std::string recommendation_file;
   bool fixes = false;         // --fixes: longest time between external attitude fixes per method
   bool local_errors = false;  // --local-errors: also sum each step's own error (truth runs)
+  bool baseline = false;      // --baseline: the first-order firmware update as a reference series
 
   // The gyro's noise terms (SI; the *-deg options convert datasheet units) and the criterion
   // they give: the integration error at most sensor_fraction of the sensor-driven error over
@@ -226,6 +227,24 @@ inline const char* help_text() {
          "bounds\n"
          "                       dashed and the budget line; max error (rad) against cost "
          "(ns/step)\n"
+         "  --baseline           also run the first-order firmware update, q + dt/2 q x (0, w) "
+         "with the\n"
+         "                       latest rate sample then q/|q|, as a REFERENCE series: not a "
+         "halfspin\n"
+         "                       method, not recommended, no a-priori bound (bound column "
+         "'none').\n"
+         "                       It gets rows in the table, a series on both charts, and the CSV "
+         "the\n"
+         "                       column series (after ns_per_step: 'method', or 'reference' for "
+         "it).\n"
+         "                       With float studied it also prints one line: the most accurate\n"
+         "                       sample-driven method whose measured cost per second of flight, "
+         "at\n"
+         "                       the step --gyro-rate gives it, is no higher than the baseline's "
+         "at\n"
+         "                       one gyro period, and the ratio of their float errors over the "
+         "run\n"
+         "                       (truth motions only)\n"
          "\n"
          "Recommendation:\n"
          "  --budget RAD         attitude-error budget (rad) over --horizon (needs --horizon)\n"
@@ -583,6 +602,8 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
       o.fixes = true;
     } else if (a == "--local-errors") {
       o.local_errors = true;
+    } else if (a == "--baseline") {
+      o.baseline = true;
     } else if (a == "--coning") {
       if (!value(v)) {
         return false;
@@ -743,6 +764,10 @@ inline bool parse_options(int argc, char** argv, Options& o, std::string& error)
   }
   if (o.local_errors && o.bounds_only) {
     error = "--local-errors measures a truth motion: it cannot be combined with a description";
+    return false;
+  }
+  if (o.baseline && o.bounds_only) {
+    error = "--baseline measures a truth motion: it cannot be combined with a description";
     return false;
   }
   if (o.fixes && !o.has_budget) {

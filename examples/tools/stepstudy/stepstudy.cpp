@@ -23,6 +23,7 @@
 #include <vector>
 
 #include "advice.hpp"
+#include "first_order_update.hpp"
 #include "halfspin/bounds/bound_report.hpp"
 #include "halfspin/bounds/fix_interval.hpp"
 #include "halfspin/bounds/horizon_bound.hpp"
@@ -34,6 +35,7 @@
 #include "method_registry.hpp"
 #include "number_text.hpp"
 #include "options.hpp"
+#include "reference_run.hpp"
 #include "sensor_report.hpp"
 #include "study_motions.hpp"
 #include "svg_chart.hpp"
@@ -63,6 +65,7 @@ struct Row {
   double order = std::numeric_limits<double>::quiet_NaN();
   double ns_per_step = std::numeric_limits<double>::quiet_NaN();
   double local_error_sum_rad = std::numeric_limits<double>::quiet_NaN();  // --local-errors
+  bool reference = false;  // the first-order firmware update (--baseline), not a halfspin method
 };
 
 // The sample-driven steppers of the catalogue as a StepperList (recommend_stepper's candidates).
@@ -184,6 +187,27 @@ Row study_point(const Options& o, const StudyMotion& motion, double dt, bool& fa
   return row;
 }
 
+// A row of the reference series (--baseline): the first-order firmware update on the truth
+// motion, one latest rate sample per step; no a-priori bound exists for it.
+template <class T>
+Row reference_point(const Options& o, const StudyMotion& motion, double dt, bool& failed) {
+  Row row;
+  row.method = first_order_normalized_name;
+  row.scalar = sizeof(T) == sizeof(float) ? "float" : "double";
+  row.step_s = dt;
+  row.reference = true;
+  row.bound_note = "none";
+  const std::int64_t steps = std::max<std::int64_t>(1, std::llround(o.duration / dt));
+  const MeasuredRun run = measure_first_order_run<T>(motion.truth, dt, steps);
+  if (!run.ok) {
+    failed = true;
+  }
+  row.steps = run.steps;
+  row.max_error_rad = run.max_error_rad;
+  row.ns_per_step = run.ns_per_step;
+  return row;
+}
+
 void fill_orders(std::vector<Row>& rows) {
   for (std::size_t i = 1; i < rows.size(); ++i) {
     const Row& a = rows[i - 1];
@@ -227,7 +251,7 @@ bool write_csv(const std::string& path, const std::vector<Row>& rows, const Opti
   if (!out) {
     return false;
   }
-  out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step"
+  out << "method,scalar,step_s,max_error_rad,bound_rad,ns_per_step" << (o.baseline ? ",series" : "")
       << (o.local_errors ? ",local_error_sum_rad" : "") << (o.has_sensor ? ",sensor_error_rad" : "")
       << '\n';
   auto field = [](double v) { return std::isnan(v) ? std::string() : number_text("%.17g", v); };
@@ -235,6 +259,9 @@ bool write_csv(const std::string& path, const std::vector<Row>& rows, const Opti
   for (const Row& r : rows) {
     out << r.method << ',' << r.scalar << ',' << number_text("%.17g", r.step_s) << ','
         << field(r.max_error_rad) << ',' << field(r.bound_rad) << ',' << field(r.ns_per_step);
+    if (o.baseline) {
+      out << ',' << (r.reference ? "reference" : "method");
+    }
     if (o.local_errors) {
       out << ',' << field(r.local_error_sum_rad);
     }
@@ -315,6 +342,46 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
       }
     }
   }
+  if (o.baseline) {
+    // The reference series: its own ink, its own legend words, a note in the subtitle and one
+    // label in each chart, so that it cannot be read as one of the methods.
+    fig.subtitle += "; brown: a reference, not a halfspin method";
+    fig.legend.push_back(
+        {std::string("reference: ") + first_order_normalized_label, svg::reference_series_colour});
+    const std::string label = std::string(first_order_normalized_label) + " (reference)";
+    bool labelled = false;
+    for (const char* scalar : {"float", "double"}) {
+      const bool is_double = std::string(scalar) == "double";
+      svg::Series measured{svg::reference_series_colour,
+                           svg::LineStyle::solid,
+                           is_double ? svg::Marker::filled_circle : svg::Marker::open_square,
+                           {}};
+      svg::Series cost = measured;
+      cost.line = svg::LineStyle::none;
+      for (const Row& r : rows) {
+        if (r.reference && r.scalar == scalar) {
+          measured.points.emplace_back(r.step_s, r.max_error_rad);
+          cost.points.emplace_back(r.ns_per_step, r.max_error_rad);
+        }
+      }
+      if (measured.points.empty()) {
+        continue;
+      }
+      if (!labelled) {
+        // Above a point a third of the way along the steps (the largest step's end of the chart
+        // meets the legend), and beside the costliest-but-one point of the cost chart.
+        const auto& at = measured.points[measured.points.size() / 3];
+        error_chart.labels.push_back({at.first, at.second, label, svg::reference_series_colour});
+        auto by_cost = cost.points;
+        std::sort(by_cost.begin(), by_cost.end());
+        const auto& c = by_cost[by_cost.size() > 1 ? by_cost.size() - 2 : 0];
+        cost_chart.labels.push_back({c.first, c.second, label, svg::reference_series_colour});
+        labelled = true;
+      }
+      error_chart.series.push_back(measured);
+      cost_chart.series.push_back(cost);
+    }
+  }
   if (!o.bounds_only) {
     if (o.want_double) {
       fig.keys.push_back({svg::LineStyle::solid, svg::Marker::filled_circle,
@@ -344,6 +411,134 @@ bool write_svg(const std::string& path, const Options& o, const StudyMotion& mot
   }
   out << svg::render(fig);
   return static_cast<bool>(out.flush());
+}
+
+// The median of a few timings (ns per step): one figure per series that a momentary load on a
+// shared machine does not decide.
+double median(std::vector<double> v) {
+  std::sort(v.begin(), v.end());
+  return v.empty() ? std::nan("") : v[v.size() / 2];
+}
+
+// One sample-driven stepper at the step the gyro rate gives it, in float, over the run: its
+// error, its measured cost per second of flight (ns per step x steps per second).
+struct AtGyroRate {
+  std::string method;
+  double step_s = 0;
+  double max_error_rad = 0;
+  double ns_per_step = 0;
+  double ns_per_s = 0;
+  bool ok = false;
+};
+
+template <class Accumulation>
+std::vector<AtGyroRate> float_methods_at_gyro_rate(const Options& o, const StudyMotion& motion,
+                                                   int repetitions, double& baseline_ns,
+                                                   MeasuredRun& baseline) {
+  std::vector<AtGyroRate> out;
+  std::vector<std::vector<double>> ns;
+  for_each_method([&](auto tag) {
+    using S = typename decltype(tag)::type;
+    if (S::layout == SampleLayout::rate_function) {
+      return;  // a gyro delivers samples: these need a rate function
+    }
+    AtGyroRate a;
+    a.method = S::name;
+    a.step_s = static_cast<double>(periods_per_step(S::layout, S::window)) / o.gyro_rate;
+    out.push_back(a);
+    ns.emplace_back();
+  });
+  const double h = 1.0 / o.gyro_rate;
+  const std::int64_t baseline_steps = std::max<std::int64_t>(1, std::llround(o.duration / h));
+  std::vector<double> baseline_times;
+  // Interleaved repetitions: a load change on the machine hits every series alike.
+  for (int rep = 0; rep < repetitions; ++rep) {
+    baseline = measure_first_order_run<float>(motion.truth, h, baseline_steps);
+    baseline_times.push_back(baseline.ns_per_step);
+    std::size_t i = 0;
+    for_each_method([&](auto tag) {
+      using S = typename decltype(tag)::type;
+      if (S::layout == SampleLayout::rate_function) {
+        return;
+      }
+      AtGyroRate& a = out[i];
+      const std::int64_t n = std::max<std::int64_t>(1, std::llround(o.duration / a.step_s));
+      const MeasuredRun run = measure_run<S, float, Accumulation>(motion.truth, a.step_s, n);
+      a.ok = run.ok;
+      a.max_error_rad = run.max_error_rad;
+      ns[i].push_back(run.ns_per_step);
+      ++i;
+    });
+  }
+  baseline_ns = median(baseline_times);
+  for (std::size_t i = 0; i < out.size(); ++i) {
+    out[i].ns_per_step = median(ns[i]);
+    out[i].ns_per_s = out[i].ns_per_step / out[i].step_s;
+  }
+  return out;
+}
+
+// --baseline with float: one line, the factor by which the most accurate sample-driven method
+// that costs no more per second of flight than the first-order update (at one gyro period) beats
+// its float error over the run, at --gyro-rate.
+void print_same_cost_factor(const Options& o, const StudyMotion& motion, bool& failed) {
+  constexpr int repetitions = 5;
+  double baseline_ns = 0;
+  MeasuredRun baseline;
+  const std::vector<AtGyroRate> methods = o.compensated_float
+                                              ? float_methods_at_gyro_rate<CompensatedAccumulation>(
+                                                    o, motion, repetitions, baseline_ns, baseline)
+                                              : float_methods_at_gyro_rate<PlainAccumulation>(
+                                                    o, motion, repetitions, baseline_ns, baseline);
+  if (!baseline.ok) {
+    failed = true;
+  }
+  const double baseline_ns_per_s = baseline_ns * o.gyro_rate;
+  const AtGyroRate* best = nullptr;
+  int affordable = 0;
+  for (const AtGyroRate& m : methods) {
+    if (!m.ok) {
+      failed = true;
+      continue;
+    }
+    if (m.ns_per_s <= baseline_ns_per_s) {
+      ++affordable;
+      if (best == nullptr || m.max_error_rad < best->max_error_rad) {
+        best = &m;
+      }
+    }
+  }
+  const std::string head = number_text("Same-cost factor (float, %g Hz gyro, ", o.gyro_rate) +
+                           number_text("%g s of ", o.duration) + motion.name + ", median of " +
+                           std::to_string(repetitions) +
+                           " timings): " + first_order_normalized_name + " " +
+                           number_text("%.3e rad at ", baseline.max_error_rad) +
+                           number_text("%.1f us CPU per s of flight", baseline_ns_per_s * 1e-3);
+  if (best == nullptr) {
+    const AtGyroRate* cheapest = nullptr;
+    for (const AtGyroRate& m : methods) {
+      if (m.ok && (cheapest == nullptr || m.ns_per_s < cheapest->ns_per_s)) {
+        cheapest = &m;
+      }
+    }
+    if (cheapest == nullptr) {
+      std::printf("%s; no halfspin run completed\n", head.c_str());
+      return;
+    }
+    std::printf(
+        "%s; no halfspin method of %zu costs no more: the cheapest, %s (step %.4e s), costs %.1f "
+        "us/s (%.2fx) for %.3e rad (%.3gx smaller); target >= 100 at no higher cost: missed\n",
+        head.c_str(), methods.size(), cheapest->method.c_str(), cheapest->step_s,
+        cheapest->ns_per_s * 1e-3, cheapest->ns_per_s / baseline_ns_per_s, cheapest->max_error_rad,
+        baseline.max_error_rad / cheapest->max_error_rad);
+    return;
+  }
+  const double factor = baseline.max_error_rad / best->max_error_rad;
+  std::printf(
+      "%s; most accurate halfspin method no costlier (%d of %zu are): %s, step %.4e s, %.3e rad "
+      "at %.1f us/s; factor %.3g (target >= 100: %s)\n",
+      head.c_str(), affordable, methods.size(), best->method.c_str(), best->step_s,
+      best->max_error_rad, best->ns_per_s * 1e-3, factor, factor >= 100 ? "met" : "missed");
 }
 
 const char* outcome_text(CandidateOutcome c) {
@@ -672,6 +867,17 @@ int main(int argc, char** argv) {
       }
     });
   }
+  if (o.baseline) {
+    for (const char* scalar : scalars) {
+      for (const double dt : steps) {
+        if (std::string(scalar) == "double") {
+          rows.push_back(reference_point<double>(o, motion, dt, failed));
+        } else {
+          rows.push_back(reference_point<float>(o, motion, dt, failed));
+        }
+      }
+    }
+  }
   progress.finish();
   fill_orders(rows);
   std::printf(
@@ -684,6 +890,16 @@ int main(int argc, char** argv) {
         "(%.3e rad, combined as above); the criterion asks at most %g over --horizon.\n",
         table_horizon(o), table_horizon(o), sensor_error_over(o, table_horizon(o)),
         o.sensor_fraction);
+  }
+  if (o.baseline) {
+    std::printf(
+        "%s (bound 'none'): the %s, q + dt/2 q x (0, w) with the latest\n"
+        "rate sample, then q/|q|; a reference, not a halfspin method: no a-priori bound, never "
+        "recommended.\n",
+        first_order_normalized_name, first_order_normalized_label);
+    if (o.want_float) {
+      print_same_cost_factor(o, motion, failed);
+    }
   }
   if (failed) {
     std::fprintf(stderr, "halfspin-stepstudy: a run did not complete (a sample was rejected)\n");

@@ -6,6 +6,7 @@
 //   Figure { title, subtitle, charts, legend (one colour per entry), keys (line/marker styles) }
 //   Chart  { title, axis labels with units, series, optional horizontal reference line }
 //   Series { colour index, line style (solid / dashed / dotted / none), marker, points (x, y) }
+//            (colour index reference_series_colour: a reference series' own ink)
 //   ErrorBar { x, low, high, colour } (Chart::bars: vertical bars, e.g. confidence intervals)
 //   ChartLabel { text at data coordinates, in a series colour } (Chart::labels)
 //
@@ -115,8 +116,17 @@ inline constexpr std::array<const char*, 9> series_palette{
 // dash-dot pattern and an in-chart label.
 inline constexpr const char* reference_ink = "#1f2a33";
 
+// A series that is a reference, not one of the compared methods (halfspin-stepstudy's first-order
+// firmware update): a dark brown of its own, outside the palette and apart from the budget line's
+// ink (contrast on white about 10:1, WCAG 2.1 relative luminance), selected by this colour index.
+inline constexpr std::size_t reference_series_colour = static_cast<std::size_t>(-1);
+inline constexpr const char* reference_series_ink = "#6b3a10";
+
 inline std::string colour(std::size_t index) {
   constexpr std::size_t count = series_palette.size();
+  if (index == reference_series_colour) {
+    return reference_series_ink;
+  }
   if (index < count) {
     return series_palette[index];
   }

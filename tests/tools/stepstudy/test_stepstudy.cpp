@@ -1353,3 +1353,162 @@ TEST_CASE("fix intervals under the sensor criterion meet it over themselves, and
   check_sensor_fix_interval<halfspin::Coning2Sample, double, halfspin::PlainAccumulation>(
       r.out, in_double, 60, gyro);
 }
+
+// --baseline: the first-order firmware update q ← q + ½·dt·q ⊗ (0, ω), then q/‖q‖, with the
+// latest rate sample (common practice, no source), as a reference series beside the methods.
+struct ReferenceCsvRow {
+  std::string method;
+  std::string scalar;
+  double step_s = 0;
+  double max_error_rad = 0;
+  std::string bound;
+  std::string series;
+};
+
+std::vector<ReferenceCsvRow> read_reference_csv(const std::string& file) {
+  const std::vector<std::string> lines = lines_of(read_file(file));
+  REQUIRE(!lines.empty());
+  // The one documented change of the header: the column series after ns_per_step.
+  REQUIRE(lines[0] == std::string(csv_header) + ",series");
+  std::vector<ReferenceCsvRow> rows;
+  for (std::size_t i = 1; i < lines.size(); ++i) {
+    const std::vector<std::string> f = split(lines[i], ',');
+    INFO("CSV line " << i << ": " << lines[i]);
+    REQUIRE(f.size() == 7u);
+    ReferenceCsvRow r;
+    r.method = f[0];
+    r.scalar = f[1];
+    r.step_s = number(f[2]);
+    r.max_error_rad = number(f[3]);
+    r.bound = f[4];
+    r.series = f[6];
+    CHECK(number(f[5]) > 0);
+    rows.push_back(r);
+  }
+  return rows;
+}
+
+TEST_CASE(
+    "baseline: the first-order firmware update is a marked reference series without a bound, and "
+    "its error halves with the step on a motion with exact truth",
+    "[tools][reference][order]") {
+  const std::string csv = path("baseline_oscillation.csv");
+  const std::string svg = path("baseline_oscillation.svg");
+  std::remove(csv.c_str());
+  std::remove(svg.c_str());
+  const Result r = run_tool(
+      "--motion oscillation --methods exponential_map_hold_end --baseline --scalar float,double "
+      "--step-min 1e-3 --step-max 8e-3 --steps 4 --duration 2 --csv '" +
+          csv + "' --svg '" + svg + "'",
+      "baseline_oscillation");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  std::map<std::string, std::vector<ReferenceCsvRow>> reference;  // by scalar, steps ascending
+  int method_rows = 0;
+  for (const ReferenceCsvRow& row : read_reference_csv(csv)) {
+    INFO(row.method << " " << row.scalar << " step " << row.step_s);
+    if (row.method == "first_order_normalized") {
+      CHECK(row.series == "reference");
+      CHECK(row.bound.empty());  // no a-priori bound exists for it
+      reference[row.scalar].push_back(row);
+    } else {
+      CHECK(row.method == "exponential_map_hold_end");
+      CHECK(row.series == "method");
+      CHECK(number(row.bound) >= row.max_error_rad);
+      ++method_rows;
+    }
+  }
+  CHECK(method_rows == 8);
+  for (const char* scalar : {"float", "double"}) {
+    const std::vector<ReferenceCsvRow>& rows = reference[scalar];
+    REQUIRE(rows.size() == 4u);
+    // First order: the held latest sample misses the rate's change over each step, ½·dt·ω̇ per
+    // step, which on the single-axis oscillation adds up along the axis to ½·dt·Δω (common
+    // practice, no source). The steps double (1, 2, 4, 8 ms), so the error must double: measured
+    // ratios 2.00 (g++ 12), checked within 1.8..2.2. The truncation (above 10⁻³ rad here) is far
+    // above float rounding (N·ε ≈ 2.4·10⁻⁴ at 2000 steps at the very worst).
+    for (std::size_t i = 1; i < rows.size(); ++i) {
+      INFO(scalar << " steps " << rows[i - 1].step_s << " and " << rows[i].step_s << ": errors "
+                  << rows[i - 1].max_error_rad << " and " << rows[i].max_error_rad);
+      CHECK(rows[i].step_s == Approx(2.0 * rows[i - 1].step_s).epsilon(1e-12));
+      const double ratio = rows[i].max_error_rad / rows[i - 1].max_error_rad;
+      CHECK(ratio >= 1.8);
+      CHECK(ratio <= 2.2);
+    }
+    // The table prints the rows, 'none' in the bound column.
+    const std::vector<std::vector<std::string>> table =
+        table_rows(r.out, "first_order_normalized", scalar);
+    REQUIRE(table.size() == 4u);
+    for (const auto& words : table) {
+      CHECK(words[5] == "none");
+    }
+  }
+  CHECK(r.out.find("a reference, not a halfspin method") != std::string::npos);
+  // The chart: well formed (xmllint, Debian libxml2-utils), the series in its own ink and its own
+  // legend words on both charts.
+  CHECK(run_program(HALFSPIN_XMLLINT_EXE, "--noout '" + svg + "'", "baseline_xmllint").exit_code ==
+        0);
+  const std::string text = read_file(svg);
+  const std::size_t legend = text.find("class=\"legend\"");
+  REQUIRE(legend != std::string::npos);
+  CHECK(text.find("reference: first-order firmware update", legend) != std::string::npos);
+  CHECK(text.find("brown: a reference, not a halfspin method") < legend);
+  const std::size_t chart2 = text.find("id=\"chart-2\"");
+  REQUIRE(chart2 != std::string::npos);
+  CHECK(text.find(">first-order firmware update (reference)<") < chart2);
+  CHECK(text.find(">first-order firmware update (reference)<", chart2) < legend);
+  CHECK(text.find("stroke=\"#6b3a10\"", chart2) != std::string::npos);
+  // The same-cost line: one, in float; the baseline's error in it is the reference row's at one
+  // gyro period (1 ms at the default 1000 Hz): the same run.
+  const std::string head = "Same-cost factor (float, 1000 Hz gyro, 2 s of oscillation";
+  const std::size_t at = r.out.find(head);
+  REQUIRE(at != std::string::npos);
+  CHECK(r.out.find(head, at + 1) == std::string::npos);
+  const std::string line = r.out.substr(at, r.out.find('\n', at) - at);
+  INFO(line);
+  const std::size_t named = line.find("first_order_normalized ");
+  REQUIRE(named != std::string::npos);
+  const double baseline_error =
+      number(line.substr(named + 23, line.find(' ', named + 23) - named - 23));
+  CHECK(baseline_error == Approx(reference["float"][0].max_error_rad).epsilon(2e-3));
+  CHECK((line.find("; factor ") != std::string::npos ||
+         line.find("no halfspin method of") != std::string::npos));
+}
+
+TEST_CASE("baseline: closed form at constant rate, and only with a truth motion",
+          "[tools][reference]") {
+  const std::string csv = path("baseline_constant.csv");
+  const double duration = 2.0;
+  const Result r = run_tool(
+      "--motion constant --methods exponential_map_hold_end --baseline --scalar double "
+      "--step-min 2e-3 --step-max 1e-1 --steps 8 --duration 2 --csv '" +
+          csv + "'",
+      "baseline_constant");
+  REQUIRE(r.exit_code == 0);
+  // At constant rate the held sample is exact, and the step q ⊗ (1, ½θ·n)/√(1 + θ²/4), θ = |ω|dt,
+  // turns by 2·atan(θ/2) about the fixed axis n instead of θ; the errors add along that axis:
+  // N·(θ − 2·atan(θ/2)), second order (derived here from the update; common practice, no source).
+  const double w = std::sqrt(0.81 + 0.36 + 1.69);  // the tool's constant ω = (0.9, −0.6, 1.3) rad/s
+  int checked = 0;
+  for (const ReferenceCsvRow& row : read_reference_csv(csv)) {
+    if (row.series != "reference") {
+      continue;
+    }
+    const double steps = std::round(duration / row.step_s);
+    const double theta = w * row.step_s;
+    const double expected = steps * (theta - 2.0 * std::atan(0.5 * theta));
+    INFO("step " << row.step_s << ": error " << row.max_error_rad << ", closed form " << expected);
+    if (expected > 1e3 * eps_double * steps) {
+      CHECK(row.max_error_rad == Approx(expected).epsilon(0.01));
+      ++checked;
+    }
+  }
+  CHECK(checked == 8);
+  // A description has no truth to run it on, nor has a gyro log.
+  const Result d = run_tool("--envelope 0.6,1,5 --baseline", "baseline_description");
+  CHECK(d.exit_code == 1);
+  CHECK(d.err.find("--baseline") != std::string::npos);
+  const Result l = run_tool("--log '" + path("no_such_log.csv") + "' --baseline", "baseline_log");
+  CHECK(l.exit_code == 1);
+  CHECK(l.err.find("--baseline") != std::string::npos);
+}
