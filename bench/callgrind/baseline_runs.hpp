@@ -118,7 +118,7 @@ class FirstOrderNormalizedRun {
  public:
   FirstOrderNormalizedRun() : gyro_(gyro_table<T>()) {}
 
-  void step() noexcept {
+  HALFSPIN_BENCH_FLATTEN void step() noexcept {
     q_ = tools::first_order_normalized_step(q_, gyro_.rate[i_], dt_);
     i_ = (i_ + 1) & table_mask;
   }

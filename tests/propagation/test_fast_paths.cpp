@@ -1,9 +1,10 @@
 // The propagator's usual path against its general one: the one-pass acceptance of a sample
 // (gyro_input.hpp: accepts_rate, accepts_delta_angle on finite_limits) accepts only what the full
-// validation accepts, and exactly that with finite limits; and the near-unit form of the first-order renormalization (renormalization.hpp)
-// keeps bit for bit what the general path keeps, with the plain and the compensated accumulation,
-// on steps inside its range and outside it. Internal consistency: the general path is the
-// reference (it is the one the bad-input, replay and bound tests were written against).
+// validation accepts, and exactly that with finite limits; and the near-unit form of the
+// first-order renormalization (renormalization.hpp) keeps bit for bit what the general path keeps,
+// with the plain and the compensated accumulation, on steps inside its range and outside it.
+// Internal consistency: the general path is the reference (it is the one the bad-input, replay and
+// bound tests were written against).
 #include <catch2/catch.hpp>
 
 #include <array>
@@ -63,7 +64,6 @@ std::array<T, 11> special_steps() {
 // A first-order policy without the near-unit form: the propagator takes its general path on
 // every step (apply and scaling are FirstOrderRenormalization's own).
 struct GeneralFirstOrder {
-  static constexpr const char* name = "first_order_general";
   template <class T>
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     return FirstOrderRenormalization{}.apply(q);
@@ -84,12 +84,8 @@ TEMPLATE_TEST_CASE("one-pass acceptance decides every sample as the full validat
   const T nan = std::numeric_limits<T>::quiet_NaN();
   // Ordinary limits, unbounded ones, NaN ones, the largest finite ones, and a rate limit whose
   // product with a long step overflows.
-  const std::array<GyroLimits<T>, 6> all_limits{{{T(35), T(0.1)},
-                                                 {inf, inf},
-                                                 {nan, nan},
-                                                 {max, max},
-                                                 {T(1e30), T(1e30)},
-                                                 {T(0), T(0.1)}}};
+  const std::array<GyroLimits<T>, 6> all_limits{
+      {{T(35), T(0.1)}, {inf, inf}, {nan, nan}, {max, max}, {T(1e30), T(1e30)}, {T(0), T(0.1)}}};
   int accepted = 0;
   int cases = 0;
   int left_to_validation = 0;  // accepted by the validation only (an infinite or NaN limit)
@@ -182,6 +178,5 @@ TEMPLATE_TEST_CASE("the near-unit renormalization keeps what the general path ke
   const Vector3<T> w = Vector3<T>{T(0.6), T(-0.48), T(0.64)} * T(30);
   const std::array<Vector3<T>, 3> window{w, w, w};
   const Quaternion<T> q = RungeKutta4Sampled::step(Quaternion<T>::identity(), window, T(0.1));
-  REQUIRE(std::fabs(squared_norm(q) - T(1)) >
-          FirstOrderRenormalization::near_unit_range<T>());
+  REQUIRE(std::fabs(squared_norm(q) - T(1)) > FirstOrderRenormalization::near_unit_range<T>());
 }
