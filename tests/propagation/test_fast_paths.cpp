@@ -2,7 +2,9 @@
 // (gyro_input.hpp: accepts_rate, accepts_delta_angle on finite_limits) accepts only what the full
 // validation accepts, and exactly that with finite limits; and the near-unit form of the
 // first-order renormalization (renormalization.hpp) keeps bit for bit what the general path keeps,
-// with the plain and the compensated accumulation, on steps inside its range and outside it.
+// with the plain and the compensated accumulation, on steps inside its range and outside it (there
+// the propagator takes the policy's own form without the general path's checks; steps whose
+// ‖q‖² is not a normal number, which only overflow makes, are test_bad_input.cpp's).
 // Internal consistency: the general path is the reference (it is the one the bad-input, replay and
 // bound tests were written against).
 #include <catch2/catch.hpp>
