@@ -3,6 +3,10 @@
 disassembly walk in cycle_estimate.py cannot follow: loops kept by the compiler, calls).
 
   python3 bench/target/cycle_trace.py build/<dir>/target-cortex-m4f
+  python3 bench/target/cycle_trace.py build/<dir>/target-cortex-m4f --listing <image> [k]
+(the second prints the executed instructions of the k-th call from the end, 1 = the last, each
+with its price: <image> is a footprint image without `footprint_` and `.elf`, e.g.
+exponential_map_hold_end_float_propagator).
 
 For each footprint/footprint_<stepper>_float_step.elf, runs it under qemu-system-arm with one
 instruction per translation block (-singlestep) and an execution log (-d exec,nochain), cuts the
@@ -69,7 +73,7 @@ def executed_pcs(machine, elf):
         return pcs
 
 
-def price(elf, machine="mps2-an386", function=FUNCTION):
+def price(elf, machine="mps2-an386", function=FUNCTION, listing=None):
     insns, symbols = disassembly(elf)
     start = symbols[function][0]
     main_lo, main_hi = symbols["main"]
@@ -83,6 +87,8 @@ def price(elf, machine="mps2-an386", function=FUNCTION):
         if pc == start:
             inside = True
             calls += 1
+            if listing is not None:
+                listing.append([])
         elif inside and main_lo <= pc <= main_hi:
             inside = False
         if not inside or pc not in insns:
@@ -98,6 +104,8 @@ def price(elf, machine="mps2-an386", function=FUNCTION):
         else:
             c, _, mem = classify(mnemonic, operands, previous_memory)
         previous_memory = mem
+        if listing is not None:
+            listing[-1].append((pc, mnemonic, operands, c))
         cycles += c
         count += 1
     if calls == 0:
@@ -105,10 +113,30 @@ def price(elf, machine="mps2-an386", function=FUNCTION):
     return count / calls, cycles / calls, calls
 
 
+def print_listing(directory, name, back=1):
+    """The priced instructions of one call of one image, the back-th from the end (1: the last):
+    `<name>` is the footprint image's name without `footprint_` and `.elf` (e.g.
+    exponential_map_hold_end_float_propagator)."""
+    elf = os.path.join(directory, "footprint", f"footprint_{name}.elf")
+    function = PUSH_FUNCTION if name.endswith("_propagator") else FUNCTION
+    calls_listed = []
+    _, total, calls = price(elf, function=function, listing=calls_listed)
+    listing = calls_listed[-back]
+    print(f"{name}: call {calls - back + 1} of {calls} of {function}, each executed instruction with its "
+          "estimated cycles (timing table from memory; mean over all calls "
+          f"{total:.1f} cycles)\n")
+    for pc, mnemonic, operands, c in listing:
+        print(f"{pc:8x}  {c:2d}  {mnemonic:10s} {operands}")
+    print(f"\n{len(listing)} instructions, {sum(x[3] for x in listing)} cycles")
+    return 0
+
+
 def main(argv):
     if len(argv) < 2:
         print(__doc__)
         return 2
+    if len(argv) in (4, 5) and argv[2] == "--listing":
+        return print_listing(argv[1], argv[3], int(argv[4]) if len(argv) == 5 else 1)
     footprint = os.path.join(argv[1], "footprint")
     images = sorted(f for f in os.listdir(footprint) if f.endswith("_float_step.elf"))
     print("Cortex-M4F cycles from the executed path under qemu (float; timing table from memory, "

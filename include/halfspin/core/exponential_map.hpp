@@ -29,6 +29,30 @@ constexpr void half_angle_series(T t, T& c_minus_one, T& s_over_angle) noexcept 
   c_minus_one = t * (T(-1.0L / 8) + t * (T(1.0L / 384) + t * T(-1.0L / 46080)));
   s_over_angle = T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * T(-1.0L / 645120)));
 }
+
+// The branch above the series threshold (θ² = t ≥ ScalarTraits::exp_series_angle_squared: a
+// square root, a division and the sines), out of line. With sinf or sin called inline, every value
+// the step keeps across the call needs a callee-saved register, so the usual path of every step
+// (the series, no call) saved and restored them: on the Cortex-M4F a vpush and vpop of d8–d10 and
+// four stack stores around each exponential-map step. Same arithmetic, same bits.
+template <class T>
+struct HalfAngleTerms {
+  T first;         // cos(θ/2), or cos(θ/2) − 1
+  T s_over_angle;  // sin(θ/2)/θ
+};
+template <class T>
+[[gnu::cold, gnu::noinline]] HalfAngleTerms<T> half_angle_cosine_large(T t) noexcept {
+  const T angle = std::sqrt(t);
+  const T half = T(0.5) * angle;
+  return {std::cos(half), std::sin(half) / angle};
+}
+// cos(θ/2) − 1 as −2·sin²(θ/4), without cancellation.
+template <class T>
+[[gnu::cold, gnu::noinline]] HalfAngleTerms<T> half_angle_cosine_minus_one_large(T t) noexcept {
+  const T angle = std::sqrt(t);
+  const T quarter_sine = std::sin(T(0.25) * angle);
+  return {T(-2) * quarter_sine * quarter_sine, std::sin(T(0.5) * angle) / angle};
+}
 }  // namespace detail
 
 template <class T>
@@ -41,10 +65,9 @@ Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
     detail::half_angle_series(t, c_minus_one, s_over_angle);
     c = T(1) + c_minus_one;
   } else {
-    const T angle = std::sqrt(t);
-    const T half = T(0.5) * angle;
-    c = std::cos(half);
-    s_over_angle = std::sin(half) / angle;
+    const detail::HalfAngleTerms<T> large = detail::half_angle_cosine_large(t);
+    c = large.first;
+    s_over_angle = large.s_over_angle;
   }
   return {c, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
 }
@@ -66,10 +89,9 @@ Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
   if (t < ScalarTraits<T>::exp_series_angle_squared) {
     detail::half_angle_series(t, c_minus_one, s_over_angle);
   } else {
-    const T angle = std::sqrt(t);
-    const T quarter_sine = std::sin(T(0.25) * angle);
-    c_minus_one = T(-2) * quarter_sine * quarter_sine;
-    s_over_angle = std::sin(T(0.5) * angle) / angle;
+    const detail::HalfAngleTerms<T> large = detail::half_angle_cosine_minus_one_large(t);
+    c_minus_one = large.first;
+    s_over_angle = large.s_over_angle;
   }
   return {c_minus_one, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
 }
