@@ -175,6 +175,8 @@ std::uint64_t rejection_counter(const PropagationCounters& c, Status s) {
       return c.rejected_step_too_long;
     case Status::over_range:
       return c.rejected_over_range;
+    case Status::no_tick_period:
+      return c.rejected_no_tick_period;
     case Status::ok:
     case Status::waiting_for_samples:
       break;

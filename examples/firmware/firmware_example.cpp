@@ -166,9 +166,10 @@ namespace {
 // ---------------------------------------------------------------------------------------------
 // The attitude loop
 
-constexpr std::size_t status_count = 6;
+constexpr std::size_t status_count = 7;
 const char* const status_names[status_count] = {
-    "ok", "waiting_for_samples", "non_finite", "non_positive_step", "step_too_long", "over_range"};
+    "ok",         "waiting_for_samples", "non_finite", "non_positive_step", "step_too_long",
+    "over_range", "no_tick_period"};
 
 struct Gap {
   std::uint32_t last_step_tick;  // the attitude stands at the truth of this tick
@@ -209,6 +210,8 @@ void handle(halfspin::Propagator<float, halfspin::Coning2Sample>& attitude, Loop
     case Status::over_range:  // saturated or corrupted: dropped the same way
       break;
     case Status::non_positive_step:  // a repeated or out-of-order frame: dropped
+      break;
+    case Status::no_tick_period:  // never: the attitude is built with the timer's tick period
       break;
     case Status::step_too_long:
       // Frames were missed: the rotation since the last step is lost (the propagator restarts

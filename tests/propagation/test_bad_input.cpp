@@ -4,7 +4,9 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <cstdint>
 #include <limits>
+#include <string>
 #include <vector>
 
 #include "halfspin/propagation/embedded_runge_kutta.hpp"
@@ -44,6 +46,42 @@ TEMPLATE_TEST_CASE("every bad-input class is rejected with its status and leaves
   check_all_classes<T, ExponentialMapHoldEnd>(T(1), false);           // rates, window of 1
   check_all_classes<T, test::SummedDeltaAngles<3>>(T(1e-3), true);    // delta-angles
   check_all_classes<T, test::WithPreviousDeltaAngle>(T(1e-3), true);  // with history
+}
+
+// The tick trap (issue 19): a propagator built without a usable tick period (the constructor's
+// default 0, a negative one, NaN, infinity) must not turn push(…, Ticks) into a silent step of
+// 0 s (which validation would call non_positive_step); each tick push is rejected with a status
+// of its own, counted, and changes nothing, while pushes in seconds go on working.
+TEMPLATE_TEST_CASE("ticks pushed without a tick period are rejected as no_tick_period",
+                   "[propagation]", float, double) {
+  using T = TestType;
+  const T nan = std::numeric_limits<T>::quiet_NaN();
+  const T inf = std::numeric_limits<T>::infinity();
+  const Vector3<T> w{T(0.1), T(-0.2), T(0.3)};
+  for (const T period : {T(0), T(-1e-4), nan, inf}) {
+    INFO("tick period " << period);
+    const auto make = [period](const Quaternion<T>& q0) {
+      return Propagator<T, Magnus4>(q0, limits<T>, period);
+    };
+    for (const std::uint32_t n : {0U, 1U, 10U}) {
+      test::check_rejection_against_twin<T>(
+          "ticks without a period", Status::no_tick_period, make,
+          [&](auto& p) { return p.push(w, Ticks{n}); }, T(1), 602);
+    }
+    Propagator<T, ExponentialMapHoldEnd> p(Quaternion<T>::identity(), limits<T>, period);
+    REQUIRE(p.push(w, Ticks{10}) == Status::no_tick_period);
+    REQUIRE(p.elapsed_ticks() == 0);
+    REQUIRE(p.push(w, T(1e-3)) == Status::ok);  // seconds still work
+    REQUIRE(p.counters().rejected_no_tick_period == 1);
+    REQUIRE(p.counters().rejected() == 1);
+  }
+  // With a period, ticks step as before, and zero ticks stay non_positive_step.
+  Propagator<T, ExponentialMapHoldEnd> p(Quaternion<T>::identity(), limits<T>, T(1e-4));
+  REQUIRE(p.push(w, Ticks{10}) == Status::ok);
+  REQUIRE(p.elapsed_ticks() == 10);
+  REQUIRE(p.push(w, Ticks{0}) == Status::non_positive_step);
+  REQUIRE(p.counters().rejected_no_tick_period == 0);
+  REQUIRE(std::string(status_name(Status::no_tick_period)) == "no_tick_period");
 }
 
 TEMPLATE_TEST_CASE("a gap is rejected, then the history restarts", "[propagation]", float, double) {

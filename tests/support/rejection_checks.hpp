@@ -63,6 +63,8 @@ void check_rejection_against_twin(const char* what, Status expected, Make make, 
                    expected == Status::non_positive_step));
   REQUIRE(one_more(now.rejected_step_too_long, counted.rejected_step_too_long,
                    expected == Status::step_too_long));
+  REQUIRE(one_more(now.rejected_no_tick_period, counted.rejected_no_tick_period,
+                   expected == Status::no_tick_period));
   for (int k = 0; k < 6; ++k) {
     const Vector3<T> s = rng.unit_vector<T>() * scale;
     REQUIRE(p.push(s, dt) == twin.push(s, dt));

@@ -10,7 +10,7 @@
 # Lines the report must contain (each a regular expression).
 set(_halfspin_firmware_report_lines
   "SysTick: SYST_CALIB TENMS 9999, NOREF 0, SKEW 0 -> reference clock 1.000 MHz, reload 999 for 1 ms"
-  "status counts: ok [0-9]+ waiting_for_samples [0-9]+ non_finite 1 non_positive_step 1 step_too_long 1 over_range 1"
+  "status counts: ok [0-9]+ waiting_for_samples [0-9]+ non_finite 1 non_positive_step 1 step_too_long 1 over_range 1 no_tick_period 0"
   "\\[ok\\] final attitude within the budget of the closed form"
   "\\[ok\\] every injected fault rejected with the right status \\(4 of 4\\)"
   "\\[ok\\] every simulated IMU frame was produced"

@@ -493,6 +493,7 @@ class BatchPropagator {
         case Status::over_range:
           ++counters_.rejected_over_range;
           break;
+        case Status::no_tick_period:  // the batch takes seconds only: no verdict gives it
         case Status::ok:
         case Status::waiting_for_samples:
           break;

@@ -30,8 +30,9 @@
 // step ever spans the gap.
 //
 // Time: `push(sample, dt)` takes the sample interval in seconds; `push(sample, Ticks{n})` takes
-// it as an integer count of timer ticks of `tick_period` seconds, and elapsed time is then kept
-// exactly as a 64-bit tick count. Elapsed seconds are a compensated (Kahan) sum, so float keeps
+// it as an integer count of timer ticks of `tick_period` seconds (a constructor argument: without
+// one, every tick push is rejected as no_tick_period), and elapsed time is then kept exactly as a
+// 64-bit tick count. Elapsed seconds are a compensated (Kahan) sum, so float keeps
 // ulp-level resolution over a flight instead of losing it within the hour.
 //
 // Calibration: the fifth template parameter is the calibration stage applied to every sample
@@ -71,12 +72,13 @@ struct PropagationCounters {
   std::uint64_t rejected_non_positive_step = 0;
   std::uint64_t rejected_step_too_long = 0;
   std::uint64_t rejected_over_range = 0;
-  std::uint64_t discarded_samples = 0;  // dropped from a partly filled window after a gap
+  std::uint64_t rejected_no_tick_period = 0;  // push(…, Ticks) with no tick period set
+  std::uint64_t discarded_samples = 0;        // dropped from a partly filled window after a gap
 
   // All rejected inputs.
   constexpr std::uint64_t rejected() const noexcept {
     return rejected_non_finite + rejected_non_positive_step + rejected_step_too_long +
-           rejected_over_range;
+           rejected_over_range + rejected_no_tick_period;
   }
 };
 
@@ -134,7 +136,8 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
   using calibration_stage = Calibration;
   static constexpr std::size_t window = Stepper::window;
 
-  // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks).
+  // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks);
+  // left at 0, tick pushes are rejected as no_tick_period.
   // Only for a stage that needs no parameters (NoCalibration): a calibrated propagator takes its
   // stage below, so none is left out by accident.
   template <class C = Calibration,
@@ -203,8 +206,14 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     }
   }
 
-  // The same with the interval as a count of ticks of tick_period.
+  // The same with the interval as a count of ticks of tick_period. A propagator built without a
+  // usable tick period (the constructors' default 0, or one that is negative or not finite)
+  // rejects every tick push as no_tick_period, changing nothing, rather than as a step of 0 s.
   Status push(const Vector3<T>& sample, Ticks ticks) noexcept {
+    if (!(tick_period_ > T(0) && tick_period_ <= std::numeric_limits<T>::max())) {
+      count_rejection(Status::no_tick_period);
+      return Status::no_tick_period;
+    }
     const Status s = push(sample, static_cast<T>(ticks.count) * tick_period_);
     if (s == Status::ok || s == Status::waiting_for_samples) {
       elapsed_ticks_ += ticks.count;
@@ -505,6 +514,9 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
         break;
       case Status::over_range:
         ++counters_.rejected_over_range;
+        break;
+      case Status::no_tick_period:
+        ++counters_.rejected_no_tick_period;
         break;
       case Status::ok:
       case Status::waiting_for_samples:

@@ -13,7 +13,9 @@ enum class Status : std::uint8_t {
   non_finite,           // NaN or infinity in a sample or in the time step
   non_positive_step,    // time step ≤ 0 (or zero ticks)
   step_too_long,        // time step above the configured maximum (a gap: missed samples)
-  over_range            // a rate above the gyro range, or a delta-angle implying one
+  over_range,           // a rate above the gyro range, or a delta-angle implying one
+  no_tick_period        // ticks pushed to a propagator built without a tick period (none, 0,
+                        // negative or not finite): give it one, or push intervals in seconds
 };
 
 // A short, stable name for logs and telemetry ("ok", "non_finite", ...).
@@ -31,6 +33,8 @@ constexpr const char* status_name(Status s) noexcept {
       return "step_too_long";
     case Status::over_range:
       return "over_range";
+    case Status::no_tick_period:
+      return "no_tick_period";
   }
   return "unknown";
 }
