@@ -148,7 +148,7 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
         state_(Accumulation::start(initial)),
         limits_(limits),
         accept_limits_(finite_limits(limits)),
-        tick_period_(tick_period),
+        tick_period_(usable_tick_period(tick_period)),
         policy_(policy) {
     restart_history();
   }
@@ -161,7 +161,7 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
         state_(Accumulation::start(initial)),
         limits_(limits),
         accept_limits_(finite_limits(limits)),
-        tick_period_(tick_period),
+        tick_period_(usable_tick_period(tick_period)),
         policy_(policy) {
     restart_history();
   }
@@ -210,7 +210,7 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
   // usable tick period (the constructors' default 0, or one that is negative or not finite)
   // rejects every tick push as no_tick_period, changing nothing, rather than as a step of 0 s.
   Status push(const Vector3<T>& sample, Ticks ticks) noexcept {
-    if (!(tick_period_ > T(0) && tick_period_ <= std::numeric_limits<T>::max())) {
+    if (tick_period_ == T(0)) {  // none, or none usable (usable_tick_period)
       count_rejection(Status::no_tick_period);
       return Status::no_tick_period;
     }
@@ -349,6 +349,12 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     ++counters_.samples_accepted;
     shift_history();
     return Status::ok;
+  }
+
+  // The tick period kept: the one given if positive and finite, else 0 (none), decided once here
+  // so that push(…, Ticks) tests one value per sample instead of two.
+  static constexpr T usable_tick_period(T period) noexcept {
+    return period > T(0) && period <= std::numeric_limits<T>::max() ? period : T(0);
   }
 
   // An attitude the state may hold: ‖q‖² positive and finite in T (so no NaN or infinity, and
@@ -527,7 +533,7 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
   typename Accumulation::template State<T> state_;
   GyroLimits<T> limits_;
   GyroLimits<T> accept_limits_;  // limits_ in T's finite range, for the one-pass acceptance
-  T tick_period_;
+  T tick_period_;                // positive and finite, or 0 for none (usable_tick_period)
   Renormalization policy_;
   std::array<Vector3<T>, window> history_{};
   std::size_t filled_ = 0;   // entries of history_ in use
