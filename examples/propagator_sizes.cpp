@@ -1,8 +1,8 @@
 // Prints, as Markdown tables, what each stepper declares (input layout, window, order, cost) and
 // sizeof of each propagator configuration in float and double: the RAM a firmware build pays per
 // propagated attitude (the propagator owns attitude, sample history, counters, error estimate and
-// time), for every stepper of the catalogue. The README's tables are this program's output
-// (ctest readme_stepper_tables fails when they differ).
+// time), for every stepper of the catalogue. The tables of docs/steppers.md are this program's
+// output (ctest examples.stepper_tables fails when they differ).
 #include <cstdio>
 #include <type_traits>
 

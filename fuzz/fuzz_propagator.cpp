@@ -1,6 +1,6 @@
 // libFuzzer harness: the Propagator fed arbitrary bytes as its configuration and as a sequence of
 // operations (rate or delta-angle samples with dt in seconds or in ticks, rate-function steps,
-// re-anchoring). After every call it checks what README "Guarantees" and propagator.hpp promise:
+// re-anchoring). After every call it checks what docs/guarantees.md and propagator.hpp promise:
 //   status ok or waiting_for_samples ⇒ the sample was counted as accepted (steps +1 on ok), no
 //     rejection counted; on ok the attitude is finite with | ‖q‖ − 1 | within the tolerance of
 //     its renormalization policy and stepper family (norm_tolerance below, derived there);

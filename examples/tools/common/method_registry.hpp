@@ -53,7 +53,7 @@ inline constexpr std::array<const char*, method_count> method_descriptions =
     StepperCatalogue::descriptions;
 
 // The run-time names of the previous release, accepted for one release as documented aliases of
-// the catalogue's names (README "Desktop tools"). Each maps to exactly one catalogued name.
+// the catalogue's names (docs/desktop-tools.md). Each maps to exactly one catalogued name.
 struct MethodAlias {
   const char* old_name;
   const char* name;

@@ -1,15 +1,15 @@
-# The README's stepper tables are halfspin-propagator-sizes' output: every table the tool prints
-# must appear in README.md line for line. The tables are generated, not written by hand: with
-# -DUPDATE=ON this script rewrites each README table that starts with the same header line as one
-# of the tool's tables (the build target halfspin-refresh-readme-tables runs it so), and without it
-# checks them (the ctest examples.readme_stepper_tables).
-# Usage: cmake -DTOOL=<halfspin-propagator-sizes> -DREADME=<README.md> [-DUPDATE=ON]
-#              -P CheckReadmeTables.cmake
+# The stepper tables of docs/steppers.md are halfspin-propagator-sizes' output: every table the tool
+# prints must appear in that document line for line. The tables are generated, not written by hand:
+# with -DUPDATE=ON this script rewrites each table that starts with the same header line as one
+# of the tool's tables (the build target halfspin-refresh-stepper-tables runs it so), and without it
+# checks them (the ctest examples.stepper_tables).
+# Usage: cmake -DTOOL=<halfspin-propagator-sizes> -DDOC=<docs/steppers.md> [-DUPDATE=ON]
+#              -P CheckStepperTables.cmake
 execute_process(COMMAND "${TOOL}" OUTPUT_VARIABLE out RESULT_VARIABLE rc)
 if(NOT rc EQUAL 0)
   message(FATAL_ERROR "${TOOL} failed (${rc})")
 endif()
-file(READ "${README}" readme)
+file(READ "${DOC}" readme)
 string(REPLACE "\n\n" ";" tables "${out}")
 set(n 0)
 set(changed 0)
@@ -25,14 +25,14 @@ foreach(table IN LISTS tables)
   endif()
   string(REGEX MATCH "^[^\n]*" head "${table}")
   if(NOT UPDATE)
-    message(FATAL_ERROR "README.md lacks table ${n} of halfspin-propagator-sizes as it prints it now "
+    message(FATAL_ERROR "${DOC} lacks table ${n} of halfspin-propagator-sizes as it prints it now "
                         "(header: ${head}); run `cmake --build <build> --target "
-                        "halfspin-refresh-readme-tables` to regenerate the README's tables")
+                        "halfspin-refresh-stepper-tables` to regenerate the tables")
   endif()
-  # The README's table with the same header: from its header line to the last line starting '|'.
+  # The document's table with the same header: from its header line to the last line starting '|'.
   string(FIND "${readme}" "\n${head}\n" start)
   if(start EQUAL -1)
-    message(FATAL_ERROR "README.md has no table with the header of table ${n} (${head}); add the "
+    message(FATAL_ERROR "${DOC} has no table with the header of table ${n} (${head}); add the "
                         "header line where the table belongs, then rerun")
   endif()
   math(EXPR start "${start} + 1")
@@ -46,8 +46,8 @@ foreach(table IN LISTS tables)
   math(EXPR changed "${changed} + 1")
 endforeach()
 if(UPDATE AND changed GREATER 0)
-  file(WRITE "${README}" "${readme}")
-  message(STATUS "${changed} of ${n} tables of halfspin-propagator-sizes rewritten in README.md")
+  file(WRITE "${DOC}" "${readme}")
+  message(STATUS "${changed} of ${n} tables of halfspin-propagator-sizes rewritten in ${DOC}")
 else()
-  message(STATUS "${n} tables of halfspin-propagator-sizes found in README.md")
+  message(STATUS "${n} tables of halfspin-propagator-sizes found in ${DOC}")
 endif()

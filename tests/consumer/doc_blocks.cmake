@@ -1,0 +1,27 @@
+# doc_block(<markdown file> <name> <out var>): the fenced block that follows the line
+# `<!-- consumer: <name> -->` in a Markdown file, without its fences. A missing marker or an
+# unterminated block is a fatal error naming the file, so a document edit cannot silently drop a
+# command that the newcomer-path tests run.
+function(doc_block file name out)
+  file(READ "${file}" text)
+  set(marker "<!-- consumer: ${name} -->\n")
+  string(FIND "${text}" "${marker}" at)
+  if(at EQUAL -1)
+    message(FATAL_ERROR "${file} has no block marked '<!-- consumer: ${name} -->'")
+  endif()
+  string(LENGTH "${marker}" marker_length)
+  math(EXPR at "${at} + ${marker_length}")
+  string(SUBSTRING "${text}" ${at} -1 rest)
+  if(NOT rest MATCHES "^```[a-z]*\n")
+    message(FATAL_ERROR "${file}: the marker '${name}' is not followed by a fenced block")
+  endif()
+  string(LENGTH "${CMAKE_MATCH_0}" fence_length)
+  string(SUBSTRING "${rest}" ${fence_length} -1 rest)
+  string(FIND "${rest}" "\n```\n" end)
+  if(end EQUAL -1)
+    message(FATAL_ERROR "${file}: the block '${name}' has no closing fence")
+  endif()
+  math(EXPR end "${end} + 1")
+  string(SUBSTRING "${rest}" 0 ${end} block)
+  set(${out} "${block}" PARENT_SCOPE)
+endfunction()
