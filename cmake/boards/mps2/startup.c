@@ -11,8 +11,11 @@ extern void __libc_init_array(void);
 extern uint32_t __bss_start__, __bss_end__, __stack_top;
 
 void halfspin_reset_handler(void);
+void SysTick_Handler(void);
 /* Linked with -nostartfiles (this file is the startup code): newlib's __libc_init_array and
  * __libc_fini_array still call the crti/crtn hooks, which have nothing to do here. */
+void _init(void);
+void _fini(void);
 void _init(void) {}
 void _fini(void) {}
 static void halfspin_fault_handler(void) { exit(70); }
@@ -20,23 +23,31 @@ static void halfspin_fault_handler(void) { exit(70); }
  * example's simulated IMU interrupt); without one, a SysTick exception is a fault. */
 void SysTick_Handler(void) __attribute__((weak, alias("halfspin_fault_handler")));
 
+/* One vector: the initial stack pointer (a data address) or a handler. A union keeps the table
+ * free of function-to-object pointer casts, which ISO C does not allow (-Wpedantic), so that
+ * this file builds without a warning under a consumer's strict C warning set. */
+typedef union {
+  void (*handler)(void);
+  const uint32_t* stack_top;
+} halfspin_vector;
+
 __attribute__((section(".vectors"), used))
-const void* const halfspin_vectors[16] = {&__stack_top,
-                                          (const void*)halfspin_reset_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          0,
-                                          0,
-                                          0,
-                                          0,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)halfspin_fault_handler,
-                                          0,
-                                          (const void*)halfspin_fault_handler,
-                                          (const void*)SysTick_Handler};
+const halfspin_vector halfspin_vectors[16] = {{.stack_top = &__stack_top},
+                                              {.handler = halfspin_reset_handler},
+                                              {.handler = halfspin_fault_handler}, /* NMI */
+                                              {.handler = halfspin_fault_handler}, /* HardFault */
+                                              {.handler = halfspin_fault_handler}, /* MemManage */
+                                              {.handler = halfspin_fault_handler}, /* BusFault */
+                                              {.handler = halfspin_fault_handler}, /* UsageFault */
+                                              {0},
+                                              {0},
+                                              {0},
+                                              {0},
+                                              {.handler = halfspin_fault_handler}, /* SVCall */
+                                              {.handler = halfspin_fault_handler}, /* DebugMon */
+                                              {0},
+                                              {.handler = halfspin_fault_handler}, /* PendSV */
+                                              {.handler = SysTick_Handler}};
 
 void halfspin_reset_handler(void) {
 #if defined(__ARM_FP)

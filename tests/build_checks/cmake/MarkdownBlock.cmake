@@ -1,0 +1,28 @@
+# halfspin_markdown_block(<file> <marker> <language> <out-var>): the text of the first fenced block
+# opened by ```<language> after the first occurrence of <marker> (a heading, a marker line) in the
+# markdown <file>, up to its closing fence, with its last newline. Stops with an error naming the
+# file when the marker or a closed block is missing. Used at configure time (tests/readme_usage.cmake)
+# and in cmake -P scripts (Consumer.cmake, mode documented).
+function(halfspin_markdown_block file marker language out)
+  file(READ "${file}" text)
+  string(FIND "${text}" "${marker}" marker_at)
+  if(marker_at EQUAL -1)
+    message(FATAL_ERROR "${file} has no '${marker}'")
+  endif()
+  string(SUBSTRING "${text}" ${marker_at} -1 text)
+  set(fence "```${language}\n")
+  string(FIND "${text}" "${fence}" open_at)
+  if(open_at EQUAL -1)
+    message(FATAL_ERROR "${file} has no ```${language} block after '${marker}'")
+  endif()
+  string(LENGTH "${fence}" fence_length)
+  math(EXPR body_at "${open_at} + ${fence_length}")
+  string(SUBSTRING "${text}" ${body_at} -1 text)
+  string(FIND "${text}" "\n```" close_at)
+  if(close_at EQUAL -1)
+    message(FATAL_ERROR "${file}: the ```${language} block after '${marker}' is not closed")
+  endif()
+  math(EXPR body_length "${close_at} + 1")
+  string(SUBSTRING "${text}" 0 ${body_length} text)
+  set(${out} "${text}" PARENT_SCOPE)
+endfunction()
