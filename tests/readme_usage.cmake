@@ -4,8 +4,8 @@
 # consumer).
 set(readme "${PROJECT_SOURCE_DIR}/README.md")
 set_property(DIRECTORY APPEND PROPERTY CMAKE_CONFIGURE_DEPENDS "${readme}")
-include("${CMAKE_CURRENT_LIST_DIR}/build_checks/cmake/MarkdownBlock.cmake")
-halfspin_markdown_block("${readme}" "## Usage" cpp usage_code)
+include("${CMAKE_CURRENT_LIST_DIR}/consumer/doc_blocks.cmake")
+doc_block("${readme}" usage usage_code)  # the block marked <!-- consumer: usage -->
 file(WRITE "${CMAKE_CURRENT_BINARY_DIR}/readme_usage.cpp" "${usage_code}")
 
 add_executable(readme_usage "${CMAKE_CURRENT_BINARY_DIR}/readme_usage.cpp")

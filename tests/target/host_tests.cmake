@@ -34,28 +34,3 @@ foreach(cpu IN LISTS HALFSPIN_TARGET_CPUS)
   include("${CMAKE_CURRENT_LIST_DIR}/host_footprint.cmake")
   include("${CMAKE_CURRENT_LIST_DIR}/host_replay.cmake")
 endforeach()
-
-# The documented cross-compiling commands, run as written (label consumer): install the package
-# into a scratch prefix, cross-compile examples/consumer_m4f against it with the installed
-# toolchain file and board support, run the image under qemu's mps2-an386. The block is the
-# ```sh block after the line HALFSPIN_CONSUMER_M4F_MARKER in HALFSPIN_CONSUMER_M4F_DOC.
-set(HALFSPIN_CONSUMER_M4F_DOC "${PROJECT_SOURCE_DIR}/docs/cross-compiling.md")
-set(HALFSPIN_CONSUMER_M4F_MARKER "<!-- consumer: m4f -->")
-set(consumer_m4f_work "${CMAKE_BINARY_DIR}/consumer-m4f")
-get_filename_component(consumer_cmake_dir "${CMAKE_COMMAND}" DIRECTORY)
-get_filename_component(consumer_qemu_dir "${HALFSPIN_QEMU_ARM}" DIRECTORY)
-get_filename_component(consumer_gxx_dir "${HALFSPIN_ARM_GXX}" DIRECTORY)
-# The install prefix as a literal inside a regular expression.
-string(REGEX REPLACE "([][+.*?()^$|\\])" "\\\\\\1" consumer_m4f_prefix_regex
-       "${consumer_m4f_work}/prefix")
-set(consumer_m4f_expect
-  "halfspin ${PROJECT_VERSION} from ${consumer_m4f_prefix_regex}/share/cmake/halfspin"
-  "samples 10000, rejected 0"
-  "error [0-9.]+e[-+][0-9]+ rad, roundoff bound [0-9.]+e[-+][0-9]+ rad: ok")
-add_test(NAME consumer.m4f
-  COMMAND "${CMAKE_COMMAND}" -DMODE=documented "-DSOURCE_DIR=${PROJECT_SOURCE_DIR}"
-          "-DWORK_DIR=${consumer_m4f_work}" "-DDOC_FILE=${HALFSPIN_CONSUMER_M4F_DOC}"
-          "-DDOC_MARKER=${HALFSPIN_CONSUMER_M4F_MARKER}" "-DEXPECT=${consumer_m4f_expect}"
-          "-DTOOL_DIRS=${consumer_gxx_dir};${consumer_qemu_dir};${consumer_cmake_dir}"
-          -P "${PROJECT_SOURCE_DIR}/tests/build_checks/cmake/Consumer.cmake")
-set_tests_properties(consumer.m4f PROPERTIES LABELS consumer TIMEOUT 900)

@@ -2,9 +2,6 @@
 #       build tree> -DCONSUMER_DIR=<consumer project> -DWORK_DIR=<scratch dir under the build tree>
 #       -DCXX_COMPILER=<path> -DGENERATOR=<name> [-DMAKE_PROGRAM=<path>] [-DCONFIG=<cfg>]
 #       [-DREQUEST_VERSION=<x.y>] [-DEXPECTED_VERSION=<x.y.z>] -P Consumer.cmake
-# cmake -DMODE=documented -DSOURCE_DIR=<halfspin source> -DWORK_DIR=<scratch dir>
-#       -DDOC_FILE=<markdown file> -DDOC_MARKER=<marker line> -DEXPECT=<regex;regex...>
-#       [-DTOOL_DIRS=<dir;dir...>] -P Consumer.cmake
 #
 # find_package: installs the build tree with `cmake --install` into <WORK_DIR>/prefix, checks that
 #   every header of include/ was installed, then configures the consumer with CMAKE_PREFIX_PATH at
@@ -12,22 +9,10 @@
 #   set and -Werror, checks that the installed headers were not passed as system headers (which
 #   would hide their warnings), and runs the consumer's tests.
 # add_subdirectory: configures the consumer on the source tree, builds it and runs its tests.
-# documented: runs the first ```sh block after the line DOC_MARKER in DOC_FILE, as written, with
-#   `sh -eu` and its documented placeholders set as shell variables: src (the halfspin source
-#   tree), prefix (<WORK_DIR>/prefix, the install prefix) and work (<WORK_DIR>/work, the build
-#   directories). It passes when every command succeeds, the block installed every header of
-#   include/, the output matches every regular expression of EXPECT and holds no "warning:" and
-#   no "CMake Warning". TOOL_DIRS go first on PATH (the cmake running this script, so the block's
-#   `cmake` is the same).
 # Every step starts from an empty <WORK_DIR>, so no cache of an earlier run can hide a problem.
 
 cmake_minimum_required(VERSION 3.20)
-if(MODE STREQUAL "documented")
-  set(required MODE SOURCE_DIR WORK_DIR DOC_FILE DOC_MARKER EXPECT)
-else()
-  set(required MODE SOURCE_DIR BINARY_DIR CONSUMER_DIR WORK_DIR CXX_COMPILER GENERATOR)
-endif()
-foreach(var IN LISTS required)
+foreach(var MODE SOURCE_DIR BINARY_DIR CONSUMER_DIR WORK_DIR CXX_COMPILER GENERATOR)
   if(NOT DEFINED ${var} OR "${${var}}" STREQUAL "")
     message(FATAL_ERROR "Consumer: pass -D${var}=...")
   endif()
@@ -45,52 +30,9 @@ function(run what)
   set(run_output "${out}${err}" PARENT_SCOPE)
 endfunction()
 
-# Every header of include/ must be under <prefix>/include.
-function(check_installed_headers)
-  file(GLOB_RECURSE source_headers LIST_DIRECTORIES false RELATIVE "${SOURCE_DIR}/include"
-    "${SOURCE_DIR}/include/*")
-  set(missing "")
-  foreach(header IN LISTS source_headers)
-    if(NOT EXISTS "${prefix}/include/${header}")
-      string(APPEND missing " ${header}")
-    endif()
-  endforeach()
-  if(NOT missing STREQUAL "")
-    message(FATAL_ERROR "Consumer: not installed under ${prefix}/include:${missing}")
-  endif()
-endfunction()
-
 file(REMOVE_RECURSE "${WORK_DIR}")
 file(MAKE_DIRECTORY "${WORK_DIR}")
 set(prefix "${WORK_DIR}/prefix")
-
-if(MODE STREQUAL "documented")
-  include("${CMAKE_CURRENT_LIST_DIR}/MarkdownBlock.cmake")
-  halfspin_markdown_block("${DOC_FILE}" "${DOC_MARKER}" sh block)
-  file(WRITE "${WORK_DIR}/documented.sh" "${block}")
-
-  set(path "$ENV{PATH}")
-  foreach(dir IN LISTS TOOL_DIRS)
-    set(path "${dir}:${path}")
-  endforeach()
-  run("the documented commands (${DOC_FILE}, after '${DOC_MARKER}'):\n${block}"
-    "${CMAKE_COMMAND}" -E env "PATH=${path}" "src=${SOURCE_DIR}" "prefix=${prefix}"
-    "work=${WORK_DIR}/work" sh -eu "${WORK_DIR}/documented.sh")
-  check_installed_headers()
-  foreach(pattern IN LISTS EXPECT)
-    if(NOT run_output MATCHES "${pattern}")
-      message(FATAL_ERROR "Consumer: the documented commands' output does not match '${pattern}'")
-    endif()
-  endforeach()
-  foreach(warning "warning:" "CMake Warning")
-    string(FIND "${run_output}" "${warning}" at)
-    if(NOT at EQUAL -1)
-      message(FATAL_ERROR "Consumer: the documented commands printed '${warning}'")
-    endif()
-  endforeach()
-  message(STATUS "Consumer (documented): every command of the block succeeded with the expected output")
-  return()
-endif()
 set(consumer_build "${WORK_DIR}/build")
 
 set(configure_args
@@ -106,7 +48,17 @@ endif()
 if(MODE STREQUAL "find_package")
   run("cmake --install ${BINARY_DIR}"
     "${CMAKE_COMMAND}" --install "${BINARY_DIR}" --prefix "${prefix}" --config "${CONFIG}")
-  check_installed_headers()
+  file(GLOB_RECURSE source_headers LIST_DIRECTORIES false RELATIVE "${SOURCE_DIR}/include"
+    "${SOURCE_DIR}/include/*")
+  set(missing "")
+  foreach(header IN LISTS source_headers)
+    if(NOT EXISTS "${prefix}/include/${header}")
+      string(APPEND missing " ${header}")
+    endif()
+  endforeach()
+  if(NOT missing STREQUAL "")
+    message(FATAL_ERROR "Consumer: not installed under ${prefix}/include:${missing}")
+  endif()
   list(APPEND configure_args
     "-DCMAKE_PREFIX_PATH=${prefix}"
     "-DHALFSPIN_EXPECTED_PREFIX=${prefix}")
