@@ -1,8 +1,9 @@
 #pragma once
-// halfspin: header-only, allocation-free attitude kinematics and propagation from gyro data.
-// Conventions: quaternions scalar-first (w, x, y, z), Hamilton product; an attitude q maps body
-// vectors into the reference frame, v_ref = q ⊗ v_body ⊗ q*; gyro rates in rad/s, body frame.
-// This umbrella header includes every public header (a build check keeps it complete).
+/// @file
+/// halfspin: header-only, allocation-free attitude kinematics and propagation from gyro data.
+/// Conventions: quaternions scalar-first (w, x, y, z), Hamilton product; an attitude q maps body
+/// vectors into the reference frame, v_ref = q ⊗ v_body ⊗ q*; gyro rates in rad/s, body frame.
+/// This umbrella header includes every public header (a build check keeps it complete).
 
 // core
 #include "halfspin/core/angle_between.hpp"

@@ -1,20 +1,21 @@
 #pragma once
-// The horizon bound with the reason when it is not finite: which derivative bound is missing, or
-// that the step is too large, or that the stepper has no bound, instead of a silent +∞.
-//
-// The bounds are +∞ in three ways (magnus_family_bounds.hpp, runge_kutta_bounds.hpp,
-// commutator_free_bounds.hpp): a D_k the stepper's bound needs is unknown (+∞), whatever the
-// others; D0·dt > 1 rad; or the local bound reaches the end of its derivation's range (2 rad for
-// the rotation-vector family). The report tells them apart by probing: each unknown D_j, j ≤ k,
-// is replaced by the finite value p_j = 2⁻¹⁰·dt^−(j+1) (rad/s^(j+1); a term of about a
-// thousandth of a radian per step, small enough not to push a bound out of its range), for
-// k = 0, 1, …, 5; the first k whose probed bound is finite is the derivative the stepper needs:
-// supplying finite bounds for the unknown ones among D_0..D_k gives a finite bound (their size
-// changes the value, not its finiteness, as long as the step stays in range). If no k makes it
-// finite, no derivative information helps at this step: step_too_large. The probe values are
-// never reported as a bound; they only locate the missing derivative. p_j is capped at the
-// largest finite T / 2¹⁶, so in float with dt below about 10⁻⁶ s the top probes can be inexact:
-// the status is then still step_too_large or needs_derivative, the index possibly one too high.
+/// @file
+/// The horizon bound with the reason when it is not finite: which derivative bound is missing, or
+/// that the step is too large, or that the stepper has no bound, instead of a silent +∞.
+///
+/// The bounds are +∞ in three ways (magnus_family_bounds.hpp, runge_kutta_bounds.hpp,
+/// commutator_free_bounds.hpp): a D_k the stepper's bound needs is unknown (+∞), whatever the
+/// others; D0·dt > 1 rad; or the local bound reaches the end of its derivation's range (2 rad for
+/// the rotation-vector family). The report tells them apart by probing: each unknown D_j, j ≤ k,
+/// is replaced by the finite value p_j = 2⁻¹⁰·dt^−(j+1) (rad/s^(j+1); a term of about a
+/// thousandth of a radian per step, small enough not to push a bound out of its range), for
+/// k = 0, 1, …, 5; the first k whose probed bound is finite is the derivative the stepper needs:
+/// supplying finite bounds for the unknown ones among D_0..D_k gives a finite bound (their size
+/// changes the value, not its finiteness, as long as the step stays in range). If no k makes it
+/// finite, no derivative information helps at this step: step_too_large. The probe values are
+/// never reported as a bound; they only locate the missing derivative. p_j is capped at the
+/// largest finite T / 2¹⁶, so in float with dt below about 10⁻⁶ s the top probes can be inexact:
+/// the status is then still step_too_large or needs_derivative, the index possibly one too high.
 
 #include <cmath>
 #include <cstddef>
@@ -28,21 +29,23 @@
 
 namespace halfspin {
 
+/// Why a horizon bound is finite, or why it is +∞ (see the file comment).
 enum class BoundStatus : std::uint8_t {
-  ok,                // value_rad is a finite bound
-  needs_derivative,  // +∞ for want of derivative bounds: supply D_0..D_k, k = needed_derivative
-  step_too_large,    // +∞ whatever the unknown derivatives: D0·dt > 1 rad, or the local bound
-                     // leaves the range of its derivation; a smaller step is needed
-  no_bound_for_stepper,  // the stepper has no LocalErrorBound (and the motion is not pure coning)
-  invalid_arguments      // dt or horizon not positive and finite, steps < 1, a D_k negative or NaN
+  ok,                ///< value_rad is a finite bound
+  needs_derivative,  ///< +∞ for want of derivative bounds: supply D_0..D_k, k = needed_derivative
+  step_too_large,    ///< +∞ whatever the unknown derivatives: D0·dt > 1 rad, or the local bound
+                     ///< leaves the range of its derivation; a smaller step is needed
+  no_bound_for_stepper,  ///< the stepper has no LocalErrorBound (and the motion is not pure coning)
+  invalid_arguments  ///< dt or horizon not positive and finite, steps < 1, a D_k negative or NaN
 };
 
+/// A horizon bound and its status: the reason when it is +∞.
 template <class T>
 struct BoundReport {
-  T value_rad = std::numeric_limits<T>::infinity();  // the bound (rad); +∞ unless status is ok
-  BoundStatus status = BoundStatus::invalid_arguments;
-  std::size_t needed_derivative = 0;  // with needs_derivative: k, supply D_0..D_k (rad/s^(k+1))
-  std::int64_t steps = 0;             // steps the bound covers
+  T value_rad = std::numeric_limits<T>::infinity();  ///< the bound (rad); +∞ unless status is ok
+  BoundStatus status = BoundStatus::invalid_arguments;  ///< ok, or why value_rad is +∞
+  std::size_t needed_derivative = 0;  ///< with needs_derivative: k, supply D_0..D_k (rad/s^(k+1))
+  std::int64_t steps = 0;             ///< steps the bound covers
 };
 
 namespace detail {
@@ -76,8 +79,8 @@ bool valid_description(const MotionDescription<T>& description) noexcept {
 
 }  // namespace detail
 
-// error_bound_after_steps (horizon_bound.hpp) with its status (rad; dt in s): ok and the finite
-// bound, or why there is none (header comment).
+/// error_bound_after_steps (horizon_bound.hpp) with its status (rad; dt in s): ok and the finite
+/// bound, or why there is none (header comment).
 template <class Stepper, class T, class Accumulation = PlainAccumulation>
 BoundReport<T> error_report_after_steps(const MotionDescription<T>& description, T dt,
                                         std::int64_t steps) noexcept {
@@ -116,9 +119,9 @@ BoundReport<T> error_report_after_steps(const MotionDescription<T>& description,
   return r;
 }
 
-// horizon_error_bound (horizon_bound.hpp) with its status: the report after
-// steps_for_horizon(dt, horizon_s) = ceil(horizon/dt) steps. The horizon (s) may be any
-// arithmetic type, converted to T (static_cast).
+/// horizon_error_bound (horizon_bound.hpp) with its status: the report after
+/// steps_for_horizon(dt, horizon_s) = ceil(horizon/dt) steps. The horizon (s) may be any
+/// arithmetic type, converted to T (static_cast).
 template <class Stepper, class T, class Accumulation = PlainAccumulation, class H>
 BoundReport<T> horizon_error_report(const MotionDescription<T>& description, T dt,
                                     H horizon_s) noexcept {

@@ -1,47 +1,48 @@
 #pragma once
-// The a-priori local (one-step) error bound of the commutator-free family
-// (propagation/commutator_free_family.hpp): one bound for every member, computed from its
-// CommutatorFreeRule. LocalErrorBound<S>::local(e, h) (rad) bounds the angle between the attitude
-// the stepper returns and the exact one after ONE step of length h (s) from the exact attitude,
-// for every rate whose derivatives obey e on the step; +∞ when a needed D_k is +∞, when D0·h > 1
-// rad or Σ_j|φ_j| may exceed 1 rad, or when the bound reaches 2 rad.
-//
-// Derivation (ours; inputs: Bortz's rotation-vector equation and the Magnus expansion, see
-// REFERENCES.md, and the bounds of magnus_family_bounds.hpp, whose sections are cited as §n).
-//
-// 1. Split. The product is exp(Φ/2), Φ the rotation vector of the flow of the piecewise-constant
-//    rate that equals φ_k/(duration) on the k-th of E consecutive pieces. With the metric of §0
-//    (|Φ| ≤ A := Σ|φ_j| ≤ 1 and the bound below 2 keep both rotation vectors shorter than π),
-//    the error is at most |Φ − φ*|. Φ = Σφ_j + β̂ + R̃ with β̂ = ½Σ_{j<k} φ_j×φ_k exactly (§1
-//    applied to the piecewise rate: α̃ ∥ ω̃ within a piece), and φ* = α + β + R, so
-//        |Φ − φ*| ≤ |α̂ − α| + |β̂ − β| + |R| + |R̃|:
-//    the quadrature error of the weights w_i = Σ_j a_ji (§2), the commutator error of the pairs
-//    c_il = ½Σ_{j<k}(a_ji a_kl − a_jl a_ki) (§4), Bortz's remainder (§3) and the remainder R̃ of
-//    the product beyond its second-order part, bounded here.
-// 2. R̃. On piece k, in its own time s ∈ [0, 1], write S_k = Σ_{j<k}φ_j, α̃ = S_k + sφ_k,
-//    β̃ = B_k + ½s S_k×φ_k (B_k = ½Σ_{i<j<k}φ_i×φ_j) and ψ = Φ − α̃. Bortz's equation with the
-//    rate φ_k gives ψ' = ½Φ×φ_k + f(|Φ|)Φ×(Φ×φ_k) and Φ×φ_k = S_k×φ_k + ψ×φ_k. With
-//    C_k ≥ |S_k×φ_k|, P_k ≥ |φ_k|, f ≤ F = 1/12 + A²/700 and k0 = ½ + F·A (§3), Grönwall gives
-//    |ψ| ≤ G_k := (G_{k−1} + k0·C_k)·e^{k0·P_k} on pieces 1…k (G_0 = 0). R̃ = ψ(end) − β̃(end)
-//    = Σ_k ∫[½ψ×φ_k + fΦ×(Φ×φ_k)], so
-//    (a) crude: |R̃| ≤ Q_E, Q_k = Q_{k−1} + ½P_k·G_k + F·A·(C_k + G_k·P_k) (third order in φ);
-//    (b) fifth order: the integrand is T3's integrand ½β̃×φ_k + (1/12)α̃×(α̃×φ_k) plus
-//        ½(ψ − β̃)×φ_k + (f − 1/12)Φ×(Φ×φ_k) + (1/12)[ψ×(Φ×φ_k) + α̃×(ψ×φ_k)], where |ψ − β̃| ≤ Q_k
-//        and 0 ≤ f − 1/12 ≤ A²/700; integrated, T3 = Σ_k[½B_k×φ_k + (1/12)(S_k − φ_k)×(S_k×φ_k)]
-//        and |R̃| ≤ Σ_k [½|B_k|P_k + (1/12)|S_k − φ_k|C_k] + Σ_k [½P_k·Q_k
-//        + A³/700·(C_k + G_k·P_k) + (G_k·(C_k + G_k·P_k) + A·G_k·P_k)/12].
-//    The smaller of (a) and (b) is used.
-// 3. From the envelope. A combination v = Σ λ_i ℓ_i(ω) of the samples (ℓ_i their functionals over
-//    the step τ ∈ [−½, ½]; rates × h) has |v| ≤ h·D0·Σ|λ_i|ℓ_i(1), and, when Σλ_i ℓ_i(1) = 0,
-//    |v| ≤ h²·D1·Σ|λ_i|ℓ_i(|τ|) (ω − ω(mid) ≤ D1·h|τ|). A cross combination Σ γ_il ℓ_i × ℓ_l
-//    (× h²) has, with ℓ_i = ℓ_i(1)·ω(mid) + ℓ_i(ω − ω(mid)),
-//    |·| ≤ h³·D0·D1·Σ|γ_il|(ℓ_i(1)ℓ_l(|τ|) + ℓ_l(1)ℓ_i(|τ|)) + h⁴·D1²·Σ|γ_il|ℓ_i(|τ|)ℓ_l(|τ|).
-//    So P_k, C_k = the bound of S_k×φ_k, |S_k − φ_k| and |B_k| ≤ ½Σ_{j<k}C_j follow from the
-//    weights. For E = 2 (B_2 = 0) and equal weight sums of the two factors, (b) is O(h⁵) like the
-//    method's error; for E ≥ 3 the term ½|B_k|P_k is O(h⁴) (the cancellation between the B_k terms
-//    that makes an order-4 method's T3 O(h⁵) is not tracked): the bound is then one order loose.
-// At constant rate every C_k, and with it R̃, is 0; §2–§4 vanish too: the bound is 0, as the
-// error is (all factors are exponentials of parallel vectors).
+/// @file
+/// The a-priori local (one-step) error bound of the commutator-free family
+/// (propagation/commutator_free_family.hpp): one bound for every member, computed from its
+/// CommutatorFreeRule. LocalErrorBound<S>::local(e, h) (rad) bounds the angle between the attitude
+/// the stepper returns and the exact one after ONE step of length h (s) from the exact attitude,
+/// for every rate whose derivatives obey e on the step; +∞ when a needed D_k is +∞, when D0·h > 1
+/// rad or Σ_j|φ_j| may exceed 1 rad, or when the bound reaches 2 rad.
+///
+/// Derivation (ours; inputs: Bortz's rotation-vector equation and the Magnus expansion, see
+/// REFERENCES.md, and the bounds of magnus_family_bounds.hpp, whose sections are cited as §n).
+///
+/// 1. Split. The product is exp(Φ/2), Φ the rotation vector of the flow of the piecewise-constant
+///    rate that equals φ_k/(duration) on the k-th of E consecutive pieces. With the metric of §0
+///    (|Φ| ≤ A := Σ|φ_j| ≤ 1 and the bound below 2 keep both rotation vectors shorter than π),
+///    the error is at most |Φ − φ*|. Φ = Σφ_j + β̂ + R̃ with β̂ = ½Σ_{j<k} φ_j×φ_k exactly (§1
+///    applied to the piecewise rate: α̃ ∥ ω̃ within a piece), and φ* = α + β + R, so
+///        |Φ − φ*| ≤ |α̂ − α| + |β̂ − β| + |R| + |R̃|:
+///    the quadrature error of the weights w_i = Σ_j a_ji (§2), the commutator error of the pairs
+///    c_il = ½Σ_{j<k}(a_ji a_kl − a_jl a_ki) (§4), Bortz's remainder (§3) and the remainder R̃ of
+///    the product beyond its second-order part, bounded here.
+/// 2. R̃. On piece k, in its own time s ∈ [0, 1], write S_k = Σ_{j<k}φ_j, α̃ = S_k + sφ_k,
+///    β̃ = B_k + ½s S_k×φ_k (B_k = ½Σ_{i<j<k}φ_i×φ_j) and ψ = Φ − α̃. Bortz's equation with the
+///    rate φ_k gives ψ' = ½Φ×φ_k + f(|Φ|)Φ×(Φ×φ_k) and Φ×φ_k = S_k×φ_k + ψ×φ_k. With
+///    C_k ≥ |S_k×φ_k|, P_k ≥ |φ_k|, f ≤ F = 1/12 + A²/700 and k0 = ½ + F·A (§3), Grönwall gives
+///    |ψ| ≤ G_k := (G_{k−1} + k0·C_k)·e^{k0·P_k} on pieces 1…k (G_0 = 0). R̃ = ψ(end) − β̃(end)
+///    = Σ_k ∫[½ψ×φ_k + fΦ×(Φ×φ_k)], so
+///    (a) crude: |R̃| ≤ Q_E, Q_k = Q_{k−1} + ½P_k·G_k + F·A·(C_k + G_k·P_k) (third order in φ);
+///    (b) fifth order: the integrand is T3's integrand ½β̃×φ_k + (1/12)α̃×(α̃×φ_k) plus
+///        ½(ψ − β̃)×φ_k + (f − 1/12)Φ×(Φ×φ_k) + (1/12)[ψ×(Φ×φ_k) + α̃×(ψ×φ_k)], where |ψ − β̃| ≤ Q_k
+///        and 0 ≤ f − 1/12 ≤ A²/700; integrated, T3 = Σ_k[½B_k×φ_k + (1/12)(S_k − φ_k)×(S_k×φ_k)]
+///        and |R̃| ≤ Σ_k [½|B_k|P_k + (1/12)|S_k − φ_k|C_k] + Σ_k [½P_k·Q_k
+///        + A³/700·(C_k + G_k·P_k) + (G_k·(C_k + G_k·P_k) + A·G_k·P_k)/12].
+///    The smaller of (a) and (b) is used.
+/// 3. From the envelope. A combination v = Σ λ_i ℓ_i(ω) of the samples (ℓ_i their functionals over
+///    the step τ ∈ [−½, ½]; rates × h) has |v| ≤ h·D0·Σ|λ_i|ℓ_i(1), and, when Σλ_i ℓ_i(1) = 0,
+///    |v| ≤ h²·D1·Σ|λ_i|ℓ_i(|τ|) (ω − ω(mid) ≤ D1·h|τ|). A cross combination Σ γ_il ℓ_i × ℓ_l
+///    (× h²) has, with ℓ_i = ℓ_i(1)·ω(mid) + ℓ_i(ω − ω(mid)),
+///    |·| ≤ h³·D0·D1·Σ|γ_il|(ℓ_i(1)ℓ_l(|τ|) + ℓ_l(1)ℓ_i(|τ|)) + h⁴·D1²·Σ|γ_il|ℓ_i(|τ|)ℓ_l(|τ|).
+///    So P_k, C_k = the bound of S_k×φ_k, |S_k − φ_k| and |B_k| ≤ ½Σ_{j<k}C_j follow from the
+///    weights. For E = 2 (B_2 = 0) and equal weight sums of the two factors, (b) is O(h⁵) like the
+///    method's error; for E ≥ 3 the term ½|B_k|P_k is O(h⁴) (the cancellation between the B_k terms
+///    that makes an order-4 method's T3 O(h⁵) is not tracked): the bound is then one order loose.
+/// At constant rate every C_k, and with it R̃, is 0; §2–§4 vanish too: the bound is 0, as the
+/// error is (all factors are exponentials of parallel vectors).
 
 #include <array>
 #include <cstddef>
@@ -173,11 +174,11 @@ constexpr T commutator_free_step(const CommutatorFreeRule<W, E>& r, const RateEn
 }  // namespace commutator_free_bounds
 }  // namespace detail
 
-// The one bound of the family, from the member's CommutatorFreeRule; h is the stepper's step (s):
-// W − 1 sample periods for rates spanning the step, W for W delta-angles.
+/// The one bound of the family, from the member's CommutatorFreeRule; h is the stepper's step (s):
+/// W − 1 sample periods for rates spanning the step, W for W delta-angles.
 template <class Rule>
 struct FamilyLocalErrorBound<CommutatorFreeStepper<Rule>> {
-  // Local angle error bound (rad) for envelope e and step h (s).
+  /// Local angle error bound (rad) for envelope e and step h (s).
   template <class T>
   static constexpr T local(const RateEnvelope<T>& e, T h) noexcept {
     return detail::commutator_free_bounds::commutator_free_step(Rule::value, e, h);

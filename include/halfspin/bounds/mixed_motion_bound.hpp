@@ -1,43 +1,45 @@
 #pragma once
-// The local bound of an exponential-map, Magnus or coning step for a motion that contains cones
-// but is not pure coning: coning plus a turn, vibration lines, either with a manoeuvre envelope.
-//
-// Without this, such a motion is bounded through its summed derivative envelope alone
-// (horizon_bound.hpp), which is loose by up to 10⁴ on the coning part: the coning algorithms cancel
-// the leading terms of exactly that motion, and a derivative bound cannot see it. Here the cones
-// keep their exact error and only what the rest adds is bounded:
-//  1. Split (split_cones): the rate is ω = Σ_j u_j + v with u_j classical cones — the
-//     description's ConingSpec, and for each vibration line the circle turning with it (radius
-//     ρ₊ = Ω·sin a_j, motion_description.hpp) as a cone of half-angle a_j = asin(ρ₊/Ω) in the
-//     plane of the line's ellipse — and v the rest: the manoeuvre envelope, each line's circle
-//     turning against it (radius ρ₋: D_k = ρ₋·Ωᵏ) and the axial rate Ω(1 − cos a_j) the line has
-//     not but the cone has (a constant: D0 only). A line whose cone would exceed 1 rad stays whole
-//     in v. A cone in another plane and phase is the canonical cone rotated and shifted in time,
-//     and every stepper of the family is equivariant under both (coning_error.hpp), so its error
-//     is the canonical one.
-//  2. Bound: for a rotation-vector step φ̂ = α̂ + β̂ against φ* = α + β + R (magnus_family_bounds.hpp
-//     sections 1–4), α̂ − α is linear and β̂ − β bilinear in the rate, so
-//     |φ̂ − φ*| ≤ Σ_j |φ̂ − φ*|(u_j) + (the family's split_remainder: the rest's quadrature and
-//     commutator error, the polarized cross terms cone–cone and cones–rest, and the remainders
-//     R of each cone and of the whole rate). |φ̂ − φ*|(u_j) is computed exactly in long double
-//     (coning_step_rotation_vector_error). The angle error is at most |φ̂ − φ*| (section 0), with
-//     the same range check.
-// The result is rigorous for every rate the description admits, and local_truncation_bound takes
-// the smaller of it and the envelope bound. Over a horizon it is summed linearly (every step's
-// bound, bi-invariance): tight where the error is secular (the coning algorithms' drift along the
-// cone axis), loose where a step's error turns with the cone (the zero-order-hold exponential-map
-// steps, and the 3- and 4-sample algorithms at steps of a few tenths of a radian of cone phase),
-// for which pure coning alone has the closed form of coning_error.hpp.
-// Measured (tests/bounds/test_mixed_motion_bound.cpp, a 15 Hz cone of 0.03 rad with a 0.8 rad/s
-// turn about its axis or 0.7 rad/s across it, 20 cone periods, gyro at 250–1000 Hz): bound/measured
-// 1.3 (coning_1_sample), 1.3–1.5 (coning_2_sample), 1.9–4.2 (Miller's set), 2.8–6.5 (one plus
-// previous), 6.6–33 (coning_3_sample, coning_4_sample); with the summed envelope 1.3–215. The same
-// runs' sum of exact local errors (each step from the exact attitude; no summing bound goes below
-// it) over the measured error: 1.0 (one and two samples), 1.1–1.2 (Miller), 1.3–5.4 (one plus
-// previous), 2.0–2.5 with the axial turn and 5.3–5.8 with the banked turn (three and four
-// samples). So with the banked turn the three- and four-sample algorithms cannot reach 3 with a
-// summing bound; with the axial turn the remaining factor of 3–7 is this bound's remainder term
-// (the third-order terms between cone and turn, majorized by norm products).
+/// @file
+/// The local bound of an exponential-map, Magnus or coning step for a motion that contains cones
+/// but is not pure coning: coning plus a turn, vibration lines, either with a manoeuvre envelope.
+///
+/// Without this, such a motion is bounded through its summed derivative envelope alone
+/// (horizon_bound.hpp), which is loose by up to 10⁴ on the coning part: the coning algorithms
+/// cancel the leading terms of exactly that motion, and a derivative bound cannot see it. Here the
+/// cones keep their exact error and only what the rest adds is bounded:
+///  1. Split (split_cones): the rate is ω = Σ_j u_j + v with u_j classical cones — the
+///     description's ConingSpec, and for each vibration line the circle turning with it (radius
+///     ρ₊ = Ω·sin a_j, motion_description.hpp) as a cone of half-angle a_j = asin(ρ₊/Ω) in the
+///     plane of the line's ellipse — and v the rest: the manoeuvre envelope, each line's circle
+///     turning against it (radius ρ₋: D_k = ρ₋·Ωᵏ) and the axial rate Ω(1 − cos a_j) the line has
+///     not but the cone has (a constant: D0 only). A line whose cone would exceed 1 rad stays whole
+///     in v. A cone in another plane and phase is the canonical cone rotated and shifted in time,
+///     and every stepper of the family is equivariant under both (coning_error.hpp), so its error
+///     is the canonical one.
+///  2. Bound: for a rotation-vector step φ̂ = α̂ + β̂ against φ* = α + β + R (magnus_family_bounds.hpp
+///     sections 1–4), α̂ − α is linear and β̂ − β bilinear in the rate, so
+///     |φ̂ − φ*| ≤ Σ_j |φ̂ − φ*|(u_j) + (the family's split_remainder: the rest's quadrature and
+///     commutator error, the polarized cross terms cone–cone and cones–rest, and the remainders
+///     R of each cone and of the whole rate). |φ̂ − φ*|(u_j) is computed exactly in long double
+///     (coning_step_rotation_vector_error). The angle error is at most |φ̂ − φ*| (section 0), with
+///     the same range check.
+/// The result is rigorous for every rate the description admits, and local_truncation_bound takes
+/// the smaller of it and the envelope bound. Over a horizon it is summed linearly (every step's
+/// bound, bi-invariance): tight where the error is secular (the coning algorithms' drift along the
+/// cone axis), loose where a step's error turns with the cone (the zero-order-hold exponential-map
+/// steps, and the 3- and 4-sample algorithms at steps of a few tenths of a radian of cone phase),
+/// for which pure coning alone has the closed form of coning_error.hpp.
+/// Measured (tests/bounds/test_mixed_motion_bound.cpp, a 15 Hz cone of 0.03 rad with a 0.8 rad/s
+/// turn about its axis or 0.7 rad/s across it, 20 cone periods, gyro at 250–1000 Hz):
+/// bound/measured 1.3 (coning_1_sample), 1.3–1.5 (coning_2_sample), 1.9–4.2 (Miller's set), 2.8–6.5
+/// (one plus previous), 6.6–33 (coning_3_sample, coning_4_sample); with the summed
+/// envelope 1.3–215. The same runs' sum of exact local errors (each step from the exact attitude;
+/// no summing bound goes below it) over the measured error: 1.0 (one and two samples), 1.1–1.2
+/// (Miller), 1.3–5.4 (one plus previous), 2.0–2.5 with the axial turn and 5.3–5.8 with the banked
+/// turn (three and four samples). So with the banked turn the three- and four-sample algorithms
+/// cannot reach 3 with a summing bound; with the axial turn the remaining factor of 3–7 is this
+/// bound's remainder term (the third-order terms between cone and turn, majorized by norm
+/// products).
 
 #include <array>
 #include <cmath>
@@ -53,16 +55,17 @@
 
 namespace halfspin {
 
-// A motion as cones plus a rest (header comment, step 1).
+/// A motion as cones plus a rest (header comment, step 1).
 template <class T>
 struct ConeSplit {
+  /// The most cones: 1 + VibrationSpec<T>::capacity.
   static constexpr std::size_t capacity = 1 + VibrationSpec<T>::capacity;
-  std::array<ConingSpec<T>, capacity> cone{};
-  std::size_t count = 0;
-  RateEnvelope<T> rest = RateEnvelope<T>::none();
+  std::array<ConingSpec<T>, capacity> cone{};      ///< the cones; the first `count` are used
+  std::size_t count = 0;                           ///< cones in use
+  RateEnvelope<T> rest = RateEnvelope<T>::none();  ///< the derivative bounds of what is not a cone
 };
 
-// Splits a description into cones and a rest (header comment, step 1).
+/// Splits a description into cones and a rest (header comment, step 1).
 template <class T>
 ConeSplit<T> split_cones(const MotionDescription<T>& d) noexcept {
   ConeSplit<T> s{};
@@ -92,13 +95,13 @@ ConeSplit<T> split_cones(const MotionDescription<T>& d) noexcept {
   return s;
 }
 
-// |M| (rad·s) for a cone and one step of Stepper of length dt (s): the cross term of the step's
-// commutator error between the cone u and a constant rate c is exactly M × c (magnus_family_bounds
-// split_remainder). Computed in long double: β̂'s part from the stepper's own commutator_term
-// (β̂(u + c) − β̂(u) − β̂(c) for c the three unit vectors), β's part from
-// β(u + c) − β(u) − β(c) = ½∫₀^dt (dt − 2t)·u(t) dt × c (β = ½∫α×ω; α_c = c·t), the integral by
-// 8-point Gauss–Legendre on 8 panels (exact far below the long double rounding for the
-// step lengths the bounds allow, Ω·dt < π). Same at every step (the cone's equivariance).
+/// |M| (rad·s) for a cone and one step of Stepper of length dt (s): the cross term of the step's
+/// commutator error between the cone u and a constant rate c is exactly M × c (magnus_family_bounds
+/// split_remainder). Computed in long double: β̂'s part from the stepper's own commutator_term
+/// (β̂(u + c) − β̂(u) − β̂(c) for c the three unit vectors), β's part from
+/// β(u + c) − β(u) − β(c) = ½∫₀^dt (dt − 2t)·u(t) dt × c (β = ½∫α×ω; α_c = c·t), the integral by
+/// 8-point Gauss–Legendre on 8 panels (exact far below the long double rounding for the
+/// step lengths the bounds allow, Ω·dt < π). Same at every step (the cone's equivariance).
 template <class Stepper>
 long double coning_constant_cross(long double half_angle, long double frequency_hz,
                                   long double dt) noexcept {
@@ -151,7 +154,7 @@ long double coning_constant_cross(long double half_angle, long double frequency_
   return norm(method - exact);
 }
 
-// Whether Stepper's family bounds a split motion (has split_remainder and checked).
+/// Whether Stepper's family bounds a split motion (has split_remainder and checked).
 template <class Stepper, class T, class = void>
 struct has_split_bound : std::false_type {};
 template <class Stepper, class T>
@@ -161,9 +164,9 @@ struct has_split_bound<
         std::declval<const RateEnvelope<T>&>(), std::declval<T>(), std::declval<T>()))>>
     : std::true_type {};
 
-// Local bound (rad) of one step of length dt (s) of Stepper for the description, keeping its
-// cones exact (header comment); +∞ when the description has no cone or the family has no split
-// bound (the caller then has the envelope bound alone).
+/// Local bound (rad) of one step of length dt (s) of Stepper for the description, keeping its
+/// cones exact (header comment); +∞ when the description has no cone or the family has no split
+/// bound (the caller then has the envelope bound alone).
 template <class Stepper, class T>
 T split_local_bound(const MotionDescription<T>& d, T dt) noexcept {
   if constexpr (has_split_bound<Stepper, T>::value) {

@@ -1,16 +1,17 @@
 #pragma once
-// The cheapest stepper, from a compile-time list, that meets an attitude-error budget at a given
-// gyro sample rate, with the propagator's accumulation policy (plain by default, or compensated).
-//
-// The gyro fixes the sample period h = 1/sample_rate; each stepper's step spans its
-// periods_per_step(layout, window) periods, so its step is dt = periods·h and it runs
-// sample_rate/periods steps per second. Its cost is flops × steps per second (flop/s), the flops
-// being the per-step count written down in each stepper's header with the plain application of
-// the increment replaced by the accumulation policy's (Accumulation::flops). Each candidate's
-// bound is the worst-case horizon bound (horizon_bound.hpp) at that dt; the answer is the
-// candidate of least cost whose bound meets the budget (ties: the smaller bound, then the earlier
-// in the list). Every candidate's outcome is returned, so a caller can say why the cheaper ones
-// failed: over budget (with their bound) or no finite bound.
+/// @file
+/// The cheapest stepper, from a compile-time list, that meets an attitude-error budget at a given
+/// gyro sample rate, with the propagator's accumulation policy (plain by default, or compensated).
+///
+/// The gyro fixes the sample period h = 1/sample_rate; each stepper's step spans its
+/// periods_per_step(layout, window) periods, so its step is dt = periods·h and it runs
+/// sample_rate/periods steps per second. Its cost is flops × steps per second (flop/s), the flops
+/// being the per-step count written down in each stepper's header with the plain application of
+/// the increment replaced by the accumulation policy's (Accumulation::flops). Each candidate's
+/// bound is the worst-case horizon bound (horizon_bound.hpp) at that dt; the answer is the
+/// candidate of least cost whose bound meets the budget (ties: the smaller bound, then the earlier
+/// in the list). Every candidate's outcome is returned, so a caller can say why the cheaper ones
+/// failed: over budget (with their bound) or no finite bound.
 
 #include <array>
 #include <cmath>
@@ -25,33 +26,36 @@
 
 namespace halfspin {
 
-// A compile-time list of candidate steppers.
+/// A compile-time list of candidate steppers.
 template <class... Steppers>
 struct StepperList {};
 
+/// A candidate's verdict against the budget.
 enum class CandidateOutcome : std::uint8_t {
-  meets_budget,
-  over_budget,  // finite bound above the budget
-  no_bound      // bound +∞ or NaN: a derivative bound it needs is unknown, or no bound exists
+  meets_budget,  ///< bound within the budget
+  over_budget,   ///< finite bound above the budget
+  no_bound       ///< bound +∞ or NaN: a derivative bound it needs is unknown, or no bound exists
 };
 
+/// One candidate stepper: its step, bound, cost and verdict.
 template <class T>
 struct CandidateReport {
-  const char* name = "";
-  T step_s = T(0);            // dt = periods per step / sample rate (s)
-  T bound_rad = T(0);         // worst-case horizon bound (rad)
-  T cost_flops_per_s = T(0);  // flops per step × steps per second
-  CandidateOutcome outcome = CandidateOutcome::no_bound;
+  const char* name = "";      ///< the stepper's name
+  T step_s = T(0);            ///< dt = periods per step / sample rate (s)
+  T bound_rad = T(0);         ///< worst-case horizon bound (rad)
+  T cost_flops_per_s = T(0);  ///< flops per step × steps per second
+  CandidateOutcome outcome = CandidateOutcome::no_bound;  ///< its verdict
 };
 
+/// The recommended stepper, if any, and every candidate's report.
 template <class T, std::size_t N>
 struct Recommendation {
-  bool found = false;
-  std::size_t index = N;      // position of the chosen stepper in the list (N if none)
-  const char* name = "";      // its name ("" if none)
-  T bound_rad = T(0);         // its bound (rad)
-  T cost_flops_per_s = T(0);  // its cost (flop/s)
-  std::array<CandidateReport<T>, N> candidates{};  // every candidate, in list order
+  bool found = false;         ///< whether a candidate meets the budget
+  std::size_t index = N;      ///< position of the chosen stepper in the list (N if none)
+  const char* name = "";      ///< its name ("" if none)
+  T bound_rad = T(0);         ///< its bound (rad)
+  T cost_flops_per_s = T(0);  ///< its cost (flop/s)
+  std::array<CandidateReport<T>, N> candidates{};  ///< every candidate, in list order
 };
 
 namespace detail {
@@ -78,10 +82,10 @@ CandidateReport<T> assess_candidate(const MotionDescription<T>& description, T b
 
 }  // namespace detail
 
-// The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
-// (rad) at sample_rate_hz (Hz) gyro samples, for scalar T and the propagator's Accumulation;
-// every candidate's outcome included. The horizon may be any arithmetic type, converted to T
-// (static_cast) first.
+/// The cheapest candidate (flop/s) whose worst-case bound over horizon_s (s) meets budget_rad
+/// (rad) at sample_rate_hz (Hz) gyro samples, for scalar T and the propagator's Accumulation;
+/// every candidate's outcome included. The horizon may be any arithmetic type, converted to T
+/// (static_cast) first.
 template <class T, class Accumulation = PlainAccumulation, class... Steppers, class H>
 Recommendation<T, sizeof...(Steppers)> recommend_stepper(StepperList<Steppers...> /*list*/,
                                                          const MotionDescription<T>& description,

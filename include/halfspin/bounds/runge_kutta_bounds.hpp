@@ -1,70 +1,71 @@
 #pragma once
-// A-priori local (one-step) attitude error bounds for the explicit Runge–Kutta steppers on
-// q̇ = ½ q ⊗ (0, ω): RK2/RK3/RK4 with sampled, interpolated and rate-function input,
-// Bogacki–Shampine 3(2) and Dormand–Prince 5(4) (the returned, higher-order solution).
-//
-// Derivation (one step of length h from t0; all norms are quaternion 2-norms).
-//
-// 0. Reduction. The steppers are linear in q (q_i = q + h Σ a_ij k_j, k_i = q_i ⊗ A_i with
-//    A_i = ½(0, ω_i)), so the step is q ⊗ P(h) with P the increment computed from q = 1, and the
-//    exact step is q ⊗ Φ(h) with Φ' = Φ A, Φ(0) = 1, A(τ) = ½(0, ω(t0 + τ)). The angle
-//    d(q⊗P/|P|, q⊗Φ) = d(P/|P|, Φ) (bi-invariant angle metric). Write a_k = D_k/2 ≥ ‖A^(k)‖.
-//
-// 1. Split off constant rate. Let A0 = A(0), Φ̄(s) = exp(s A0) and P̄(s) the stepper's increment
-//    for the constant rate A0: P̄ = R(s A0) with R(z) = Σ_k γ_k z^k the stability polynomial,
-//    γ_k = bᵀ 𝒜^(k−1) 𝟙 (Butcher). Put Y = P̄ Φ̄⁻¹ Φ (|Y| = |P̄|). By right invariance
-//    d(Y/|Y|, Φ) = d(P̄/|P̄|, Φ̄) = f(|ω(t0)| h), the exact constant-rate angle error, and
-//    d(P/|P|, Φ) ≤ d(P/|P|, Y/|Y|) + f(|ω(t0)| h).
-//    f(θ): with φ = θ/2 and n the rate axis, P̄ = w + v n, w = Σ γ_2m (−1)^m φ^2m,
-//    v = Σ γ_2m+1 (−1)^m φ^(2m+1); P̄ ⊗ Φ̄* = (w cos φ + v sin φ) + (v cos φ − w sin φ) n, so
-//    f = 2 atan2(|v cos φ − w sin φ|, w cos φ + v sin φ) (= |2 atan2(v, w) − θ|, e.g. θ⁵/1920 for
-//    RK4). The cancelling difference is evaluated as dv cos φ − dw sin φ with dv = v − sin φ,
-//    dw = w − cos φ summed term by term, Σ (γ_k − 1/k!) (±φ^k) to k = 40 (the series' terms
-//    beyond are below 10⁻⁴⁰ for φ ≤ ½): the same closed form, without cancellation.
-//    f is increasing on θ ∈ [0, 1] for these methods (checked on a dense grid in the tests), so
-//    f(|ω(t0)| h) ≤ f(D0 h); the bound is defined for D0·h ≤ 1 rad and is +∞ beyond.
-//
-// 2. The rest. P − Y = E_var − (P̄ Φ̄⁻¹ − 1)(Φ − Φ̄), with E_var = (P − P̄) − (Φ − Φ̄).
-//    |P̄ Φ̄⁻¹ − 1| = |P̄ − Φ̄| ≤ e_c := Σ_k |γ_k − 1/k!| φ̂^k (all terms, φ̂ = D0 h/2; majorant of
-//    the series, increasing in φ̂). |Φ(s) − Φ̄(s)| ≤ a1 s²/2: G = Φ e^(−sA0) has |G'| = |A − A0|
-//    ≤ a1 s. Hence |P − Y| ≤ δ := |E_var(h)| + e_c a1 h²/2.
-//    Two quaternions X, Y with |X − Y| = δ < |Y| make a 4-D angle ≤ asin(δ/|Y|), a rotation angle
-//    ≤ 2 asin(δ/|Y|); |Y| = |P̄| ≥ 1 − e_c. So  bound = f(D0 h) + 2 asin(δ/(1 − e_c)).
-//
-// 3. E_var(h). Both P − Φ and P̄ − Φ̄ are O(h^(p+1)) (p = the stepper's state order with its
-//    input: the order conditions hold for every rate signal, hence for the constant one), so the
-//    first p derivatives of E_var at 0 vanish and Taylor's theorem (integral remainder) gives
-//    |E_var(h)| ≤ h^N/N! · sup_{s≤h} (|(P − P̄)^(N)(s)| + |(Φ − Φ̄)^(N)(s)|),  N = min(p + 1, 5).
-//    N = p + 1 for all but Dormand–Prince (p = 5), whose bound is O(h⁵) instead of O(h⁶) because
-//    the envelope stops at D5: one order loose. Kutta's RK3 has state order 3 and attitude order
-//    4; the bound follows the state (O(h⁴) per step), one order loose on the attitude.
-//    The sup of the N-th derivatives is majorized term by term (Leibniz's rule, every product by
-//    the product of the norm bounds, |coefficients|; s ≤ h) by the recursions, n = 0..N:
-//      stage input Ã_i(s): exact A(c_i s), or for samples the linear interpolation
-//        (1−f)A(x_l s) + f A(x_{l+1} s) between grid points x_l ≤ c_i ≤ x_{l+1}:
-//        α_i[0] = a0, α_i[k] = σ_ik a_k,  σ_ik = (1−f) x_l^k + f x_{l+1}^k  (= c_i^k on the grid);
-//        Δα_i (majorant of Ã_i − A0): Δα_i[0] = a1 c_i h, Δα_i[k] = σ_ik a_k.
-//      constant-rate stages: Q̄_i = 1 + s Σ a_ij K̄_j, K̄_i = Q̄_i A0; d^n(sg) = s g^(n) + n g^(n−1):
-//        q̄_i[0] = 1 + h Σ|a_ij| k̄_j[0], q̄_i[n] = h Σ|a_ij| k̄_j[n] + n Σ|a_ij| k̄_j[n−1],
-//        k̄_i[n] = a0 q̄_i[n].
-//      differences ΔQ_i = s Σ a_ij ΔK_j, ΔK_i = ΔQ_i Ã_i + Q̄_i (Ã_i − A0):
-//        Δq_i as q̄_i without the 1; Δk_i[n] = Σ_l C(n,l) (Δq_i[n−l] α_i[l] + q̄_i[n−l] Δα_i[l]);
-//        ΔP = s Σ b_i ΔK_i: Δp[n] = h Σ|b_i| Δk_i[n] + n Σ|b_i| Δk_i[n−1].
-//      exact: (Φ − Φ̄)' = (Φ − Φ̄) A + Φ̄ (A − A0), |Φ̄^(j)| ≤ a0^j:
-//        Δφ[0] = a1 h²/2, Δφ[n+1] = Σ_i C(n,i) (Δφ[n−i] a_i + a0^(n−i) ΔA[i]),
-//        ΔA[0] = a1 h, ΔA[i] = a_i.
-//    Every term of Δk, Δp, Δφ carries a factor a_k with k ≥ 1, so at constant rate (D1..D5 = 0)
-//    δ = 0 and the bound is exactly f(D0 h). The recursions read D0..D_N; one of them +∞ makes the
-//    bound +∞ (not guessed).
-//
-// Tightness (measured in tests/bounds/test_runge_kutta_bounds.cpp, one step from many start times,
-// D0·h from 1 down to 0.011 rad, on coning, single-axis oscillation, axisymmetric body and random
-// sums of sinusoids): exact at constant rate. With varying rates the majorant over-estimates the
-// leading coefficient (it adds the norms of terms that cancel in the true error): median
-// bound/measured about 8–35 for the interpolated (second-order) inputs, 50–200 for
-// Bogacki–Shampine, 130–800 for RK4, 250–2600 for Kutta's RK3 (its bound is one order loose),
-// 10⁶–10⁷ for Dormand–Prince (one order loose, seven stages with large |a_ij|).
-// Munthe-Kaas RK4 is bounded further below.
+/// @file
+/// A-priori local (one-step) attitude error bounds for the explicit Runge–Kutta steppers on
+/// q̇ = ½ q ⊗ (0, ω): RK2/RK3/RK4 with sampled, interpolated and rate-function input,
+/// Bogacki–Shampine 3(2) and Dormand–Prince 5(4) (the returned, higher-order solution).
+///
+/// Derivation (one step of length h from t0; all norms are quaternion 2-norms).
+///
+/// 0. Reduction. The steppers are linear in q (q_i = q + h Σ a_ij k_j, k_i = q_i ⊗ A_i with
+///    A_i = ½(0, ω_i)), so the step is q ⊗ P(h) with P the increment computed from q = 1, and the
+///    exact step is q ⊗ Φ(h) with Φ' = Φ A, Φ(0) = 1, A(τ) = ½(0, ω(t0 + τ)). The angle
+///    d(q⊗P/|P|, q⊗Φ) = d(P/|P|, Φ) (bi-invariant angle metric). Write a_k = D_k/2 ≥ ‖A^(k)‖.
+///
+/// 1. Split off constant rate. Let A0 = A(0), Φ̄(s) = exp(s A0) and P̄(s) the stepper's increment
+///    for the constant rate A0: P̄ = R(s A0) with R(z) = Σ_k γ_k z^k the stability polynomial,
+///    γ_k = bᵀ 𝒜^(k−1) 𝟙 (Butcher). Put Y = P̄ Φ̄⁻¹ Φ (|Y| = |P̄|). By right invariance
+///    d(Y/|Y|, Φ) = d(P̄/|P̄|, Φ̄) = f(|ω(t0)| h), the exact constant-rate angle error, and
+///    d(P/|P|, Φ) ≤ d(P/|P|, Y/|Y|) + f(|ω(t0)| h).
+///    f(θ): with φ = θ/2 and n the rate axis, P̄ = w + v n, w = Σ γ_2m (−1)^m φ^2m,
+///    v = Σ γ_2m+1 (−1)^m φ^(2m+1); P̄ ⊗ Φ̄* = (w cos φ + v sin φ) + (v cos φ − w sin φ) n, so
+///    f = 2 atan2(|v cos φ − w sin φ|, w cos φ + v sin φ) (= |2 atan2(v, w) − θ|, e.g. θ⁵/1920 for
+///    RK4). The cancelling difference is evaluated as dv cos φ − dw sin φ with dv = v − sin φ,
+///    dw = w − cos φ summed term by term, Σ (γ_k − 1/k!) (±φ^k) to k = 40 (the series' terms
+///    beyond are below 10⁻⁴⁰ for φ ≤ ½): the same closed form, without cancellation.
+///    f is increasing on θ ∈ [0, 1] for these methods (checked on a dense grid in the tests), so
+///    f(|ω(t0)| h) ≤ f(D0 h); the bound is defined for D0·h ≤ 1 rad and is +∞ beyond.
+///
+/// 2. The rest. P − Y = E_var − (P̄ Φ̄⁻¹ − 1)(Φ − Φ̄), with E_var = (P − P̄) − (Φ − Φ̄).
+///    |P̄ Φ̄⁻¹ − 1| = |P̄ − Φ̄| ≤ e_c := Σ_k |γ_k − 1/k!| φ̂^k (all terms, φ̂ = D0 h/2; majorant of
+///    the series, increasing in φ̂). |Φ(s) − Φ̄(s)| ≤ a1 s²/2: G = Φ e^(−sA0) has |G'| = |A − A0|
+///    ≤ a1 s. Hence |P − Y| ≤ δ := |E_var(h)| + e_c a1 h²/2.
+///    Two quaternions X, Y with |X − Y| = δ < |Y| make a 4-D angle ≤ asin(δ/|Y|), a rotation angle
+///    ≤ 2 asin(δ/|Y|); |Y| = |P̄| ≥ 1 − e_c. So  bound = f(D0 h) + 2 asin(δ/(1 − e_c)).
+///
+/// 3. E_var(h). Both P − Φ and P̄ − Φ̄ are O(h^(p+1)) (p = the stepper's state order with its
+///    input: the order conditions hold for every rate signal, hence for the constant one), so the
+///    first p derivatives of E_var at 0 vanish and Taylor's theorem (integral remainder) gives
+///    |E_var(h)| ≤ h^N/N! · sup_{s≤h} (|(P − P̄)^(N)(s)| + |(Φ − Φ̄)^(N)(s)|),  N = min(p + 1, 5).
+///    N = p + 1 for all but Dormand–Prince (p = 5), whose bound is O(h⁵) instead of O(h⁶) because
+///    the envelope stops at D5: one order loose. Kutta's RK3 has state order 3 and attitude order
+///    4; the bound follows the state (O(h⁴) per step), one order loose on the attitude.
+///    The sup of the N-th derivatives is majorized term by term (Leibniz's rule, every product by
+///    the product of the norm bounds, |coefficients|; s ≤ h) by the recursions, n = 0..N:
+///      stage input Ã_i(s): exact A(c_i s), or for samples the linear interpolation
+///        (1−f)A(x_l s) + f A(x_{l+1} s) between grid points x_l ≤ c_i ≤ x_{l+1}:
+///        α_i[0] = a0, α_i[k] = σ_ik a_k,  σ_ik = (1−f) x_l^k + f x_{l+1}^k  (= c_i^k on the grid);
+///        Δα_i (majorant of Ã_i − A0): Δα_i[0] = a1 c_i h, Δα_i[k] = σ_ik a_k.
+///      constant-rate stages: Q̄_i = 1 + s Σ a_ij K̄_j, K̄_i = Q̄_i A0; d^n(sg) = s g^(n) + n g^(n−1):
+///        q̄_i[0] = 1 + h Σ|a_ij| k̄_j[0], q̄_i[n] = h Σ|a_ij| k̄_j[n] + n Σ|a_ij| k̄_j[n−1],
+///        k̄_i[n] = a0 q̄_i[n].
+///      differences ΔQ_i = s Σ a_ij ΔK_j, ΔK_i = ΔQ_i Ã_i + Q̄_i (Ã_i − A0):
+///        Δq_i as q̄_i without the 1; Δk_i[n] = Σ_l C(n,l) (Δq_i[n−l] α_i[l] + q̄_i[n−l] Δα_i[l]);
+///        ΔP = s Σ b_i ΔK_i: Δp[n] = h Σ|b_i| Δk_i[n] + n Σ|b_i| Δk_i[n−1].
+///      exact: (Φ − Φ̄)' = (Φ − Φ̄) A + Φ̄ (A − A0), |Φ̄^(j)| ≤ a0^j:
+///        Δφ[0] = a1 h²/2, Δφ[n+1] = Σ_i C(n,i) (Δφ[n−i] a_i + a0^(n−i) ΔA[i]),
+///        ΔA[0] = a1 h, ΔA[i] = a_i.
+///    Every term of Δk, Δp, Δφ carries a factor a_k with k ≥ 1, so at constant rate (D1..D5 = 0)
+///    δ = 0 and the bound is exactly f(D0 h). The recursions read D0..D_N; one of them +∞ makes the
+///    bound +∞ (not guessed).
+///
+/// Tightness (measured in tests/bounds/test_runge_kutta_bounds.cpp, one step from many start times,
+/// D0·h from 1 down to 0.011 rad, on coning, single-axis oscillation, axisymmetric body and random
+/// sums of sinusoids): exact at constant rate. With varying rates the majorant over-estimates the
+/// leading coefficient (it adds the norms of terms that cancel in the true error): median
+/// bound/measured about 8–35 for the interpolated (second-order) inputs, 50–200 for
+/// Bogacki–Shampine, 130–800 for RK4, 250–2600 for Kutta's RK3 (its bound is one order loose),
+/// 10⁶–10⁷ for Dormand–Prince (one order loose, seven stages with large |a_ij|).
+/// Munthe-Kaas RK4 is bounded further below.
 
 #include <array>
 #include <cmath>
@@ -296,13 +297,13 @@ T runge_kutta_local_bound(const RateEnvelope<T>& e, T h) noexcept {
 
 }  // namespace detail
 
-// The one bound of the explicit Runge–Kutta family (embedded pairs name it too: the bound is of
-// their returned solution): the tableau and the input form decide the stage-input majorants and
-// the state order. The step the bound refers to is the stepper's own: two sample periods for
-// three samples (window 3), one for interpolated input (window 2), dt for a rate function.
+/// The one bound of the explicit Runge–Kutta family (embedded pairs name it too: the bound is of
+/// their returned solution): the tableau and the input form decide the stage-input majorants and
+/// the state order. The step the bound refers to is the stepper's own: two sample periods for
+/// three samples (window 3), one for interpolated input (window 2), dt for a rate function.
 template <class Tableau, SampleLayout Layout, std::size_t Window>
 struct FamilyLocalErrorBound<ExplicitRungeKutta<Tableau, Layout, Window>> {
-  // Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
+  /// Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
     return detail::runge_kutta_local_bound<
@@ -498,10 +499,10 @@ T munthe_kaas_local_bound(const RateEnvelope<T>& env, T h) noexcept {
 
 }  // namespace detail
 
-// The one bound of the Munthe-Kaas family, from its tableau and input form.
+/// The one bound of the Munthe-Kaas family, from its tableau and input form.
 template <class Tableau, SampleLayout Layout, std::size_t Window>
 struct FamilyLocalErrorBound<MuntheKaasRungeKutta<Tableau, Layout, Window>> {
-  // Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
+  /// Local attitude error bound (rad) of one step of length dt (s) under envelope e (rad/s^(k+1)).
   template <class T>
   static T local(const RateEnvelope<T>& e, T dt) noexcept {
     return detail::munthe_kaas_local_bound<Tableau, Window,

@@ -1,23 +1,24 @@
 #pragma once
-// The inverse of the horizon bound: the largest step that keeps the attitude error over a horizon
-// inside a budget, for a stepper and scalar type.
-//
-// The total bound B(dt) = steps·local(dt) + steps·roundoff(dt) is U-shaped in dt: the truncation
-// part falls as dt^p when dt shrinks (p the global order), the roundoff part grows as 1/dt (with
-// the compensated accumulation only its small N·c2·u² part does; the rest is fixed by the angle
-// traversed, so the least bound sits at much smaller steps). The
-// search runs on a geometric grid of `grid_points` steps over [dt_min, dt_max]:
-//  1. the grid point of least B is the minimizer (to within one grid ratio); if its B misses the
-//     budget, no step in the range meets it: status budget_unreachable, with that minimum;
-//  2. otherwise the first grid point above the minimizer whose B exceeds the budget brackets the
-//     crossing with the last one that meets it, and bisection in log dt narrows the bracket until
-//     hi/lo ≤ 1 + relative_tolerance (1e-3 by default: from a grid ratio r that takes
-//     ⌈log2(ln r / ln(1 + tol))⌉ bisections, 6 for the default grid). The returned step is the
-//     lower end, which meets the budget; the upper end, at most (1 + tolerance) times larger,
-//     does not.
-// "The first crossing above the minimizer" is the largest step meeting the budget whenever B
-// increases beyond the minimizer, which holds in the truncation-dominated range of every
-// stepper (local ∝ dt^(p+1)); the grid guards against the ripple of ceil(horizon/dt).
+/// @file
+/// The inverse of the horizon bound: the largest step that keeps the attitude error over a horizon
+/// inside a budget, for a stepper and scalar type.
+///
+/// The total bound B(dt) = steps·local(dt) + steps·roundoff(dt) is U-shaped in dt: the truncation
+/// part falls as dt^p when dt shrinks (p the global order), the roundoff part grows as 1/dt (with
+/// the compensated accumulation only its small N·c2·u² part does; the rest is fixed by the angle
+/// traversed, so the least bound sits at much smaller steps). The
+/// search runs on a geometric grid of `grid_points` steps over [dt_min, dt_max]:
+///  1. the grid point of least B is the minimizer (to within one grid ratio); if its B misses the
+///     budget, no step in the range meets it: status budget_unreachable, with that minimum;
+///  2. otherwise the first grid point above the minimizer whose B exceeds the budget brackets the
+///     crossing with the last one that meets it, and bisection in log dt narrows the bracket until
+///     hi/lo ≤ 1 + relative_tolerance (1e-3 by default: from a grid ratio r that takes
+///     ⌈log2(ln r / ln(1 + tol))⌉ bisections, 6 for the default grid). The returned step is the
+///     lower end, which meets the budget; the upper end, at most (1 + tolerance) times larger,
+///     does not.
+/// "The first crossing above the minimizer" is the largest step meeting the budget whenever B
+/// increases beyond the minimizer, which holds in the truncation-dominated range of every
+/// stepper (local ∝ dt^(p+1)); the grid guards against the ripple of ceil(horizon/dt).
 
 #include <cmath>
 #include <cstddef>
@@ -31,38 +32,41 @@
 
 namespace halfspin {
 
+/// The outcome of a step selection.
 enum class StepSelectionStatus : std::uint8_t {
-  ok,                  // step_s meets the budget
-  budget_unreachable,  // even the minimizing step misses the budget (minimum reported)
-  no_bound,            // no finite bound for this stepper and motion (e.g. a needed derivative
-                       // bound is +∞, or no LocalErrorBound exists)
-  invalid_arguments    // non-positive or non-finite budget, horizon or step range
+  ok,                  ///< step_s meets the budget
+  budget_unreachable,  ///< even the minimizing step misses the budget (minimum reported)
+  no_bound,            ///< no finite bound for this stepper and motion (e.g. a needed derivative
+                       ///< bound is +∞, or no LocalErrorBound exists)
+  invalid_arguments    ///< non-positive or non-finite budget, horizon or step range
 };
 
+/// The step chosen for a budget, its bound and rates, and the minimizer.
 template <class T>
 struct StepSelection {
+  /// Ok, or why step_s does not meet the budget.
   StepSelectionStatus status = StepSelectionStatus::invalid_arguments;
-  T step_s = T(0);             // chosen step (s); the minimizer when the budget is unreachable
-  T bound_rad = T(0);          // horizon bound at step_s (rad)
-  T update_rate_hz = T(0);     // 1/step_s (Hz): attitude updates per second
-  T sample_rate_hz = T(0);     // gyro samples per second = update rate × periods per step (Hz)
-  T minimizing_step_s = T(0);  // grid step of least bound (s)
-  T minimum_bound_rad = T(0);  // the least bound (rad)
+  T step_s = T(0);             ///< chosen step (s); the minimizer when the budget is unreachable
+  T bound_rad = T(0);          ///< horizon bound at step_s (rad)
+  T update_rate_hz = T(0);     ///< 1/step_s (Hz): attitude updates per second
+  T sample_rate_hz = T(0);     ///< gyro samples per second = update rate × periods per step (Hz)
+  T minimizing_step_s = T(0);  ///< grid step of least bound (s)
+  T minimum_bound_rad = T(0);  ///< the least bound (rad)
 };
 
-// Search settings: the step range (s), the grid and the bisection tolerance (relative, in dt).
+/// Search settings: the step range (s), the grid and the bisection tolerance (relative, in dt).
 template <class T>
 struct StepSearch {
-  T dt_min = T(1e-6);
-  T dt_max = T(1);
-  std::size_t grid_points = 241;  // 40 per decade over six decades
-  T relative_tolerance = T(1e-3);
+  T dt_min = T(1e-6);              ///< smallest step searched (s)
+  T dt_max = T(1);                 ///< largest step searched (s)
+  std::size_t grid_points = 241;   ///< 40 per decade over six decades
+  T relative_tolerance = T(1e-3);  ///< bisection stops when hi/lo ≤ 1 + this
 };
 
-// Largest step (s) whose worst-case horizon bound (rad) over horizon_s (s) meets budget_rad (rad)
-// for Stepper in T with Accumulation (the propagator's policy: plain by default); see the header
-// comment for the search and the status values. The horizon may be any arithmetic type,
-// converted to T (static_cast) first.
+/// Largest step (s) whose worst-case horizon bound (rad) over horizon_s (s) meets budget_rad (rad)
+/// for Stepper in T with Accumulation (the propagator's policy: plain by default); see the header
+/// comment for the search and the status values. The horizon may be any arithmetic type,
+/// converted to T (static_cast) first.
 template <class Stepper, class T, class Accumulation = PlainAccumulation, class H>
 StepSelection<T> select_step(const MotionDescription<T>& description, T budget_rad, H horizon,
                              const StepSearch<T>& search = StepSearch<T>{}) noexcept {

@@ -1,5 +1,6 @@
 #pragma once
-// The rotation angle between two attitudes, insensitive to the sign of either quaternion.
+/// @file
+/// The rotation angle between two attitudes, insensitive to the sign of either quaternion.
 
 #include <cmath>
 
@@ -7,9 +8,9 @@
 
 namespace halfspin {
 
-// Angle (rad, in [0, π]) of the rotation that takes attitude a to attitude b; q and −q count as
-// the same attitude. Computed as 2·atan2(|vec(a*⊗b)|, |scalar(a*⊗b)|), accurate for tiny angles
-// (unlike acos of the dot product) and scale-invariant in each argument.
+/// Angle (rad, in [0, π]) of the rotation that takes attitude a to attitude b; q and −q count as
+/// the same attitude. Computed as 2·atan2(|vec(a*⊗b)|, |scalar(a*⊗b)|), accurate for tiny angles
+/// (unlike acos of the dot product) and scale-invariant in each argument.
 template <class T>
 T angle_between(const Quaternion<T>& a, const Quaternion<T>& b) noexcept {
   const Quaternion<T> d = conjugate(a) * b;

@@ -1,6 +1,7 @@
 #pragma once
-// The exponential and logarithm maps between rotation vectors φ (axis × angle, rad) and unit
-// quaternions: q = exp(φ/2) = (cos(|φ|/2), sin(|φ|/2)·φ/|φ|).
+/// @file
+/// The exponential and logarithm maps between rotation vectors φ (axis × angle, rad) and unit
+/// quaternions: q = exp(φ/2) = (cos(|φ|/2), sin(|φ|/2)·φ/|φ|).
 
 #include <cmath>
 
@@ -10,14 +11,11 @@
 
 namespace halfspin {
 
-// Floating-point operations of quaternion_exp on its series branch, the usual case for a gyro
-// step: |φ|² 5, two cubics in θ² 12, scaling φ 3. (Above the threshold add a square root, a
-// division and sin/cos.) Steppers add this to their own counts.
+/// Floating-point operations of quaternion_exp on its series branch, the usual case for a gyro
+/// step: |φ|² 5, two cubics in θ² 12, scaling φ 3. (Above the threshold add a square root, a
+/// division and sin/cos.) Steppers add this to their own counts.
 inline constexpr int quaternion_exp_series_flops = 20;
 
-// Rotation vector φ (rad) → unit quaternion exp(φ/2). Below the per-type threshold of
-// ScalarTraits the series of cos(θ/2) and sin(θ/2)/θ are used, which need only θ² (no square root,
-// no trigonometry) and stay exact for denormal-sized φ. Valid for |φ|² below the type's maximum.
 namespace detail {
 // Below ScalarTraits::exp_series_angle_squared, from t = θ²: cos(θ/2) − 1 = −θ²/8 + θ⁴/384 −
 // θ⁶/46080
@@ -55,6 +53,9 @@ template <class T>
 }
 }  // namespace detail
 
+/// Rotation vector φ (rad) → unit quaternion exp(φ/2). Below the per-type threshold of
+/// ScalarTraits the series of cos(θ/2) and sin(θ/2)/θ are used, which need only θ² (no square root,
+/// no trigonometry) and stay exact for denormal-sized φ. Valid for |φ|² below the type's maximum.
 template <class T>
 Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
   const T t = squared_norm(phi);
@@ -72,15 +73,15 @@ Quaternion<T> quaternion_exp(const Vector3<T>& phi) noexcept {
   return {c, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
 }
 
-// Floating-point operations of quaternion_exp_minus_one on its series branch: |φ|² 5, the two
-// polynomials in θ² 11 (the scalar one has no constant term), scaling φ 3.
+/// Floating-point operations of quaternion_exp_minus_one on its series branch: |φ|² 5, the two
+/// polynomials in θ² 11 (the scalar one has no constant term), scaling φ 3.
 inline constexpr int quaternion_exp_minus_one_series_flops = 19;
 
-// Rotation vector φ (rad) → exp(φ/2) − 1 = (cos(θ/2) − 1, sin(θ/2)·φ/θ), θ = |φ|: the increment of
-// a step, formed without cancellation so that it is accurate relative to its own size however
-// small the step (cos(θ/2) − 1 is never formed as a difference: the series −θ²/8 + θ⁴/384 −
-// θ⁶/46080 below the threshold of quaternion_exp, −2·sin²(θ/4) above it). Adding 1 to the scalar
-// part gives quaternion_exp(φ) up to one rounding.
+/// Rotation vector φ (rad) → exp(φ/2) − 1 = (cos(θ/2) − 1, sin(θ/2)·φ/θ), θ = |φ|: the increment of
+/// a step, formed without cancellation so that it is accurate relative to its own size however
+/// small the step (cos(θ/2) − 1 is never formed as a difference: the series −θ²/8 + θ⁴/384 −
+/// θ⁶/46080 below the threshold of quaternion_exp, −2·sin²(θ/4) above it). Adding 1 to the scalar
+/// part gives quaternion_exp(φ) up to one rounding.
 template <class T>
 Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
   const T t = squared_norm(phi);
@@ -96,10 +97,10 @@ Quaternion<T> quaternion_exp_minus_one(const Vector3<T>& phi) noexcept {
   return {c_minus_one, s_over_angle * phi.x, s_over_angle * phi.y, s_over_angle * phi.z};
 }
 
-// Quaternion → rotation vector φ (rad) of the shortest rotation, |φ| ≤ π (q and −q give the same
-// φ). Scale-invariant, so a slightly non-unit q gives the φ of q/|q|; q must be nonzero. Uses
-// θ = 2·atan2(|v|, |w|), accurate near 0 and near π; below the threshold, the series of
-// 2·atan(r)/r with r = |v|/|w|.
+/// Quaternion → rotation vector φ (rad) of the shortest rotation, |φ| ≤ π (q and −q give the same
+/// φ). Scale-invariant, so a slightly non-unit q gives the φ of q/|q|; q must be nonzero. Uses
+/// θ = 2·atan2(|v|, |w|), accurate near 0 and near π; below the threshold, the series of
+/// 2·atan(r)/r with r = |v|/|w|.
 template <class T>
 Vector3<T> quaternion_log(const Quaternion<T>& q) noexcept {
   const Quaternion<T> p = q.w < T(0) ? -q : q;

@@ -1,6 +1,7 @@
 #pragma once
-// Matrix3<T>: a fixed-size 3×3 matrix, row-major; as a rotation matrix it maps body-frame vectors
-// into the reference frame (v_ref = R · v_body), the same sense as the attitude quaternion.
+/// @file
+/// Matrix3<T>: a fixed-size 3×3 matrix, row-major; as a rotation matrix it maps body-frame vectors
+/// into the reference frame (v_ref = R · v_body), the same sense as the attitude quaternion.
 
 #include <cstddef>
 
@@ -8,25 +9,27 @@
 
 namespace halfspin {
 
+/// A 3×3 matrix, row-major (see the file comment for its sense as a rotation).
 template <class T>
 struct Matrix3 {
-  // Row-major; a C array keeps the documented brace initializer {{{r0}, {r1}, {r2}}}.
+  /// Row-major; a C array keeps the documented brace initializer {{{r0}, {r1}, {r2}}}.
   T m[3][3]{};  // NOLINT(cppcoreguidelines-avoid-c-arrays): public aggregate layout (see above)
 
-  // The identity matrix.
+  /// The identity matrix.
   static constexpr Matrix3 identity() noexcept {
     return {{{T(1), T(0), T(0)}, {T(0), T(1), T(0)}, {T(0), T(0), T(1)}}};
   }
-  // Element at row r, column c (0-based).
+  /// Element at row r, column c (0-based).
   constexpr T operator()(std::size_t r, std::size_t c) const noexcept { return m[r][c]; }
+  /// Element at row r, column c (0-based), writable.
   constexpr T& operator()(std::size_t r, std::size_t c) noexcept { return m[r][c]; }
-  // Row r as a vector.
+  /// Row r as a vector.
   constexpr Vector3<T> row(std::size_t r) const noexcept { return {m[r][0], m[r][1], m[r][2]}; }
-  // Column c as a vector.
+  /// Column c as a vector.
   constexpr Vector3<T> column(std::size_t c) const noexcept { return {m[0][c], m[1][c], m[2][c]}; }
 };
 
-// Matrix product a·b.
+/// Matrix product a·b.
 template <class T>
 constexpr Matrix3<T> operator*(const Matrix3<T>& a, const Matrix3<T>& b) noexcept {
   Matrix3<T> r{};
@@ -38,7 +41,7 @@ constexpr Matrix3<T> operator*(const Matrix3<T>& a, const Matrix3<T>& b) noexcep
   return r;
 }
 
-// Matrix–vector product a·v.
+/// Matrix–vector product a·v.
 template <class T>
 constexpr Vector3<T> operator*(const Matrix3<T>& a, const Vector3<T>& v) noexcept {
   return {a.m[0][0] * v.x + a.m[0][1] * v.y + a.m[0][2] * v.z,
@@ -46,7 +49,7 @@ constexpr Vector3<T> operator*(const Matrix3<T>& a, const Vector3<T>& v) noexcep
           a.m[2][0] * v.x + a.m[2][1] * v.y + a.m[2][2] * v.z};
 }
 
-// Transpose; for a rotation matrix, its inverse (the opposite direction between the two frames).
+/// Transpose; for a rotation matrix, its inverse (the opposite direction between the two frames).
 template <class T>
 constexpr Matrix3<T> transpose(const Matrix3<T>& a) noexcept {
   Matrix3<T> r{};
@@ -58,7 +61,7 @@ constexpr Matrix3<T> transpose(const Matrix3<T>& a) noexcept {
   return r;
 }
 
-// Determinant; +1 for a proper rotation.
+/// Determinant; +1 for a proper rotation.
 template <class T>
 constexpr T determinant(const Matrix3<T>& a) noexcept {
   return a.m[0][0] * (a.m[1][1] * a.m[2][2] - a.m[1][2] * a.m[2][1]) -
@@ -66,7 +69,7 @@ constexpr T determinant(const Matrix3<T>& a) noexcept {
          a.m[0][2] * (a.m[1][0] * a.m[2][1] - a.m[1][1] * a.m[2][0]);
 }
 
-// The cross-product matrix [v×], so that [v×]·u = v × u.
+/// The cross-product matrix [v×], so that [v×]·u = v × u.
 template <class T>
 constexpr Matrix3<T> cross_matrix(const Vector3<T>& v) noexcept {
   return {{{T(0), -v.z, v.y}, {v.z, T(0), -v.x}, {-v.y, v.x, T(0)}}};

@@ -1,127 +1,128 @@
 #pragma once
-// Batch propagation for desktop Monte Carlo: N independent attitudes (body → reference,
-// scalar-first (w, x, y, z), Hamilton product) in structure-of-arrays form, stepped together by the
-// one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of Coning1Sample) and a
-// renormalization. The stepper contract is the scalar path's (stepper_traits.hpp): each lane forms
-// the increment δ = exp(Δθ/2) − 1 without cancellation (the series of cos(θ/2) − 1 has no
-// constant term) and applies it through the accumulation policy: PlainAccumulation (q + q ⊗ δ
-// rounded in T, the default) or CompensatedAccumulation (the lane's attitude held as the pair
-// q_hi + q_lo, compensated_accumulation.hpp; see "Compensated lanes" below). Input per call, also
-// structure-of-arrays (BatchSamples, written in place through samples() or copied in by step(dx,
-// dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame, integral of ω over the lane's sample
-// interval) and a per-lane interval dt (s). dt is per lane so that lanes may run with jittered or
-// different sample timing; it is used for validation and elapsed time only (delta-angles already
-// carry time).
-//
-// Why a separate class and not N Propagators: the lane loop is written so that g++ and clang++
-// vectorize it at -O2/-O3 on the default x86-64 target (SSE2: 4 float or 2 double lanes per
-// instruction). The lane body is straight-line: no function pointers, no calls to sin/cos/sqrt,
-// and no data-dependent branch. Six things make that possible:
-//   - the exponential is a branch-free series, valid up to max_step_angle (below) per step;
-//   - validation is a mask computed with comparisons (a NaN fails every comparison), and the
-//     update is a select: a rejected lane stores back its own bits (both words of a compensated
-//     lane), so it stays bit-identical;
-//   - every value the update computes is used whatever the lane's outcome: the finiteness test
-//     (below) reads them, and the compensated read-back selects with masks made from sign bits
-//     (CompensatedAccumulation::with_attitude_branch_free). g++ computes a value used in one arm
-//     of a ?: only in that arm, a branch, and since a floating-point operation may trap it then
-//     cannot turn the branch back into a select;
-//   - counting the rejections by class needs a branch, so it is done after the lane loop, in a
-//     scalar pass that runs only when some lane was rejected (rare in a Monte Carlo run);
-//   - the state is double-buffered and the input lives in the object, so the compilers can see
-//     that nothing overlaps and need no run-time alias checks (see the members for why);
-//   - the lane loop is flattened ([[gnu::flatten]]: every call in it inlined), so that no
-//     inlining heuristic can leave a call in the lane body (see step_lanes).
-// Checked in the assembly (objdump -d) of g++ 12 and clang++ 14 at -O2 and -O3, default x86-64
-// target, for float and double, N = 4, 8, 64 and 1024, both accumulation policies and both
-// renormalizations: the lane loop is all packed arithmetic (mulps/addps/subps/divps,
-// mulpd/addpd/subpd/divpd; the selects in and/andn/or or blend forms), no scalar ss/sd
-// arithmetic or comparison and no call; the same in bench/bench_batch.cpp, a unit with many
-// instantiations (before the flattening g++ left the compensated lanes scalar there). The packed
-// add/sub/mul/div count per vector of lanes equals the flop count below (float, first-order: 103
-// plain, 220 compensated). N = 1 is scalar code, naturally.
-//
-// The series and its accuracy (derivation). With θ = |Δθ|,
-//     cos(θ/2)   =   Σ_k (−1)^k (θ/2)^{2k}/(2k)!
-//                = 1 − θ²/8 + θ⁴/384 − θ⁶/46080 + θ⁸/10321920 − …
-//     sin(θ/2)/θ = ½ Σ_k (−1)^k (θ/2)^{2k}/(2k+1)!
-//                = ½ − θ²/48 + θ⁴/3840 − θ⁶/645120 + θ⁸/185794560 − …
-// Both are kept through θ⁸ (Horner in θ², so no square root) from the core's series threshold
-// up (θ² ≥ ScalarTraits::exp_series_angle_squared: 0.1 float, 1e-4 double); below it the θ⁸
-// coefficients are selected to zero, which makes the evaluation the core's θ⁶ series operation
-// for operation (its dropped θ⁸ term is at most 1e-4/10321920 = 8e-5 ε in float, 4e-8 ε in
-// double, within the same criterion). For θ/2 < 1 the terms decrease and alternate, so the
-// truncation is below the first dropped term:
-//     cos:            (θ/2)^10/10!        = θ^10/3715891200
-//     sin(θ/2)/θ · Δθ_i (|Δθ_i| ≤ θ): ½ (θ/2)^10/11! · θ = (θ/2)^11/11!, smaller by (θ/2)/11.
-// Requiring the dropped term below 1e-3 ε (the criterion of the core exponential map,
-// core/scalar_traits.hpp, so that its fixed sign cannot bias a long run measurably) gives
-//     float  (ε = 2^−23 ≈ 1.19e-7): θ ≤ 0.5 rad → 0.25^10/10! = 2.6e-13 = 2.2e-6 ε;
-//     double (ε = 2^−52 ≈ 2.22e-16): θ ≤ 0.1 rad → 0.05^10/10! = 2.7e-20 = 1.2e-4 ε
-// (the criterion alone would allow 0.92 rad in float, 0.12 rad in double). A sample whose |Δθ|
-// exceeds max_step_angle is rejected (counted as rejected_over_angle; its lane is untouched). The
-// per-axis rate check already bounds |Δθ| by √3·max_rate·dt, so this never fires while that is
-// below max_step_angle: in double, 35 rad/s per axis at 1 kHz gives at most 0.061 rad. For faster
-// motion or longer steps in double use the scalar Propagator, whose exponential switches to
-// sin/cos.
-//
-// Agreement with the scalar path: below the core's series threshold (θ² < 0.1 float, 1e-4
-// double) a lane performs the operations of Propagator<T, Coning1Sample, R, A> in the same order
-// (the same series, the policy's step, the renormalization and, for the compensated policy, the
-// read-back, whose branch-free form gives with_attitude's bits), so the two are bit-identical
-// step after step, for both accumulation policies, where the compiler does not contract a·b + c
-// into fused multiply-adds (the default x86-64 target has none; with FMA, -march=native or
-// aarch64, vector and scalar code may contract differently: an ulp per step at most,
-// random-walking). Above the threshold the scalar path uses sin/cos, equally accurate: one step
-// from the same state differs by at most an ulp (measured 1 ε in float, 0.5 ε plain and 1 ε
-// compensated in double). The tests check bit-identity over 10⁵ coning steps (compensated) and
-// 4000 random steps (plain).
-//
-// Compensated lanes (Accumulation = CompensatedAccumulation; the policy's header has the method,
-// its sources and its rounding bound). Each lane-step is the scalar policy's: p = q_hi ⊗ δ, then
-// DWPlusFP (TwoSum, an addition, Fast2Sum) per component of the pair; the attitude q_hi + q_lo
-// rounded once goes through the renormalization, and the factor 1 + κ it applied is read back
-// from the sums of the components' magnitudes and added to the pair as κ·q_hi (a double-word
-// addition again).
-// The scalar read-back rescales both words instead when |κ| > 2⁻¹⁰ (far from the unit sphere).
-// That can happen here: set_lane and the constructor take any q (as Propagator's constructor and
-// reset do; normalizing there would break the agreement above), and the first step from a q of
-// norm 1000 or 1/1000 reads back κ ≈ −1 or 999. After one renormalized step ‖q‖ − 1 is a few u,
-// so |κ| stays ≪ 2⁻¹⁰ and the far path is never selected again (and never without
-// renormalization, where κ = 0). Both paths are computed every step and one is selected per word
-// (CompensatedAccumulation::with_attitude_branch_free): 24 flops and 8 selects per lane-step for
-// a path that matters only on a lane's first step, the price of straight-line code. lane(i)
-// returns q_hi + q_lo rounded, lane_state(i) both words; w(), x(), y(), z() are the high words.
-//
-// Validation, per lane, in the order of validate_delta_angle (gyro_input.hpp) for the counts:
-// non-finite delta-angle or dt → rejected_non_finite; dt ≤ 0 → rejected_non_positive_step;
-// dt > limits.max_step → rejected_step_too_long; |Δθ_i| > limits.max_rate·dt on an axis →
-// rejected_over_range; |Δθ| > max_step_angle → rejected_over_angle; a result that is not finite
-// (only a non-finite state can give one) → rejected_non_finite, as in Propagator. (The one-sample
-// update has no history, so a gap only loses the rotation in it; re-anchor the lane with
-// set_lane.)
-//
-// Cost per lane-step (flops, + − × ÷), with first-order renormalization (36 flops in float, 41 in
-// double, renormalization.hpp; NoRenormalization saves them):
-//   plain        validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15, scaling Δθ 3,
-//                application 32, renormalization 36/41, elapsed-time (Kahan) sum 4, finiteness
-//                of the result 6: 103 (float) / 108 (double); plus 9 comparisons and 9 selects
-//                (validation 7 and finiteness 1 comparisons; the series' range 1 comparison and
-//                2 selects; the store 7 selects) and the renormalization's 6 integer/bit ops.
-//   compensated  validation 7, series 15, scaling Δθ 3, q_hi ⊗ δ 28, four DWPlusFP 40, the
-//                rounded attitude 4, renormalization 36/41, read-back 69 (the sums of magnitudes
-//                and their differences 10, a reciprocal and κ 2, the range test 1, κ·q_hi and its
-//                four DWPlusFP with Fast2Sum 32, the far path 24: the factor 4 and the scaling
-//                20), Kahan sum 4, finiteness 14 (the new pair and the renormalized attitude):
-//                220 (float) / 225 (double), 2.1× the plain lane; plus the plain lane's
-//                comparisons and selects, 4 more selects for the low words, and the read-back's
-//                8 sign-bit selects and 9 sign clears.
-// Memory, all inside the object (no heap): the state double-buffered, 12·N scalars plain (w, x,
-// y, z, elapsed-time sum and carry) and 20·N compensated (the low words add 4·N per copy), 4·N of
-// input, N accept flags and N 64-bit rejection counters, plus under 100 bytes of limits and
-// totals: 17·N·sizeof(T) + 8·N bytes plain (about 144 kB for 1024 double lanes) and
-// 25·N·sizeof(T) + 8·N compensated (about 208 kB for 1024 double lanes, 6.8 kB for 64 float
-// lanes). Allocate a large batch statically or on the heap, not on a small stack.
+/// @file
+/// Batch propagation for desktop Monte Carlo: N independent attitudes (body → reference,
+/// scalar-first (w, x, y, z), Hamilton product) in structure-of-arrays form, stepped together by
+/// the one-sample delta-angle update q ← q ⊗ exp(Δθ/2) (the update of Coning1Sample) and a
+/// renormalization. The stepper contract is the scalar path's (stepper_traits.hpp): each lane forms
+/// the increment δ = exp(Δθ/2) − 1 without cancellation (the series of cos(θ/2) − 1 has no
+/// constant term) and applies it through the accumulation policy: PlainAccumulation (q + q ⊗ δ
+/// rounded in T, the default) or CompensatedAccumulation (the lane's attitude held as the pair
+/// q_hi + q_lo, compensated_accumulation.hpp; see "Compensated lanes" below). Input per call, also
+/// structure-of-arrays (BatchSamples, written in place through samples() or copied in by step(dx,
+/// dy, dz, dt)): delta-angles dx, dy, dz (rad, body frame, integral of ω over the lane's sample
+/// interval) and a per-lane interval dt (s). dt is per lane so that lanes may run with jittered or
+/// different sample timing; it is used for validation and elapsed time only (delta-angles already
+/// carry time).
+///
+/// Why a separate class and not N Propagators: the lane loop is written so that g++ and clang++
+/// vectorize it at -O2/-O3 on the default x86-64 target (SSE2: 4 float or 2 double lanes per
+/// instruction). The lane body is straight-line: no function pointers, no calls to sin/cos/sqrt,
+/// and no data-dependent branch. Six things make that possible:
+///   - the exponential is a branch-free series, valid up to max_step_angle (below) per step;
+///   - validation is a mask computed with comparisons (a NaN fails every comparison), and the
+///     update is a select: a rejected lane stores back its own bits (both words of a compensated
+///     lane), so it stays bit-identical;
+///   - every value the update computes is used whatever the lane's outcome: the finiteness test
+///     (below) reads them, and the compensated read-back selects with masks made from sign bits
+///     (CompensatedAccumulation::with_attitude_branch_free). g++ computes a value used in one arm
+///     of a ?: only in that arm, a branch, and since a floating-point operation may trap it then
+///     cannot turn the branch back into a select;
+///   - counting the rejections by class needs a branch, so it is done after the lane loop, in a
+///     scalar pass that runs only when some lane was rejected (rare in a Monte Carlo run);
+///   - the state is double-buffered and the input lives in the object, so the compilers can see
+///     that nothing overlaps and need no run-time alias checks (see the members for why);
+///   - the lane loop is flattened ([[gnu::flatten]]: every call in it inlined), so that no
+///     inlining heuristic can leave a call in the lane body (see step_lanes).
+/// Checked in the assembly (objdump -d) of g++ 12 and clang++ 14 at -O2 and -O3, default x86-64
+/// target, for float and double, N = 4, 8, 64 and 1024, both accumulation policies and both
+/// renormalizations: the lane loop is all packed arithmetic (mulps/addps/subps/divps,
+/// mulpd/addpd/subpd/divpd; the selects in and/andn/or or blend forms), no scalar ss/sd
+/// arithmetic or comparison and no call; the same in bench/bench_batch.cpp, a unit with many
+/// instantiations (before the flattening g++ left the compensated lanes scalar there). The packed
+/// add/sub/mul/div count per vector of lanes equals the flop count below (float, first-order: 103
+/// plain, 220 compensated). N = 1 is scalar code, naturally.
+///
+/// The series and its accuracy (derivation). With θ = |Δθ|,
+///     cos(θ/2)   =   Σ_k (−1)^k (θ/2)^{2k}/(2k)!
+///                = 1 − θ²/8 + θ⁴/384 − θ⁶/46080 + θ⁸/10321920 − …
+///     sin(θ/2)/θ = ½ Σ_k (−1)^k (θ/2)^{2k}/(2k+1)!
+///                = ½ − θ²/48 + θ⁴/3840 − θ⁶/645120 + θ⁸/185794560 − …
+/// Both are kept through θ⁸ (Horner in θ², so no square root) from the core's series threshold
+/// up (θ² ≥ ScalarTraits::exp_series_angle_squared: 0.1 float, 1e-4 double); below it the θ⁸
+/// coefficients are selected to zero, which makes the evaluation the core's θ⁶ series operation
+/// for operation (its dropped θ⁸ term is at most 1e-4/10321920 = 8e-5 ε in float, 4e-8 ε in
+/// double, within the same criterion). For θ/2 < 1 the terms decrease and alternate, so the
+/// truncation is below the first dropped term:
+///     cos:            (θ/2)^10/10!        = θ^10/3715891200
+///     sin(θ/2)/θ · Δθ_i (|Δθ_i| ≤ θ): ½ (θ/2)^10/11! · θ = (θ/2)^11/11!, smaller by (θ/2)/11.
+/// Requiring the dropped term below 1e-3 ε (the criterion of the core exponential map,
+/// core/scalar_traits.hpp, so that its fixed sign cannot bias a long run measurably) gives
+///     float  (ε = 2^−23 ≈ 1.19e-7): θ ≤ 0.5 rad → 0.25^10/10! = 2.6e-13 = 2.2e-6 ε;
+///     double (ε = 2^−52 ≈ 2.22e-16): θ ≤ 0.1 rad → 0.05^10/10! = 2.7e-20 = 1.2e-4 ε
+/// (the criterion alone would allow 0.92 rad in float, 0.12 rad in double). A sample whose |Δθ|
+/// exceeds max_step_angle is rejected (counted as rejected_over_angle; its lane is untouched). The
+/// per-axis rate check already bounds |Δθ| by √3·max_rate·dt, so this never fires while that is
+/// below max_step_angle: in double, 35 rad/s per axis at 1 kHz gives at most 0.061 rad. For faster
+/// motion or longer steps in double use the scalar Propagator, whose exponential switches to
+/// sin/cos.
+///
+/// Agreement with the scalar path: below the core's series threshold (θ² < 0.1 float, 1e-4
+/// double) a lane performs the operations of Propagator<T, Coning1Sample, R, A> in the same order
+/// (the same series, the policy's step, the renormalization and, for the compensated policy, the
+/// read-back, whose branch-free form gives with_attitude's bits), so the two are bit-identical
+/// step after step, for both accumulation policies, where the compiler does not contract a·b + c
+/// into fused multiply-adds (the default x86-64 target has none; with FMA, -march=native or
+/// aarch64, vector and scalar code may contract differently: an ulp per step at most,
+/// random-walking). Above the threshold the scalar path uses sin/cos, equally accurate: one step
+/// from the same state differs by at most an ulp (measured 1 ε in float, 0.5 ε plain and 1 ε
+/// compensated in double). The tests check bit-identity over 10⁵ coning steps (compensated) and
+/// 4000 random steps (plain).
+///
+/// Compensated lanes (Accumulation = CompensatedAccumulation; the policy's header has the method,
+/// its sources and its rounding bound). Each lane-step is the scalar policy's: p = q_hi ⊗ δ, then
+/// DWPlusFP (TwoSum, an addition, Fast2Sum) per component of the pair; the attitude q_hi + q_lo
+/// rounded once goes through the renormalization, and the factor 1 + κ it applied is read back
+/// from the sums of the components' magnitudes and added to the pair as κ·q_hi (a double-word
+/// addition again).
+/// The scalar read-back rescales both words instead when |κ| > 2⁻¹⁰ (far from the unit sphere).
+/// That can happen here: set_lane and the constructor take any q (as Propagator's constructor and
+/// reset do; normalizing there would break the agreement above), and the first step from a q of
+/// norm 1000 or 1/1000 reads back κ ≈ −1 or 999. After one renormalized step ‖q‖ − 1 is a few u,
+/// so |κ| stays ≪ 2⁻¹⁰ and the far path is never selected again (and never without
+/// renormalization, where κ = 0). Both paths are computed every step and one is selected per word
+/// (CompensatedAccumulation::with_attitude_branch_free): 24 flops and 8 selects per lane-step for
+/// a path that matters only on a lane's first step, the price of straight-line code. lane(i)
+/// returns q_hi + q_lo rounded, lane_state(i) both words; w(), x(), y(), z() are the high words.
+///
+/// Validation, per lane, in the order of validate_delta_angle (gyro_input.hpp) for the counts:
+/// non-finite delta-angle or dt → rejected_non_finite; dt ≤ 0 → rejected_non_positive_step;
+/// dt > limits.max_step → rejected_step_too_long; |Δθ_i| > limits.max_rate·dt on an axis →
+/// rejected_over_range; |Δθ| > max_step_angle → rejected_over_angle; a result that is not finite
+/// (only a non-finite state can give one) → rejected_non_finite, as in Propagator. (The one-sample
+/// update has no history, so a gap only loses the rotation in it; re-anchor the lane with
+/// set_lane.)
+///
+/// Cost per lane-step (flops, + − × ÷), with first-order renormalization (36 flops in float, 41 in
+/// double, renormalization.hpp; NoRenormalization saves them):
+///   plain        validation 7 (rate bound 1, θ² 5, dt − dt 1), series 15, scaling Δθ 3,
+///                application 32, renormalization 36/41, elapsed-time (Kahan) sum 4, finiteness
+///                of the result 6: 103 (float) / 108 (double); plus 9 comparisons and 9 selects
+///                (validation 7 and finiteness 1 comparisons; the series' range 1 comparison and
+///                2 selects; the store 7 selects) and the renormalization's 6 integer/bit ops.
+///   compensated  validation 7, series 15, scaling Δθ 3, q_hi ⊗ δ 28, four DWPlusFP 40, the
+///                rounded attitude 4, renormalization 36/41, read-back 69 (the sums of magnitudes
+///                and their differences 10, a reciprocal and κ 2, the range test 1, κ·q_hi and its
+///                four DWPlusFP with Fast2Sum 32, the far path 24: the factor 4 and the scaling
+///                20), Kahan sum 4, finiteness 14 (the new pair and the renormalized attitude):
+///                220 (float) / 225 (double), 2.1× the plain lane; plus the plain lane's
+///                comparisons and selects, 4 more selects for the low words, and the read-back's
+///                8 sign-bit selects and 9 sign clears.
+/// Memory, all inside the object (no heap): the state double-buffered, 12·N scalars plain (w, x,
+/// y, z, elapsed-time sum and carry) and 20·N compensated (the low words add 4·N per copy), 4·N of
+/// input, N accept flags and N 64-bit rejection counters, plus under 100 bytes of limits and
+/// totals: 17·N·sizeof(T) + 8·N bytes plain (about 144 kB for 1024 double lanes) and
+/// 25·N·sizeof(T) + 8·N compensated (about 208 kB for 1024 double lanes, 6.8 kB for 64 float
+/// lanes). Allocate a large batch statically or on the heap, not on a small stack.
 
 #include <array>
 #include <cmath>
@@ -139,27 +140,29 @@
 
 namespace halfspin {
 
-// The branch-free exponential series used by the batch path, with the largest step angle it is
-// accurate for (derivation in the header comment).
+/// The branch-free exponential series used by the batch path, with the largest step angle it is
+/// accurate for (derivation in the header comment).
 template <class T>
 struct BatchExponentialSeries;
 
+/// Float: the series is used up to max_step_angle.
 template <>
 struct BatchExponentialSeries<float> {
-  static constexpr float max_step_angle = 0.5f;  // rad; truncation ≤ 2.2e-6 ε
+  static constexpr float max_step_angle = 0.5f;  ///< rad; truncation ≤ 2.2e-6 ε
 };
 
+/// Double: the series is used up to max_step_angle.
 template <>
 struct BatchExponentialSeries<double> {
-  static constexpr double max_step_angle = 0.1;  // rad; truncation ≤ 1.2e-4 ε
+  static constexpr double max_step_angle = 0.1;  ///< rad; truncation ≤ 1.2e-4 ε
 };
 
-// exp(φ/2) − 1 for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through
-// θ⁸: returns cos(θ/2) − 1 in c_minus_one and sin(θ/2)/θ in s_over_angle (θ² given as t).
-// Below the core's series threshold (ScalarTraits::exp_series_angle_squared) the θ⁸ coefficients
-// are selected to zero: t·0 + c₆ is exactly c₆ for finite t ≥ 0, so the evaluation is then the
-// core's series (detail::half_angle_series) operation for operation, and a lane gets the scalar
-// path's increment bit for bit. Straight-line code (the select is a mask, not a branch).
+/// exp(φ/2) − 1 for a rotation vector φ (rad) with |φ| ≤ max_step_angle, by the series through
+/// θ⁸: returns cos(θ/2) − 1 in c_minus_one and sin(θ/2)/θ in s_over_angle (θ² given as t).
+/// Below the core's series threshold (ScalarTraits::exp_series_angle_squared) the θ⁸ coefficients
+/// are selected to zero: t·0 + c₆ is exactly c₆ for finite t ≥ 0, so the evaluation is then the
+/// core's series (detail::half_angle_series) operation for operation, and a lane gets the scalar
+/// path's increment bit for bit. Straight-line code (the select is a mask, not a branch).
 template <class T>
 constexpr void batch_exponential_series(T t, T& c_minus_one, T& s_over_angle) noexcept {
   const bool core_range = t < ScalarTraits<T>::exp_series_angle_squared;
@@ -170,38 +173,39 @@ constexpr void batch_exponential_series(T t, T& c_minus_one, T& s_over_angle) no
       T(0.5) + t * (T(-1.0L / 48) + t * (T(1.0L / 3840) + t * (T(-1.0L / 645120) + t * s8)));
 }
 
-// Totals over all lanes since construction. A lane-step is one lane's update in one call.
+/// Totals over all lanes since construction. A lane-step is one lane's update in one call.
 struct BatchCounters {
-  std::uint64_t calls = 0;       // calls of step()
-  std::uint64_t lane_steps = 0;  // accepted lane-steps
-  std::uint64_t rejected_non_finite = 0;
+  std::uint64_t calls = 0;                ///< calls of step()
+  std::uint64_t lane_steps = 0;           ///< accepted lane-steps
+  std::uint64_t rejected_non_finite = 0;  ///< lane-samples rejected as Status::non_finite
+  /// Lane-samples rejected as Status::non_positive_step.
   std::uint64_t rejected_non_positive_step = 0;
-  std::uint64_t rejected_step_too_long = 0;
-  std::uint64_t rejected_over_range = 0;
-  std::uint64_t rejected_over_angle = 0;  // |Δθ| above the batch series' max_step_angle
+  std::uint64_t rejected_step_too_long = 0;  ///< lane-samples rejected as Status::step_too_long
+  std::uint64_t rejected_over_range = 0;     ///< lane-samples rejected as Status::over_range (rate)
+  std::uint64_t rejected_over_angle = 0;     ///< |Δθ| above the batch series' max_step_angle
 
-  // All rejected lane-samples.
+  /// All rejected lane-samples.
   constexpr std::uint64_t rejected() const noexcept {
     return rejected_non_finite + rejected_non_positive_step + rejected_step_too_long +
            rejected_over_range + rejected_over_angle;
   }
 };
 
-// One sample per lane in structure-of-arrays form: delta-angle (dx, dy, dz) in rad (body frame)
-// over the interval dt in s.
+/// One sample per lane in structure-of-arrays form: delta-angle (dx, dy, dz) in rad (body frame)
+/// over the interval dt in s.
 template <class T, std::size_t N>
 struct BatchSamples {
-  std::array<T, N> dx{};
-  std::array<T, N> dy{};
-  std::array<T, N> dz{};
-  std::array<T, N> dt{};
+  std::array<T, N> dx{};  ///< delta-angle x per lane (rad)
+  std::array<T, N> dy{};  ///< delta-angle y per lane (rad)
+  std::array<T, N> dz{};  ///< delta-angle z per lane (rad)
+  std::array<T, N> dt{};  ///< interval per lane (s)
 };
 
-// Why a lane's sample was rejected (Status::ok if accepted). rejected_over_angle maps to
-// Status::over_range; `over_angle` tells the two apart.
+/// Why a lane's sample was rejected (Status::ok if accepted). rejected_over_angle maps to
+/// Status::over_range; `over_angle` tells the two apart.
 struct BatchLaneVerdict {
-  Status status;
-  bool over_angle;
+  Status status;    ///< Status::ok, or the rejection
+  bool over_angle;  ///< rejected for |Δθ| above max_step_angle
 };
 
 namespace detail {
@@ -234,10 +238,10 @@ struct BatchLaneState<T, N, true> {
 
 }  // namespace detail
 
-// N attitudes (body → reference) stepped together; Renormalization is NoRenormalization or
-// FirstOrderRenormalization (stateless and straight-line, so the lane loop stays vectorizable);
-// Accumulation is PlainAccumulation (q + q ⊗ δ rounded in T) or CompensatedAccumulation (each
-// lane's attitude held as the pair q_hi + q_lo, compensated_accumulation.hpp).
+/// N attitudes (body → reference) stepped together; Renormalization is NoRenormalization or
+/// FirstOrderRenormalization (stateless and straight-line, so the lane loop stays vectorizable);
+/// Accumulation is PlainAccumulation (q + q ⊗ δ rounded in T) or CompensatedAccumulation (each
+/// lane's attitude held as the pair q_hi + q_lo, compensated_accumulation.hpp).
 template <class T, std::size_t N, class Renormalization = FirstOrderRenormalization,
           class Accumulation = PlainAccumulation>
 class BatchPropagator {
@@ -257,16 +261,17 @@ class BatchPropagator {
       renormalizes_by_scaling<Accumulation, Renormalization, T>::value;
 
  public:
-  using scalar = T;
-  using accumulation = Accumulation;
-  using Lanes = std::array<T, N>;
-  using Samples = BatchSamples<T, N>;
-  // One lane's attitude as the accumulation policy holds it (both words for the compensated one).
+  using scalar = T;                    ///< the scalar type
+  using accumulation = Accumulation;   ///< the accumulation policy
+  using Lanes = std::array<T, N>;      ///< one value per lane
+  using Samples = BatchSamples<T, N>;  ///< one sample per lane
+  /// One lane's attitude as the accumulation policy holds it (both words for the compensated one).
   using LaneAttitudeState = typename Accumulation::template State<T>;
-  static constexpr std::size_t lanes = N;
+  static constexpr std::size_t lanes = N;  ///< N, the number of lanes
+  /// Largest |Δθ| per step (rad).
   static constexpr T max_step_angle = BatchExponentialSeries<T>::max_step_angle;
 
-  // Every lane starts at `initial` (body → reference, unit).
+  /// Every lane starts at `initial` (body → reference, unit).
   constexpr BatchPropagator(const Quaternion<T>& initial, const GyroLimits<T>& limits) noexcept
       : limits_(limits) {
     for (std::size_t i = 0; i < N; ++i) {
@@ -274,15 +279,16 @@ class BatchPropagator {
     }
   }
 
-  // The next sample of every lane, written in place by the caller before step(): lane i's
-  // delta-angle (dx[i], dy[i], dz[i]) (rad, body frame) over dt[i] (s). Keeping the input inside
-  // the object lets the compiler see that it cannot overlap the state, so the lane loop needs no
-  // run-time alias checks (g++ at -O2 vectorizes only loops that need none).
+  /// The next sample of every lane, written in place by the caller before step(): lane i's
+  /// delta-angle (dx[i], dy[i], dz[i]) (rad, body frame) over dt[i] (s). Keeping the input inside
+  /// the object lets the compiler see that it cannot overlap the state, so the lane loop needs no
+  /// run-time alias checks (g++ at -O2 vectorizes only loops that need none).
   constexpr Samples& samples() noexcept { return samples_; }
+  /// The next sample of every lane (read-only view).
   constexpr const Samples& samples() const noexcept { return samples_; }
 
-  // One step of every lane with samples(). Returns the number of lanes accepted; rejected lanes
-  // keep their attitude and elapsed time bit-for-bit.
+  /// One step of every lane with samples(). Returns the number of lanes accepted; rejected lanes
+  /// keep their attitude and elapsed time bit-for-bit.
   std::size_t step() noexcept {
     // Constant buffer indices let the compiler see that the two copies do not overlap.
     const std::size_t accepted_lanes = current_ == 0 ? step_lanes<0>() : step_lanes<1>();
@@ -295,7 +301,7 @@ class BatchPropagator {
     return accepted_lanes;
   }
 
-  // The same after copying the sample arrays (rad, rad, rad, s) into samples().
+  /// The same after copying the sample arrays (rad, rad, rad, s) into samples().
   std::size_t step(const Lanes& dx, const Lanes& dy, const Lanes& dz, const Lanes& dt) noexcept {
     samples_.dx = dx;
     samples_.dy = dy;
@@ -304,8 +310,8 @@ class BatchPropagator {
     return step();
   }
 
-  // Why step() would reject lane sample (dx, dy, dz) (rad) over dt (s), without stepping (a
-  // non-finite state, which makes a valid sample's result non-finite, is not looked at).
+  /// Why step() would reject lane sample (dx, dy, dz) (rad) over dt (s), without stepping (a
+  /// non-finite state, which makes a valid sample's result non-finite, is not looked at).
   BatchLaneVerdict verdict(T ax, T ay, T az, T h) const noexcept {
     const Status s = validate_delta_angle(Vector3<T>{ax, ay, az}, h, limits_);
     if (s != Status::ok) {
@@ -318,17 +324,17 @@ class BatchPropagator {
     return {Status::ok, false};
   }
 
-  // Lane i's attitude (body → reference); i < N. For the compensated policy q_hi + q_lo rounded
-  // once, as Propagator::attitude() returns it.
+  /// Lane i's attitude (body → reference); i < N. For the compensated policy q_hi + q_lo rounded
+  /// once, as Propagator::attitude() returns it.
   constexpr Quaternion<T> lane(std::size_t i) const noexcept {
     return Accumulation::attitude(lane_state(i));
   }
-  // Lane i's attitude as the accumulation policy holds it (compensated: both words).
+  /// Lane i's attitude as the accumulation policy holds it (compensated: both words).
   constexpr LaneAttitudeState lane_state(std::size_t i) const noexcept {
     return load(state_[current_], i);
   }
-  // Re-anchors lane i at q (body → reference; compensated: q_hi = q, q_lo = 0, as
-  // Propagator::reset); counters and elapsed time are kept.
+  /// Re-anchors lane i at q (body → reference; compensated: q_hi = q, q_lo = 0, as
+  /// Propagator::reset); counters and elapsed time are kept.
   constexpr void set_lane(std::size_t i, const Quaternion<T>& q) noexcept {
     LaneState& s = state_[current_];
     const LaneAttitudeState a = Accumulation::start(q);
@@ -344,27 +350,33 @@ class BatchPropagator {
       s.low_z[i] = a.lo.z;
     }
   }
-  // The components of all lanes. For the compensated policy these are the high words q_hi, within
-  // an ulp of the attitude lane(i) returns (q_hi + q_lo rounded; |q_lo| ≤ ½ulp(q_hi)).
+  /// The components of all lanes. For the compensated policy these are the high words q_hi, within
+  /// an ulp of the attitude lane(i) returns (q_hi + q_lo rounded; |q_lo| ≤ ½ulp(q_hi)).
   constexpr const Lanes& w() const noexcept { return state_[current_].w; }
+  /// The x components of all lanes (see w()).
   constexpr const Lanes& x() const noexcept { return state_[current_].x; }
+  /// The y components of all lanes (see w()).
   constexpr const Lanes& y() const noexcept { return state_[current_].y; }
+  /// The z components of all lanes (see w()).
   constexpr const Lanes& z() const noexcept { return state_[current_].z; }
 
+  /// Totals over all lanes since construction.
   constexpr const BatchCounters& counters() const noexcept { return counters_; }
-  // Samples rejected on lane i since construction; lane i took calls − that many steps.
+  /// Samples rejected on lane i since construction; lane i took calls − that many steps.
   constexpr std::uint64_t lane_rejections(std::size_t i) const noexcept {
     return lane_rejections_[i];
   }
+  /// Steps lane i took since construction.
   constexpr std::uint64_t lane_steps(std::size_t i) const noexcept {
     return counters_.calls - lane_rejections_[i];
   }
-  // Seconds propagated on lane i (compensated sum of its accepted intervals).
+  /// Seconds propagated on lane i (compensated sum of its accepted intervals).
   constexpr T elapsed_seconds(std::size_t i) const noexcept {
     return state_[current_].elapsed_sum[i];
   }
-  // Whether lane i's sample was accepted by the last call of step() (false before the first).
+  /// Whether lane i's sample was accepted by the last call of step() (false before the first).
   constexpr bool lane_accepted(std::size_t i) const noexcept { return accepted_[i] != 0; }
+  /// The gyro limits every lane is checked against.
   constexpr const GyroLimits<T>& limits() const noexcept { return limits_; }
 
  private:

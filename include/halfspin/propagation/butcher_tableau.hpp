@@ -1,46 +1,50 @@
 #pragma once
-// Butcher tableaus of explicit Runge–Kutta methods as compile-time data, and the compile-time
-// facts the generic steppers derive from them (coefficients rounded once to the scalar type,
-// nonzero counts for the flop tally, which stage nodes coincide).
-//
-// Coefficients are written as exact rationals in long double and rounded once to T at compile
-// time, so float code never computes in a wider type at run time. Sources: Butcher (order
-// conditions, the classic methods); Bogacki and Shampine 1989 (3(2) pair); Dormand and Prince
-// 1980 (5(4) pair). The coefficients are from memory; tests/propagation/test_runge_kutta.cpp checks
-// every order condition through order 5 against Butcher's rooted-tree conditions, and the
-// static_asserts below check the row-sum condition Σ_j a_ij = c_i.
+/// @file
+/// Butcher tableaus of explicit Runge–Kutta methods as compile-time data, and the compile-time
+/// facts the generic steppers derive from them (coefficients rounded once to the scalar type,
+/// nonzero counts for the flop tally, which stage nodes coincide).
+///
+/// Coefficients are written as exact rationals in long double and rounded once to T at compile
+/// time, so float code never computes in a wider type at run time. Sources: Butcher (order
+/// conditions, the classic methods); Bogacki and Shampine 1989 (3(2) pair); Dormand and Prince
+/// 1980 (5(4) pair). The coefficients are from memory; tests/propagation/test_runge_kutta.cpp
+/// checks every order condition through order 5 against Butcher's rooted-tree conditions, and the
+/// static_asserts below check the row-sum condition Σ_j a_ij = c_i.
 
 #include <array>
 #include <cstddef>
 
 namespace halfspin {
 
-// An explicit tableau with S stages: a is strictly lower triangular; b are the weights of the
-// returned solution; b_embedded those of an embedded solution of order embedded_order (all zero
-// and embedded_order = 0 when the method has none). attitude_order is the order of the attitude
-// alone on q̇ = ½ q ⊗ (0, ω) with exact stage rates, where it exceeds the classical order because
-// the leading local error term is a norm change (Kutta's RK3, explicit_runge_kutta.hpp), else
-// equal to `order`.
+/// An explicit tableau with S stages: a is strictly lower triangular; b are the weights of the
+/// returned solution; b_embedded those of an embedded solution of order embedded_order (all zero
+/// and embedded_order = 0 when the method has none). attitude_order is the order of the attitude
+/// alone on q̇ = ½ q ⊗ (0, ω) with exact stage rates, where it exceeds the classical order because
+/// the leading local error term is a norm change (Kutta's RK3, explicit_runge_kutta.hpp), else
+/// equal to `order`.
 template <std::size_t S>
 struct ButcherTableau {
-  static constexpr std::size_t stages = S;
+  static constexpr std::size_t stages = S;  ///< S
+  /// Stage coefficients a_ij (strictly lower triangular).
   std::array<std::array<long double, S>, S> a;
-  std::array<long double, S> b;
-  std::array<long double, S> c;
-  std::array<long double, S> b_embedded;
-  int order;
-  int embedded_order;
-  int attitude_order;
+  std::array<long double, S> b;           ///< weights of the returned solution
+  std::array<long double, S> c;           ///< nodes c_i (fractions of the step)
+  std::array<long double, S> b_embedded;  ///< weights of the embedded solution (all zero if none)
+  int order;                              ///< classical order of the returned solution
+  int embedded_order;                     ///< order of the embedded solution (0 if none)
+  int attitude_order;                     ///< order of the attitude alone (see above)
 };
 
-// Explicit midpoint rule: second order, one rate at mid-step.
+/// Explicit midpoint rule: second order, one rate at mid-step.
 struct MidpointTableau {
+  /// The tableau.
   static constexpr ButcherTableau<2> value{
       {{{{0.0L, 0.0L}}, {{0.5L, 0.0L}}}}, {{0.0L, 1.0L}}, {{0.0L, 0.5L}}, {{0.0L, 0.0L}}, 2, 0, 2};
 };
 
-// Kutta's third-order method (nodes 0, 1/2, 1).
+/// Kutta's third-order method (nodes 0, 1/2, 1).
 struct Kutta3Tableau {
+  /// The tableau.
   static constexpr ButcherTableau<3> value{
       {{{{0.0L, 0.0L, 0.0L}}, {{0.5L, 0.0L, 0.0L}}, {{-1.0L, 2.0L, 0.0L}}}},
       {{1.0L / 6, 2.0L / 3, 1.0L / 6}},
@@ -51,8 +55,9 @@ struct Kutta3Tableau {
       4};
 };
 
-// The classic fourth-order method (nodes 0, 1/2, 1/2, 1).
+/// The classic fourth-order method (nodes 0, 1/2, 1/2, 1).
 struct ClassicRungeKutta4Tableau {
+  /// The tableau.
   static constexpr ButcherTableau<4> value{{{{{0.0L, 0.0L, 0.0L, 0.0L}},
                                              {{0.5L, 0.0L, 0.0L, 0.0L}},
                                              {{0.0L, 0.5L, 0.0L, 0.0L}},
@@ -65,10 +70,11 @@ struct ClassicRungeKutta4Tableau {
                                            4};
 };
 
-// Bogacki–Shampine 3(2): third-order solution, second-order embedded one (nodes 0, 1/2, 3/4, 1).
-// The last stage is evaluated at the new solution (first-same-as-last), which only a stepper that
-// keeps state could reuse; our steppers are stateless and evaluate it every step.
+/// Bogacki–Shampine 3(2): third-order solution, second-order embedded one (nodes 0, 1/2, 3/4, 1).
+/// The last stage is evaluated at the new solution (first-same-as-last), which only a stepper that
+/// keeps state could reuse; our steppers are stateless and evaluate it every step.
 struct BogackiShampine32Tableau {
+  /// The tableau.
   static constexpr ButcherTableau<4> value{{{{{0.0L, 0.0L, 0.0L, 0.0L}},
                                              {{0.5L, 0.0L, 0.0L, 0.0L}},
                                              {{0.0L, 0.75L, 0.0L, 0.0L}},
@@ -81,9 +87,10 @@ struct BogackiShampine32Tableau {
                                            3};
 };
 
-// Dormand–Prince 5(4): fifth-order solution, fourth-order embedded one, seven stages (first-same-
-// as-last, see above).
+/// Dormand–Prince 5(4): fifth-order solution, fourth-order embedded one, seven stages (first-same-
+/// as-last, see above).
 struct DormandPrince54Tableau {
+  /// The tableau.
   static constexpr ButcherTableau<7> value{
       {{{{0.0L, 0.0L, 0.0L, 0.0L, 0.0L, 0.0L, 0.0L}},
         {{1.0L / 5, 0.0L, 0.0L, 0.0L, 0.0L, 0.0L, 0.0L}},
@@ -187,16 +194,19 @@ constexpr bool rows_sum_to_nodes(const ButcherTableau<S>& t) noexcept {
 
 }  // namespace detail
 
-// The coefficients of Tableau rounded once to T (compile time).
+/// The coefficients of Tableau rounded once to T (compile time).
 template <class Tableau, class T>
 struct TableauCoefficients {
-  static constexpr std::size_t stages = decltype(Tableau::value)::stages;
+  static constexpr std::size_t stages = decltype(Tableau::value)::stages;  ///< the tableau's stages
+  /// A rounded to T.
   static constexpr std::array<std::array<T, stages>, stages> a =
       detail::round_all<T>(Tableau::value.a);
+  /// B rounded to T.
   static constexpr std::array<T, stages> b = detail::round_all<T>(Tableau::value.b);
+  /// C rounded to T.
   static constexpr std::array<T, stages> c = detail::round_all<T>(Tableau::value.c);
-  // b − b_embedded, formed exactly in long double before the one rounding to T, so the error
-  // estimate does not suffer the cancellation of two separately rounded weights.
+  /// b − b_embedded, formed exactly in long double before the one rounding to T, so the error
+  /// estimate does not suffer the cancellation of two separately rounded weights.
   static constexpr std::array<T, stages> b_difference =
       detail::round_all<T>(detail::weight_difference(Tableau::value));
 };

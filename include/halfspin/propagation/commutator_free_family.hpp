@@ -1,32 +1,33 @@
 #pragma once
-// The commutator-free family as data: every stepper whose step is a product of exponentials
-//     P = exp(φ_1/2) ⊗ exp(φ_2/2) ⊗ … ⊗ exp(φ_E/2),   φ_j = Σ_i a_ji s_i (× dt for rates),
-// the s_i being the samples of the step's window (as in rotation_vector_family.hpp: rates at
-// points of the step, or delta-angles over the sample intervals that tile it) and a_ji fixed
-// weights; φ_1 acts first in time. These are the commutator-free Lie-group methods (Celledoni,
-// Marthinsen and Owren 2003) specialised to attitude kinematics: there the rate depends on time
-// only, not on the attitude, so every stage rate is a rate sample at the stage's node, and the
-// Crouch–Grossman methods (one exponential per stage) are members too. No commutator is computed:
-// the non-commutativity is carried by the order of the factors. Each member is one
-// CommutatorFreeRule below; order and flops are derived from it here, the a-priori bound from it
-// in bounds/commutator_free_bounds.hpp.
-//
-// Order (derivation ours; inputs: the Baker–Campbell–Hausdorff series and the Magnus expansion,
-// REFERENCES.md). The product is exp(Φ/2) with Φ = Σφ_j + ½Σ_{j<k} φ_j×φ_k + T3 + O(φ⁴), where the
-// third-order part is T3 = Σ_k [½B_k×φ_k + (1/12)(S_k − φ_k)×(S_k×φ_k)], S_k = Σ_{j<k} φ_j,
-// B_k = ½Σ_{i<j<k} φ_i×φ_j (from the rotation-vector equation for the piecewise-constant rate
-// whose flow is the product; for E = 2 it is the BCH term (1/12)(φ_1 − φ_2)×(φ_1×φ_2)). So the
-// step is a member of the rotation-vector family with the quadrature weights w_i = Σ_j a_ji and
-// the cross-product weights c_il = ½Σ_{j<k}(a_ji a_kl − a_jl a_ki), plus T3. The first two give
-// the order as in rotation_vector_family.hpp (quadrature degree, κ_p, κ_q); T3 has, with
-// ω = m + pτ about mid-step, the h⁴ coefficient t·m×(m×p), t = Σ_k[(1/12)(σ_k − w_k)s_k −
-// ½b_k w_k] (w_k, σ_k, s_k, b_k the leading coefficients of φ_k, S_k, S_k×φ_k, B_k), which must
-// vanish for order 4; the rest of T3 and the third Magnus term are O(h⁵), so order ≤ 4.
-//
-// Flops (+ − ×, counted from the code below): per exponential 3 per added sample, 3 per weight
-// other than 1, 3 for the scaling (rates: dt times the inverse denominator 1 more), exp(φ/2) − 1
-// (series branch); per exponential after the first, the increments composed as
-// δ ← δ + δ_j + δ ⊗ δ_j (the product 28, two sums 8); then the plain application.
+/// @file
+/// The commutator-free family as data: every stepper whose step is a product of exponentials
+///     P = exp(φ_1/2) ⊗ exp(φ_2/2) ⊗ … ⊗ exp(φ_E/2),   φ_j = Σ_i a_ji s_i (× dt for rates),
+/// the s_i being the samples of the step's window (as in rotation_vector_family.hpp: rates at
+/// points of the step, or delta-angles over the sample intervals that tile it) and a_ji fixed
+/// weights; φ_1 acts first in time. These are the commutator-free Lie-group methods (Celledoni,
+/// Marthinsen and Owren 2003) specialised to attitude kinematics: there the rate depends on time
+/// only, not on the attitude, so every stage rate is a rate sample at the stage's node, and the
+/// Crouch–Grossman methods (one exponential per stage) are members too. No commutator is computed:
+/// the non-commutativity is carried by the order of the factors. Each member is one
+/// CommutatorFreeRule below; order and flops are derived from it here, the a-priori bound from it
+/// in bounds/commutator_free_bounds.hpp.
+///
+/// Order (derivation ours; inputs: the Baker–Campbell–Hausdorff series and the Magnus expansion,
+/// REFERENCES.md). The product is exp(Φ/2) with Φ = Σφ_j + ½Σ_{j<k} φ_j×φ_k + T3 + O(φ⁴), where the
+/// third-order part is T3 = Σ_k [½B_k×φ_k + (1/12)(S_k − φ_k)×(S_k×φ_k)], S_k = Σ_{j<k} φ_j,
+/// B_k = ½Σ_{i<j<k} φ_i×φ_j (from the rotation-vector equation for the piecewise-constant rate
+/// whose flow is the product; for E = 2 it is the BCH term (1/12)(φ_1 − φ_2)×(φ_1×φ_2)). So the
+/// step is a member of the rotation-vector family with the quadrature weights w_i = Σ_j a_ji and
+/// the cross-product weights c_il = ½Σ_{j<k}(a_ji a_kl − a_jl a_ki), plus T3. The first two give
+/// the order as in rotation_vector_family.hpp (quadrature degree, κ_p, κ_q); T3 has, with
+/// ω = m + pτ about mid-step, the h⁴ coefficient t·m×(m×p), t = Σ_k[(1/12)(σ_k − w_k)s_k −
+/// ½b_k w_k] (w_k, σ_k, s_k, b_k the leading coefficients of φ_k, S_k, S_k×φ_k, B_k), which must
+/// vanish for order 4; the rest of T3 and the third Magnus term are O(h⁵), so order ≤ 4.
+///
+/// Flops (+ − ×, counted from the code below): per exponential 3 per added sample, 3 per weight
+/// other than 1, 3 for the scaling (rates: dt times the inverse denominator 1 more), exp(φ/2) − 1
+/// (series branch); per exponential after the first, the increments composed as
+/// δ ← δ + δ_j + δ ⊗ δ_j (the product 28, two sums 8); then the plain application.
 
 #include <array>
 #include <cstddef>
@@ -41,15 +42,16 @@
 
 namespace halfspin {
 
-// One member: its input layout and, for each of its E exponentials (first in time first), the
-// weights of its window's W samples (numerators over one denominator).
+/// One member: its input layout and, for each of its E exponentials (first in time first), the
+/// weights of its window's W samples (numerators over one denominator).
 template <std::size_t W, std::size_t E>
 struct CommutatorFreeRule {
-  static constexpr std::size_t window = W;
-  static constexpr std::size_t exponentials = E;
-  SampleLayout layout;
+  static constexpr std::size_t window = W;        ///< W, the samples in the window
+  static constexpr std::size_t exponentials = E;  ///< E, the exponentials in the product
+  SampleLayout layout;                            ///< what the samples hold
+  /// Weights[j][i]: sample i's numerator in exponential j.
   std::array<std::array<std::int32_t, W>, E> weights;
-  std::int32_t denominator;
+  std::int32_t denominator;  ///< the weights' common denominator
 };
 
 namespace detail {
@@ -172,26 +174,29 @@ struct CommutatorFreeWeights {
 
 }  // namespace detail
 
-// The generic member of the family: Rule::value is a CommutatorFreeRule. Input: the window of
-// samples (rates in rad/s or delta-angles in rad, as the layout says); dt (s) the step length.
+/// The generic member of the family: Rule::value is a CommutatorFreeRule. Input: the window of
+/// samples (rates in rad/s or delta-angles in rad, as the layout says); dt (s) the step length.
 template <class Rule>
 struct CommutatorFreeStepper {
-  static constexpr const auto& rule = Rule::value;
-  using family = CommutatorFreeStepper<Rule>;  // the bounds layer dispatches on it
-  static constexpr SampleLayout layout = rule.layout;
-  static constexpr std::size_t window = rule.window;
-  static constexpr std::size_t exponentials = rule.exponentials;
+  static constexpr const auto& rule = Rule::value;     ///< the family data (Rule::value)
+  using family = CommutatorFreeStepper<Rule>;          ///< the bounds layer dispatches on it
+  static constexpr SampleLayout layout = rule.layout;  ///< what the input holds
+  static constexpr std::size_t window = rule.window;   ///< samples the step reads
+  static constexpr std::size_t exponentials = rule.exponentials;  ///< exponentials in the product
+  /// Samples that arrive per step.
   static constexpr std::size_t new_samples = detail::new_samples_of(layout, window);
+  /// Global attitude order with this input, on any smooth motion.
   static constexpr int order = detail::commutator_free_order(rule);
-  static constexpr bool has_estimate = false;
+  static constexpr bool has_estimate = false;  ///< whether the increment carries an error estimate
+  /// Floating-point operations per step: the increment and its plain application.
   static constexpr int flops =
       detail::commutator_free_flops(rule) +
       static_cast<int>(exponentials) * quaternion_exp_minus_one_series_flops +
       apply_increment_flops;
-  // The exponentials' rotation vectors together are at most rotation_linear·θ long for a step
-  // rotating by ≤ θ (each is Σ_i a_ji s_i, |s_i| ≤ θ for rates × dt, Σ|s_i| ≤ θ for
-  // delta-angles), so the step's P is within that angle of 1 (the roundoff model's
-  // |δ| ≤ rotation_linear·θ/2).
+  /// The exponentials' rotation vectors together are at most rotation_linear·θ long for a step
+  /// rotating by ≤ θ (each is Σ_i a_ji s_i, |s_i| ≤ θ for rates × dt, Σ|s_i| ≤ θ for
+  /// delta-angles), so the step's P is within that angle of 1 (the roundoff model's
+  /// |δ| ≤ rotation_linear·θ/2).
   static constexpr long double rotation_linear = [] {
     long double sum = 0.0L;
     for (std::size_t j = 0; j < exponentials; ++j) {
@@ -205,13 +210,14 @@ struct CommutatorFreeStepper {
     }
     return sum / static_cast<long double>(rule.denominator);
   }();
+  /// 0: the rotation vectors are linear in the samples.
   static constexpr long double rotation_quadratic = 0.0L;
   static_assert(layout != SampleLayout::rate_function, "the family reads samples");
   static_assert(exponentials >= 1, "at least one exponential");
   static_assert(detail::quadrature_degree(detail::first_order_part(rule)) >= 0,
                 "the weights must sum to a consistent quadrature");
 
-  // φ_j (rad, body frame), the rotation vector of the J-th factor.
+  /// φ_j (rad, body frame), the rotation vector of the J-th factor.
   template <std::size_t J, class T>
   static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, window>& s,
                                               T dt) noexcept {
@@ -220,13 +226,13 @@ struct CommutatorFreeStepper {
         detail::CommutatorFreeWeights<Rule, T>::inverse);
   }
 
-  // P − 1 = (1 + δ_1)(1 + δ_2)… − 1 with δ_j = exp(φ_j/2) − 1, composed without forming 1 + δ.
+  /// P − 1 = (1 + δ_1)(1 + δ_2)… − 1 with δ_j = exp(φ_j/2) − 1, composed without forming 1 + δ.
   template <class T>
   static Increment<T> increment(const std::array<Vector3<T>, window>& s, T dt) noexcept {
     return {composed(s, dt, std::make_index_sequence<exponentials>{}), T(0)};
   }
 
-  // q ⊗ P, the increment applied plainly (q body → reference).
+  /// q ⊗ P, the increment applied plainly (q body → reference).
   template <class T>
   static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& s,
                             T dt) noexcept {

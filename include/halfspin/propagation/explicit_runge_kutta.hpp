@@ -1,47 +1,49 @@
 #pragma once
-// One generic explicit Runge–Kutta stepper on the quaternion kinematics q̇ = ½ q ⊗ (0, ω(t)),
-// driven by any ButcherTableau, and its named configurations (RK2 midpoint, RK3 Kutta, RK4
-// classic, each with three input forms).
-//
-// The state is the four quaternion components; the update is q₊ = q + dt Σ b_i k_i with
-// k_i = ½ q_i ⊗ (0, ω(t + c_i dt)), q_i = q + dt Σ_{j<i} a_ij k_j. The stages are linear in q, so
-// k_i = q ⊗ m_i with m_i computed from q = 1, and the step is q₊ = q ⊗ P, P = 1 + dt Σ b_i m_i:
-// the stepper returns the increment δ = P − 1 = dt Σ b_i m_i (stepper_traits.hpp), formed from
-// the stage increments D_i = dt Σ_j a_ij m_j as m_i = ½(0, ω_i) + ½ D_i ⊗ (0, ω_i), so nothing
-// is ever added to 1 inside the step and δ is accurate relative to its own size. Nothing
-// renormalizes inside the step: the norm drifts (for RK4 at constant rate by a factor √(1 − θ⁶/4608
-// + θ⁸/147456) per step, θ = |ω| dt; see test_runge_kutta.cpp), and renormalization is the
-// propagator's policy.
-//
-// Where the stage rates come from decides the order reached (Butcher's order conditions assume
-// exact stage values of ω):
-//   rates_spanning, window W: W rate samples equally spaced over the step. A stage whose node
-//     c·(W−1) is an integer reads a sample; any other stage interpolates linearly between the two
-//     neighbouring samples. The interpolation error is O(dt²) in ω, hence O(dt³) in the rotation
-//     per step, so the global order is min(order of the tableau, 2) unless every node is on the
-//     sample grid. RK2/RK3/RK4 (nodes 0, 1/2, 1) with W = 3: full order 2/3/4, the step spans two
-//     sample periods. With W = 2 (one new sample per step): RK2 keeps order 2, RK3 and RK4 reach
-//     only order 2.
-//   rate_function: a callable rate_at(τ) → Vector3<T> (rad/s), τ ∈ [0, dt] from step start, that
-//     must not throw; full order of the tableau. The only form for tableaus whose nodes fall
-//     between samples (Bogacki–Shampine, Dormand–Prince).
-//
-// Attitude versus state: `order` is the classical order, which bounds the whole quaternion state
-// (attitude and norm). Kutta's RK3 does better on the attitude alone: its O(dt⁴) local error is,
-// to leading order, a real multiple of q (a norm change, as at constant rate where the missing
-// series term (A dt)⁴/24 is a scalar), so its attitude angle converges at order 4 while its norm
-// error converges at 3. Measured on coning, a single-axis oscillation and a generic two-gimbal
-// motion (tests); not a property of third-order methods in general (Bogacki–Shampine shows 3).
-//
-// Cost, counted from the code below (+ − × ÷ one flop each; sign flips free; the rate function's
-// own cost not counted): dt/2 1; per stage with a nonzero stage increment the slope
-// (0, ω_i) + D_i ⊗ (0, ω_i) 23 (the first stage's slope is (0, ω_1): free); per nonzero a_ij and
-// per nonzero b_i 5 (coefficient × dt/2, 4 ×) plus 4 to add it to the sum it joins (the first
-// term of a sum starts it); interpolated stage rates 9 per distinct off-grid node;
-// rate_function 1 × per distinct node strictly inside (0, 1); the plain application of δ 32.
-// The `flops` member computes the totals from the tableau. Memory: S stage slopes (quaternions)
-// and S stage rates (vectors) on the stack, for RK4 224 bytes in double and 112 in float;
-// nothing between steps.
+/// @file
+/// One generic explicit Runge–Kutta stepper on the quaternion kinematics q̇ = ½ q ⊗ (0, ω(t)),
+/// driven by any ButcherTableau, and its named configurations (RK2 midpoint, RK3 Kutta, RK4
+/// classic, each with three input forms).
+///
+/// The state is the four quaternion components; the update is q₊ = q + dt Σ b_i k_i with
+/// k_i = ½ q_i ⊗ (0, ω(t + c_i dt)), q_i = q + dt Σ_{j<i} a_ij k_j. The stages are linear in q, so
+/// k_i = q ⊗ m_i with m_i computed from q = 1, and the step is q₊ = q ⊗ P, P = 1 + dt Σ b_i m_i:
+/// the stepper returns the increment δ = P − 1 = dt Σ b_i m_i (stepper_traits.hpp), formed from
+/// the stage increments D_i = dt Σ_j a_ij m_j as m_i = ½(0, ω_i) + ½ D_i ⊗ (0, ω_i), so nothing
+/// is ever added to 1 inside the step and δ is accurate relative to its own size. Nothing
+/// renormalizes inside the step: the norm drifts (for RK4 at constant rate by a factor √(1 −
+/// θ⁶/4608
+/// + θ⁸/147456) per step, θ = |ω| dt; see test_runge_kutta.cpp), and renormalization is the
+/// propagator's policy.
+///
+/// Where the stage rates come from decides the order reached (Butcher's order conditions assume
+/// exact stage values of ω):
+///   rates_spanning, window W: W rate samples equally spaced over the step. A stage whose node
+///     c·(W−1) is an integer reads a sample; any other stage interpolates linearly between the two
+///     neighbouring samples. The interpolation error is O(dt²) in ω, hence O(dt³) in the rotation
+///     per step, so the global order is min(order of the tableau, 2) unless every node is on the
+///     sample grid. RK2/RK3/RK4 (nodes 0, 1/2, 1) with W = 3: full order 2/3/4, the step spans two
+///     sample periods. With W = 2 (one new sample per step): RK2 keeps order 2, RK3 and RK4 reach
+///     only order 2.
+///   rate_function: a callable rate_at(τ) → Vector3<T> (rad/s), τ ∈ [0, dt] from step start, that
+///     must not throw; full order of the tableau. The only form for tableaus whose nodes fall
+///     between samples (Bogacki–Shampine, Dormand–Prince).
+///
+/// Attitude versus state: `order` is the classical order, which bounds the whole quaternion state
+/// (attitude and norm). Kutta's RK3 does better on the attitude alone: its O(dt⁴) local error is,
+/// to leading order, a real multiple of q (a norm change, as at constant rate where the missing
+/// series term (A dt)⁴/24 is a scalar), so its attitude angle converges at order 4 while its norm
+/// error converges at 3. Measured on coning, a single-axis oscillation and a generic two-gimbal
+/// motion (tests); not a property of third-order methods in general (Bogacki–Shampine shows 3).
+///
+/// Cost, counted from the code below (+ − × ÷ one flop each; sign flips free; the rate function's
+/// own cost not counted): dt/2 1; per stage with a nonzero stage increment the slope
+/// (0, ω_i) + D_i ⊗ (0, ω_i) 23 (the first stage's slope is (0, ω_1): free); per nonzero a_ij and
+/// per nonzero b_i 5 (coefficient × dt/2, 4 ×) plus 4 to add it to the sum it joins (the first
+/// term of a sum starts it); interpolated stage rates 9 per distinct off-grid node;
+/// rate_function 1 × per distinct node strictly inside (0, 1); the plain application of δ 32.
+/// The `flops` member computes the totals from the tableau. Memory: S stage slopes (quaternions)
+/// and S stage rates (vectors) on the stack, for RK4 224 bytes in double and 112 in float;
+/// nothing between steps.
 
 #include <array>
 #include <cstddef>
@@ -283,9 +285,9 @@ constexpr int quaternion_runge_kutta_flops(const ButcherTableau<S>& t) noexcept 
 
 }  // namespace detail
 
-// The generic explicit Runge–Kutta stepper on q̇ = ½ q ⊗ (0, ω). Layout is rates_spanning (Window
-// samples, [0] at step start) or rate_function (Window = 0). q is body → reference, ω in rad/s,
-// dt in s; the result is not renormalized.
+/// The generic explicit Runge–Kutta stepper on q̇ = ½ q ⊗ (0, ω). Layout is rates_spanning (Window
+/// samples, [0] at step start) or rate_function (Window = 0). q is body → reference, ω in rad/s,
+/// dt in s; the result is not renormalized.
 template <class Tableau, SampleLayout Layout, std::size_t Window>
 struct ExplicitRungeKutta {
   static_assert(Layout == SampleLayout::rates_spanning || Layout == SampleLayout::rate_function,
@@ -295,27 +297,31 @@ struct ExplicitRungeKutta {
   static_assert(Layout != SampleLayout::rate_function || Window == 0,
                 "a rate function replaces the sample window");
 
-  using tableau = Tableau;  // the coefficients, for the bounds layer (stage growth, weights)
-  using family = ExplicitRungeKutta<Tableau, Layout, Window>;  // the bounds layer dispatches on it
-  static constexpr SampleLayout layout = Layout;
-  static constexpr std::size_t window = Window;
+  using tableau = Tableau;  ///< the coefficients, for the bounds layer (stage growth, weights)
+  using family =
+      ExplicitRungeKutta<Tableau, Layout, Window>;  ///< the bounds layer dispatches on it
+  static constexpr SampleLayout layout = Layout;    ///< what the input holds
+  static constexpr std::size_t window = Window;     ///< samples the step reads
+  /// Samples that arrive per step.
   static constexpr std::size_t new_samples = Window == 0 ? 0 : Window - 1;
-  static constexpr std::size_t stages = Tableau::value.stages;
+  static constexpr std::size_t stages = Tableau::value.stages;  ///< stages of the tableau
+  /// Whether every stage reads an exact rate: a rate function, or every node on the sample grid.
   static constexpr bool exact_stage_rates =
       Layout == SampleLayout::rate_function || detail::all_nodes_on_grid(Tableau::value, Window);
-  // Order of the quaternion state (attitude and norm). Interpolated stage rates cap it at 2 (see
-  // the header comment).
+  /// Order of the quaternion state (attitude and norm). Interpolated stage rates cap it at 2 (see
+  /// the header comment).
   static constexpr int state_order = exact_stage_rates
                                          ? Tableau::value.order
                                          : (Tableau::value.order < 2 ? Tableau::value.order : 2);
-  // Order of the attitude (the angle error once the norm is restored): the tableau's attitude
-  // order with exact stage rates, else the state order.
+  /// Order of the attitude (the angle error once the norm is restored): the tableau's attitude
+  /// order with exact stage rates, else the state order.
   static constexpr int order = exact_stage_rates ? Tableau::value.attitude_order : state_order;
-  static constexpr bool has_estimate = false;
+  static constexpr bool has_estimate = false;  ///< whether the increment carries an error estimate
+  /// Floating-point operations per step: the increment and its plain application.
   static constexpr int flops = detail::quaternion_runge_kutta_flops(Tableau::value) +
                                detail::stage_rate_flops(Tableau::value, Layout, Window);
 
-  // δ = P − 1 from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
+  /// δ = P − 1 from rate samples: rate[0] at step start … rate[Window−1] at its end (rad/s).
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
   static constexpr Increment<T> increment(const std::array<Vector3<T>, Window>& rate,
@@ -323,7 +329,7 @@ struct ExplicitRungeKutta {
     return {increment_from_stage_rates(detail::stage_rates_from_samples<Tableau, Window>(rate), dt),
             T(0)};
   }
-  // δ = P − 1 from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
+  /// δ = P − 1 from a rate function rate_at(τ) (rad/s), τ ∈ [0, dt] seconds from step start.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
   static Increment<T> increment(const RateFunction& rate_at, T dt) noexcept {
@@ -331,21 +337,21 @@ struct ExplicitRungeKutta {
             T(0)};
   }
 
-  // q + q ⊗ δ from rate samples (the plain application; q body → reference).
+  /// q + q ⊗ δ from rate samples (the plain application; q body → reference).
   template <class T, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rates_spanning, int> = 0>
   static constexpr Quaternion<T> step(const Quaternion<T>& q,
                                       const std::array<Vector3<T>, Window>& rate, T dt) noexcept {
     return apply_increment(q, increment(rate, dt).delta);
   }
-  // The same from a rate function.
+  /// The same from a rate function.
   template <class T, class RateFunction, SampleLayout L = Layout,
             std::enable_if_t<L == SampleLayout::rate_function, int> = 0>
   static Quaternion<T> step(const Quaternion<T>& q, const RateFunction& rate_at, T dt) noexcept {
     return apply_increment(q, increment(rate_at, dt).delta);
   }
 
-  // δ = (dt/2) Σ b_i k̃_i from the rates at the stage times (rad/s, one per stage).
+  /// δ = (dt/2) Σ b_i k̃_i from the rates at the stage times (rad/s, one per stage).
   template <class T>
   static constexpr Quaternion<T> increment_from_stage_rates(
       const std::array<Vector3<T>, stages>& stage_rate, T dt) noexcept {
@@ -361,74 +367,92 @@ struct ExplicitRungeKutta {
 // periods, every node on the grid. "Interpolated": two samples (start, end), one sample period per
 // step, mid-step rates by linear interpolation. "RateFunction": a callable gives ω at any τ.
 
-// RK2 midpoint, samples at start/middle/end (only the middle one read): order 2.
+/// RK2 midpoint, samples at start/middle/end (only the middle one read): order 2.
 struct RungeKutta2MidpointSampled
     : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 3> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_2_midpoint_sampled";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "classic RK2 (midpoint) on the quaternion, stages at samples; 2 rates/step, order 2";
 };
-// RK2 midpoint, mid-step rate = mean of the end samples: order 2.
+/// RK2 midpoint, mid-step rate = mean of the end samples: order 2.
 struct RungeKutta2MidpointInterpolated
     : ExplicitRungeKutta<MidpointTableau, SampleLayout::rates_spanning, 2> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_2_midpoint_interpolated";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "RK2 (midpoint), mid-step rate interpolated linearly; 1 rate/step, order 2";
 };
-// RK2 midpoint, rate function: order 2.
+/// RK2 midpoint, rate function: order 2.
 struct RungeKutta2MidpointRateFunction
     : ExplicitRungeKutta<MidpointTableau, SampleLayout::rate_function, 0> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_2_midpoint_rate_function";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "RK2 (midpoint) on a rate function (truth motions only); order 2";
 };
 
-// RK3 Kutta, samples at start/middle/end: the quaternion state is third order, the attitude
-// fourth. Kutta's weights (1/6, 4/6, 1/6 at 0, ½, 1) are Simpson's rule, exact for the
-// quadrature part to dt⁴, and the remaining dt⁴ term of the local error is radial (it changes
-// ‖q‖, not the rotation) for q̇ = ½ q ⊗ (0, ω): for constant ω the step (1 − θ²/8, (θ/2 − θ³/48)n)
-// has rotation angle θ + O(θ⁵). Measured: attitude order 4.0 on classical coning, the
-// axisymmetric body and the two-gimbal motion, state order 3.0 (test_lie_group, test_orders).
-// With a renormalization policy the attitude error is what remains.
+/// RK3 Kutta, samples at start/middle/end: the quaternion state is third order, the attitude
+/// fourth. Kutta's weights (1/6, 4/6, 1/6 at 0, ½, 1) are Simpson's rule, exact for the
+/// quadrature part to dt⁴, and the remaining dt⁴ term of the local error is radial (it changes
+/// ‖q‖, not the rotation) for q̇ = ½ q ⊗ (0, ω): for constant ω the step (1 − θ²/8, (θ/2 − θ³/48)n)
+/// has rotation angle θ + O(θ⁵). Measured: attitude order 4.0 on classical coning, the
+/// axisymmetric body and the two-gimbal motion, state order 3.0 (test_lie_group, test_orders).
+/// With a renormalization policy the attitude error is what remains.
 struct RungeKutta3KuttaSampled
     : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 3> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_3_kutta_sampled";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "Kutta's RK3, stages at samples; 2 rates/step, attitude order 4";
 };
-// RK3 Kutta, linear interpolation between two samples: ONLY order 2.
+/// RK3 Kutta, linear interpolation between two samples: ONLY order 2.
 struct RungeKutta3KuttaInterpolated
     : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rates_spanning, 2> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_3_kutta_interpolated";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "Kutta's RK3, stage rates interpolated linearly; 1 rate/step, order 2";
 };
-// RK3 Kutta, rate function: state order 3, attitude order 4 (see RungeKutta3KuttaSampled).
+/// RK3 Kutta, rate function: state order 3, attitude order 4 (see RungeKutta3KuttaSampled).
 struct RungeKutta3KuttaRateFunction
     : ExplicitRungeKutta<Kutta3Tableau, SampleLayout::rate_function, 0> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_3_kutta_rate_function";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "Kutta's RK3 on a rate function (truth motions only); attitude order 4";
 };
 
-// Classic RK4, samples at start/middle/end (the step spans two sample periods): order 4.
+/// Classic RK4, samples at start/middle/end (the step spans two sample periods): order 4.
 struct RungeKutta4Sampled
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 3> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_4_sampled";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "classic RK4, stages at samples; 2 rates/step, order 4";
 };
-// Classic RK4, linear interpolation between two samples: ONLY order 2.
+/// Classic RK4, linear interpolation between two samples: ONLY order 2.
 struct RungeKutta4Interpolated
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rates_spanning, 2> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_4_interpolated";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "classic RK4, stage rates interpolated linearly; 1 rate/step, order 2";
 };
-// Classic RK4, rate function: order 4.
+/// Classic RK4, rate function: order 4.
 struct RungeKutta4RateFunction
     : ExplicitRungeKutta<ClassicRungeKutta4Tableau, SampleLayout::rate_function, 0> {
+  /// The stepper's one name (snake_case of its type).
   static constexpr const char* name = "runge_kutta_4_rate_function";
+  /// One line: what it does, what it takes.
   static constexpr const char* description =
       "classic RK4 on a rate function (truth motions only); order 4";
 };

@@ -1,71 +1,72 @@
 #pragma once
-// Gyro calibration stage: what the propagator applies to each raw sample before its stepper sees
-// it, as a policy (the Propagator's fifth template parameter, propagator.hpp).
-//
-// Convention. A rate sample (rad/s) is calibrated as
-//     ω_cal = M·(ω_raw − b(T)),
-// a delta-angle sample (rad over its interval dt, s) as
-//     Δθ_cal = M·(Δθ_raw − b(T)·dt),
-// with the bias b(T) = b0 + b1·(T − T0) (rad/s; b1 in rad/s per °C; temperatures T, T0 in °C) and
-// M the 3×3 scale-factor-and-misalignment matrix (dimensionless, row-major, raw sensor axes in,
-// body axes out; a mounting rotation may be folded into it). Order of operations, which the
-// bit-exact replay relies on: b(T) = b0 + (T − T0)·b1 componentwise, rounded once per operation;
-// then the subtraction (b·dt rounded first for delta-angles); then each row of M as
-// (m0·v0 + m1·v1) + m2·v2.
-//
-// Temperature. The stage starts at T = T0 (b = b0). set_temperature(T) computes b(T) once, so the
-// per-sample cost is M·(ω − b) alone. A temperature that is not finite is rejected as non_finite,
-// one outside the calibrated range [min_temperature, max_temperature] as over_range, and one whose
-// b(T) is not finite as non_finite; a rejected temperature changes nothing (the stage keeps the
-// bias of the last accepted temperature) and is counted in rejected_temperatures(). Why reject
-// rather than extrapolate: a linear fit is only known to hold where it was measured; for a
-// temperature drifting slowly out of the range and read often, the bias kept is that of the range
-// edge, and a user who trusts the fit further widens the range. The default range is all of T.
-//
-// Validation at construction, in this order (the first failed rule is check()):
-//  1. non_finite_parameter: every entry of M, b0, b1, T0 and the range is finite;
-//  2. bad_temperature_range: min_temperature ≤ T0 ≤ max_temperature;
-//  3. not_positive_determinant: det M > 0. Zero is a singular matrix (two sensor axes measuring
-//     the same direction); a negative determinant is a reflection, which would mirror every
-//     rotation (a right-handed turn integrated as a left-handed one). A singular M whose computed
-//     det rounds to a tiny positive number fails rule 4 instead (its κ∞ is of order 1/u);
-//  4. ill_conditioned: κ∞(M) = ‖M‖∞·‖M⁻¹‖∞ ≤ max_condition_number = 4 (‖·‖∞ the largest row sum
-//     of absolute values). Why 4: κ∞ is scale-invariant, and for M = c·(I + E) with ‖E‖∞ = e < 1,
-//     κ∞ ≤ (1 + e)/(1 − e) (‖(I + E)⁻¹‖∞ ≤ 1/(1 − e), Neumann series; common practice, no source):
-//     a few per cent of scale-factor error and misalignment (e ≤ 0.05) give at most 1.11. A
-//     rotation R has κ∞(R) = ‖R‖∞·‖Rᵀ‖∞ ≤ √3·√3 = 3 (its rows and columns are unit vectors, whose
-//     1-norm is at most √3), so a mounting rotation folded into a real calibration stays below
-//     3·1.11 = 3.3. What fails is a mistake: a unit slip on one axis (degrees for radians gives
-//     κ∞ ≈ 57), a row typed twice, a fit that nearly lost an axis.
-//     κ∞ is computed from M divided by its largest |entry| (entries in [−1, 1], so nothing
-//     overflows), as ‖M‖∞·‖adj M‖∞/det M in T; its relative rounding error is a few ulps times
-//     κ∞, far below the distance of real matrices (≈ 1.1) from the limit.
-// A stage that fails a rule cannot be used silently: it keeps check() (and valid() false), and
-// its M and biases are NaN, so every sample it calibrates is non-finite: a propagator holding it
-// rejects every sample as non_finite (counted, attitude bit-identical) and every temperature as
-// non_finite. Read check() (calibration_check_name gives a stable name for logs) before flight.
-//
-// Per sample (propagator.hpp): the raw sample is validated as without a stage (finite, interval,
-// range against the gyro's full scale, which is a property of the raw reading), then calibrated;
-// a calibrated sample that is not finite (overflow of M·(ω − b) near T's range, or an invalid
-// stage) is rejected as non_finite with the state bit-identical, and counted.
-//
-// Rounding: each calibrated component is within γ₇·Σ_j |m_ij|·(|r_j| + B_j) of the exact
-// M·(r − b(T)) for a raw rate r, B = |b0| + |T − T0|·|b1| (γ₈ and |r_j| + B_j·dt for
-// delta-angles), γ_n = n·u/(1 − n·u), u = ε/2, the rounding of b(T) included (derivation:
-// tests/propagation/test_gyro_calibration.cpp, stage_bound).
-//
-// Cost per sample: 3 subtractions, 9 multiplies, 6 additions (3 more multiplies for b·dt with
-// delta-angles), and the finiteness check of the result; on the Cortex-M4F about 42–47 cycles
-// (an estimate: 12 loads of M and b, the 18 operations, the check) and 28–220 B of code, measured
-// in README.md (the footprint table's note, images `<stepper>+calibrated`) and bench/README.md.
-// Without a stage (NoCalibration, the default) the propagator compiles to the code it had before
-// the stage existed.
-//
-// A stage of your own: a type with `static constexpr bool identity = false`, and
-// `Vector3<T> rate(const Vector3<T>&) const noexcept` and
-// `Vector3<T> delta_angle(const Vector3<T>&, T dt) const noexcept` (plus set_temperature(T) if the
-// propagator's set_temperature is to be called).
+/// @file
+/// Gyro calibration stage: what the propagator applies to each raw sample before its stepper sees
+/// it, as a policy (the Propagator's fifth template parameter, propagator.hpp).
+///
+/// Convention. A rate sample (rad/s) is calibrated as
+///     ω_cal = M·(ω_raw − b(T)),
+/// a delta-angle sample (rad over its interval dt, s) as
+///     Δθ_cal = M·(Δθ_raw − b(T)·dt),
+/// with the bias b(T) = b0 + b1·(T − T0) (rad/s; b1 in rad/s per °C; temperatures T, T0 in °C) and
+/// M the 3×3 scale-factor-and-misalignment matrix (dimensionless, row-major, raw sensor axes in,
+/// body axes out; a mounting rotation may be folded into it). Order of operations, which the
+/// bit-exact replay relies on: b(T) = b0 + (T − T0)·b1 componentwise, rounded once per operation;
+/// then the subtraction (b·dt rounded first for delta-angles); then each row of M as
+/// (m0·v0 + m1·v1) + m2·v2.
+///
+/// Temperature. The stage starts at T = T0 (b = b0). set_temperature(T) computes b(T) once, so the
+/// per-sample cost is M·(ω − b) alone. A temperature that is not finite is rejected as non_finite,
+/// one outside the calibrated range [min_temperature, max_temperature] as over_range, and one whose
+/// b(T) is not finite as non_finite; a rejected temperature changes nothing (the stage keeps the
+/// bias of the last accepted temperature) and is counted in rejected_temperatures(). Why reject
+/// rather than extrapolate: a linear fit is only known to hold where it was measured; for a
+/// temperature drifting slowly out of the range and read often, the bias kept is that of the range
+/// edge, and a user who trusts the fit further widens the range. The default range is all of T.
+///
+/// Validation at construction, in this order (the first failed rule is check()):
+///  1. non_finite_parameter: every entry of M, b0, b1, T0 and the range is finite;
+///  2. bad_temperature_range: min_temperature ≤ T0 ≤ max_temperature;
+///  3. not_positive_determinant: det M > 0. Zero is a singular matrix (two sensor axes measuring
+///     the same direction); a negative determinant is a reflection, which would mirror every
+///     rotation (a right-handed turn integrated as a left-handed one). A singular M whose computed
+///     det rounds to a tiny positive number fails rule 4 instead (its κ∞ is of order 1/u);
+///  4. ill_conditioned: κ∞(M) = ‖M‖∞·‖M⁻¹‖∞ ≤ max_condition_number = 4 (‖·‖∞ the largest row sum
+///     of absolute values). Why 4: κ∞ is scale-invariant, and for M = c·(I + E) with ‖E‖∞ = e < 1,
+///     κ∞ ≤ (1 + e)/(1 − e) (‖(I + E)⁻¹‖∞ ≤ 1/(1 − e), Neumann series; common practice, no source):
+///     a few per cent of scale-factor error and misalignment (e ≤ 0.05) give at most 1.11. A
+///     rotation R has κ∞(R) = ‖R‖∞·‖Rᵀ‖∞ ≤ √3·√3 = 3 (its rows and columns are unit vectors, whose
+///     1-norm is at most √3), so a mounting rotation folded into a real calibration stays below
+///     3·1.11 = 3.3. What fails is a mistake: a unit slip on one axis (degrees for radians gives
+///     κ∞ ≈ 57), a row typed twice, a fit that nearly lost an axis.
+///     κ∞ is computed from M divided by its largest |entry| (entries in [−1, 1], so nothing
+///     overflows), as ‖M‖∞·‖adj M‖∞/det M in T; its relative rounding error is a few ulps times
+///     κ∞, far below the distance of real matrices (≈ 1.1) from the limit.
+/// A stage that fails a rule cannot be used silently: it keeps check() (and valid() false), and
+/// its M and biases are NaN, so every sample it calibrates is non-finite: a propagator holding it
+/// rejects every sample as non_finite (counted, attitude bit-identical) and every temperature as
+/// non_finite. Read check() (calibration_check_name gives a stable name for logs) before flight.
+///
+/// Per sample (propagator.hpp): the raw sample is validated as without a stage (finite, interval,
+/// range against the gyro's full scale, which is a property of the raw reading), then calibrated;
+/// a calibrated sample that is not finite (overflow of M·(ω − b) near T's range, or an invalid
+/// stage) is rejected as non_finite with the state bit-identical, and counted.
+///
+/// Rounding: each calibrated component is within γ₇·Σ_j |m_ij|·(|r_j| + B_j) of the exact
+/// M·(r − b(T)) for a raw rate r, B = |b0| + |T − T0|·|b1| (γ₈ and |r_j| + B_j·dt for
+/// delta-angles), γ_n = n·u/(1 − n·u), u = ε/2, the rounding of b(T) included (derivation:
+/// tests/propagation/test_gyro_calibration.cpp, stage_bound).
+///
+/// Cost per sample: 3 subtractions, 9 multiplies, 6 additions (3 more multiplies for b·dt with
+/// delta-angles), and the finiteness check of the result; on the Cortex-M4F about 42–47 cycles
+/// (an estimate: 12 loads of M and b, the 18 operations, the check) and 28–220 B of code, measured
+/// in README.md (the footprint table's note, images `<stepper>+calibrated`) and bench/README.md.
+/// Without a stage (NoCalibration, the default) the propagator compiles to the code it had before
+/// the stage existed.
+///
+/// A stage of your own: a type with `static constexpr bool identity = false`, and
+/// `Vector3<T> rate(const Vector3<T>&) const noexcept` and
+/// `Vector3<T> delta_angle(const Vector3<T>&, T dt) const noexcept` (plus set_temperature(T) if the
+/// propagator's set_temperature is to be called).
 
 #include <cmath>
 #include <cstddef>
@@ -78,22 +79,22 @@
 
 namespace halfspin {
 
-// The default stage: none. Empty, so the propagator holds it at no cost (empty-base optimization);
-// `identity` makes the propagator skip the stage at compile time.
+/// The default stage: none. Empty, so the propagator holds it at no cost (empty-base optimization);
+/// `identity` makes the propagator skip the stage at compile time.
 struct NoCalibration {
-  static constexpr bool identity = true;
+  static constexpr bool identity = true;  ///< true: the propagator skips the stage
 };
 
-// The result of a stage's validation: valid, or the first rule it failed (see the header comment).
+/// The result of a stage's validation: valid, or the first rule it failed (see the header comment).
 enum class CalibrationCheck : std::uint8_t {
   valid,
-  non_finite_parameter,      // NaN or infinity in M, b0, b1, T0 or the temperature range
-  bad_temperature_range,     // min_temperature > T0, or T0 > max_temperature
-  not_positive_determinant,  // det M ≤ 0: singular, or a reflection
-  ill_conditioned            // κ∞(M) above GyroCalibration<T>::max_condition_number
+  non_finite_parameter,      ///< NaN or infinity in M, b0, b1, T0 or the temperature range
+  bad_temperature_range,     ///< min_temperature > T0, or T0 > max_temperature
+  not_positive_determinant,  ///< det M ≤ 0: singular, or a reflection
+  ill_conditioned            ///< κ∞(M) above GyroCalibration<T>::max_condition_number
 };
 
-// A short, stable name for logs and telemetry ("valid", "ill_conditioned", ...).
+/// A short, stable name for logs and telemetry ("valid", "ill_conditioned", ...).
 constexpr const char* calibration_check_name(CalibrationCheck c) noexcept {
   switch (c) {
     case CalibrationCheck::valid:
@@ -110,15 +111,15 @@ constexpr const char* calibration_check_name(CalibrationCheck c) noexcept {
   return "unknown";
 }
 
-// What a gyro calibration measured. Defaults: no correction (M = I, b = 0), any temperature.
+/// What a gyro calibration measured. Defaults: no correction (M = I, b = 0), any temperature.
 template <class T>
 struct GyroCalibrationParameters {
-  Matrix3<T> scale_misalignment = Matrix3<T>::identity();  // M, dimensionless
-  Vector3<T> bias{};                                       // b0 (rad/s) at reference_temperature
-  Vector3<T> bias_slope{};                                 // b1 (rad/s per °C)
-  T reference_temperature = T(0);                          // T0 (°C)
-  T min_temperature = std::numeric_limits<T>::lowest();    // calibrated range (°C)
-  T max_temperature = std::numeric_limits<T>::max();
+  Matrix3<T> scale_misalignment = Matrix3<T>::identity();  ///< M, dimensionless
+  Vector3<T> bias{};                                       ///< b0 (rad/s) at reference_temperature
+  Vector3<T> bias_slope{};                                 ///< b1 (rad/s per °C)
+  T reference_temperature = T(0);                          ///< T0 (°C)
+  T min_temperature = std::numeric_limits<T>::lowest();    ///< calibrated range (°C)
+  T max_temperature = std::numeric_limits<T>::max();       ///< calibrated range (°C), upper end
 };
 
 namespace detail {
@@ -197,16 +198,16 @@ CalibrationCheck check_parameters(const GyroCalibrationParameters<T>& p, T max_c
 
 }  // namespace detail
 
-// The calibration stage: validated parameters and the bias at the current temperature.
+/// The calibration stage: validated parameters and the bias at the current temperature.
 template <class T>
 class GyroCalibration {
  public:
-  using scalar = T;
-  static constexpr bool identity = false;
-  // The largest κ∞(M) accepted (see the header comment for why 4).
+  using scalar = T;                        ///< the scalar type
+  static constexpr bool identity = false;  ///< false: the propagator runs the stage
+  /// The largest κ∞(M) accepted (see the header comment for why 4).
   static constexpr T max_condition_number = T(4);
 
-  // Validates p (check() tells the outcome) and starts at T = T0.
+  /// Validates p (check() tells the outcome) and starts at T = T0.
   explicit GyroCalibration(const GyroCalibrationParameters<T>& p) noexcept
       : matrix_(p.scale_misalignment),
         bias_(p.bias),
@@ -229,12 +230,13 @@ class GyroCalibration {
     }
   }
 
-  // valid, or the first validation rule the parameters failed.
+  /// valid, or the first validation rule the parameters failed.
   [[nodiscard]] constexpr CalibrationCheck check() const noexcept { return check_; }
+  /// Whether check() is valid.
   [[nodiscard]] constexpr bool valid() const noexcept { return check_ == CalibrationCheck::valid; }
 
-  // Sets the sensor temperature (°C) and computes b(T) for the samples that follow. Returns ok,
-  // or non_finite / over_range with nothing changed (see the header comment).
+  /// Sets the sensor temperature (°C) and computes b(T) for the samples that follow. Returns ok,
+  /// or non_finite / over_range with nothing changed (see the header comment).
   Status set_temperature(T celsius) noexcept {
     if (!std::isfinite(celsius)) {
       ++rejected_temperatures_;
@@ -254,24 +256,25 @@ class GyroCalibration {
     return Status::ok;
   }
 
-  // ω_cal = M·(ω_raw − b), rad/s.
+  /// ω_cal = M·(ω_raw − b), rad/s.
   constexpr Vector3<T> rate(const Vector3<T>& raw) const noexcept {
     return matrix_ * (raw - bias_);
   }
-  // Δθ_cal = M·(Δθ_raw − b·dt), rad over the sample interval dt (s).
+  /// Δθ_cal = M·(Δθ_raw − b·dt), rad over the sample interval dt (s).
   constexpr Vector3<T> delta_angle(const Vector3<T>& raw, T dt) const noexcept {
     return matrix_ * (raw - bias_ * dt);
   }
 
-  // The bias in use, b(T) (rad/s), and the temperature it was computed for (°C).
+  /// The bias in use, b(T) (rad/s), and the temperature it was computed for (°C).
   constexpr const Vector3<T>& bias() const noexcept { return bias_; }
+  /// The temperature the bias in use was computed for (°C).
   constexpr T temperature() const noexcept { return temperature_; }
-  // The parameters as given (NaN-poisoned M and biases if invalid).
+  /// The parameters as given (NaN-poisoned M and biases if invalid).
   constexpr GyroCalibrationParameters<T> parameters() const noexcept {
     return {matrix_,          bias0_,          bias_slope_, reference_temperature_,
             min_temperature_, max_temperature_};
   }
-  // Temperatures rejected by set_temperature.
+  /// Temperatures rejected by set_temperature.
   constexpr std::uint64_t rejected_temperatures() const noexcept { return rejected_temperatures_; }
 
  private:

@@ -1,45 +1,46 @@
 #pragma once
-// The propagator: owns the attitude and the fixed-size sample history its stepper needs,
-// validates every input, runs the stepper, applies the increment it returns through the
-// accumulation policy (compensated in float, plain in double by default: DefaultAccumulation
-// below), runs the
-// renormalization policy, and keeps counters and the last per-step error estimate. The stepper
-// computes one increment; the propagator decides when and with what input.
-//
-// Bad input never touches the state: a sample with NaN/Inf, a non-positive or oversized interval,
-// or a rate beyond the gyro range is rejected with its status code, the attitude and the history
-// stay bit-for-bit as they were, and the rejection is counted. A step whose result is not finite
-// (a rate function that returned NaN), whose error estimate is not finite, or whose renormalized
-// result is not finite or has a squared norm of zero or beyond T's range, is rejected the same
-// way, as non_finite.
-//
-// The usual sample takes a short path with the same result: one pass of comparisons accepts it
-// (gyro_input.hpp: accepts_rate / accepts_delta_angle; anything it refuses is classified by the
-// full validation), and with the default first-order renormalization a step whose fl(‖q‖²) is
-// within 2⁻¹² (float) or 2⁻²⁷ (double) of 1 is renormalized by the Newton step alone, with ‖q‖²
-// the only norm computed (renormalization.hpp: the near-unit form); a step farther from unit norm
-// whose ‖q‖² is still a normal number is renormalized by the policy's own form without further
-// checks (its result is provably usable); every other step takes the general path, which checks
-// and renormalizes as described above. The rare paths are out of line.
-// Both paths keep the same bits (tests/propagation/test_fast_paths.cpp).
-//
-// Gap policy: an interval above limits.max_step is rejected as step_too_long (samples were
-// missed; the rotation during the gap is lost and the attitude must be re-anchored by whatever
-// aiding the vehicle has). The first sample accepted after it restarts the history: samples that
-// were waiting in a partly filled window are discarded and counted in `discarded_samples`, so no
-// step ever spans the gap.
-//
-// Time: `push(sample, dt)` takes the sample interval in seconds; `push(sample, Ticks{n})` takes
-// it as an integer count of timer ticks of `tick_period` seconds (a constructor argument: without
-// one, every tick push is rejected as no_tick_period), and elapsed time is then kept exactly as a
-// 64-bit tick count. Elapsed seconds are a compensated (Kahan) sum, so float keeps
-// ulp-level resolution over a flight instead of losing it within the hour.
-//
-// Calibration: the fifth template parameter is the calibration stage applied to every sample
-// after its validation (gyro_calibration.hpp: ω_cal = M·(ω_raw − b(T)), Δθ_cal = M·(Δθ − b·dt));
-// NoCalibration, the default, is empty and skipped at compile time, so a Propagator that names
-// none is the code it was before. CalibratedPropagator<T, Stepper> names a calibrated one;
-// set_temperature(°C) sets the bias's temperature.
+/// @file
+/// The propagator: owns the attitude and the fixed-size sample history its stepper needs,
+/// validates every input, runs the stepper, applies the increment it returns through the
+/// accumulation policy (compensated in float, plain in double by default: DefaultAccumulation
+/// below), runs the
+/// renormalization policy, and keeps counters and the last per-step error estimate. The stepper
+/// computes one increment; the propagator decides when and with what input.
+///
+/// Bad input never touches the state: a sample with NaN/Inf, a non-positive or oversized interval,
+/// or a rate beyond the gyro range is rejected with its status code, the attitude and the history
+/// stay bit-for-bit as they were, and the rejection is counted. A step whose result is not finite
+/// (a rate function that returned NaN), whose error estimate is not finite, or whose renormalized
+/// result is not finite or has a squared norm of zero or beyond T's range, is rejected the same
+/// way, as non_finite.
+///
+/// The usual sample takes a short path with the same result: one pass of comparisons accepts it
+/// (gyro_input.hpp: accepts_rate / accepts_delta_angle; anything it refuses is classified by the
+/// full validation), and with the default first-order renormalization a step whose fl(‖q‖²) is
+/// within 2⁻¹² (float) or 2⁻²⁷ (double) of 1 is renormalized by the Newton step alone, with ‖q‖²
+/// the only norm computed (renormalization.hpp: the near-unit form); a step farther from unit norm
+/// whose ‖q‖² is still a normal number is renormalized by the policy's own form without further
+/// checks (its result is provably usable); every other step takes the general path, which checks
+/// and renormalizes as described above. The rare paths are out of line.
+/// Both paths keep the same bits (tests/propagation/test_fast_paths.cpp).
+///
+/// Gap policy: an interval above limits.max_step is rejected as step_too_long (samples were
+/// missed; the rotation during the gap is lost and the attitude must be re-anchored by whatever
+/// aiding the vehicle has). The first sample accepted after it restarts the history: samples that
+/// were waiting in a partly filled window are discarded and counted in `discarded_samples`, so no
+/// step ever spans the gap.
+///
+/// Time: `push(sample, dt)` takes the sample interval in seconds; `push(sample, Ticks{n})` takes
+/// it as an integer count of timer ticks of `tick_period` seconds (a constructor argument: without
+/// one, every tick push is rejected as no_tick_period), and elapsed time is then kept exactly as a
+/// 64-bit tick count. Elapsed seconds are a compensated (Kahan) sum, so float keeps
+/// ulp-level resolution over a flight instead of losing it within the hour.
+///
+/// Calibration: the fifth template parameter is the calibration stage applied to every sample
+/// after its validation (gyro_calibration.hpp: ω_cal = M·(ω_raw − b(T)), Δθ_cal = M·(Δθ − b·dt));
+/// NoCalibration, the default, is empty and skipped at compile time, so a Propagator that names
+/// none is the code it was before. CalibratedPropagator<T, Stepper> names a calibrated one;
+/// set_temperature(°C) sets the bias's temperature.
 
 #include <array>
 #include <cmath>
@@ -59,35 +60,35 @@
 
 namespace halfspin {
 
-// A sample interval as an integer count of timer ticks.
+/// A sample interval as an integer count of timer ticks.
 struct Ticks {
-  std::uint32_t count;
+  std::uint32_t count;  ///< ticks in the interval
 };
 
-// What happened so far. Rejections by class; `steps` counts steps taken.
+/// What happened so far. Rejections by class; `steps` counts steps taken.
 struct PropagationCounters {
-  std::uint64_t samples_accepted = 0;
-  std::uint64_t steps = 0;
-  std::uint64_t rejected_non_finite = 0;
-  std::uint64_t rejected_non_positive_step = 0;
-  std::uint64_t rejected_step_too_long = 0;
-  std::uint64_t rejected_over_range = 0;
-  std::uint64_t rejected_no_tick_period = 0;  // push(…, Ticks) with no tick period set
-  std::uint64_t discarded_samples = 0;        // dropped from a partly filled window after a gap
+  std::uint64_t samples_accepted = 0;            ///< samples accepted into the history
+  std::uint64_t steps = 0;                       ///< steps taken
+  std::uint64_t rejected_non_finite = 0;         ///< rejected as Status::non_finite
+  std::uint64_t rejected_non_positive_step = 0;  ///< rejected as Status::non_positive_step
+  std::uint64_t rejected_step_too_long = 0;      ///< rejected as Status::step_too_long
+  std::uint64_t rejected_over_range = 0;         ///< rejected as Status::over_range
+  std::uint64_t rejected_no_tick_period = 0;     ///< push(…, Ticks) with no tick period set
+  std::uint64_t discarded_samples = 0;  ///< dropped from a partly filled window after a gap
 
-  // All rejected inputs.
+  /// All rejected inputs.
   constexpr std::uint64_t rejected() const noexcept {
     return rejected_non_finite + rejected_non_positive_step + rejected_step_too_long +
            rejected_over_range + rejected_no_tick_period;
   }
 };
 
-// The accumulation policy of a Propagator<T, …> that names none: compensated in float, plain in
-// double. In float the plain policy's rounding, not the method, decides the error over minutes
-// (the demo scenario: 3.9e-5 rad plain, 1.1e-6 compensated, 5.4e-7 in double; and its worst-case
-// bound, N·c·u, meets no ordinary budget), for 1.1–1.5× the host time and +78 Cortex-M4F cycles
-// per step; in double the plain rounding is 10⁻¹⁶ per step and the pair would cost for nothing.
-// Name PlainAccumulation to trade that accuracy for cycles.
+/// The accumulation policy of a Propagator<T, …> that names none: compensated in float, plain in
+/// double. In float the plain policy's rounding, not the method, decides the error over minutes
+/// (the demo scenario: 3.9e-5 rad plain, 1.1e-6 compensated, 5.4e-7 in double; and its worst-case
+/// bound, N·c·u, meets no ordinary budget), for 1.1–1.5× the host time and +78 Cortex-M4F cycles
+/// per step; in double the plain rounding is 10⁻¹⁶ per step and the pair would cost for nothing.
+/// Name PlainAccumulation to trade that accuracy for cycles.
 template <class T>
 using DefaultAccumulation =
     std::conditional_t<std::is_same<T, float>::value, CompensatedAccumulation, PlainAccumulation>;
@@ -124,22 +125,25 @@ struct has_near_unit_form<Renormalization, T,
     : std::true_type {};
 }  // namespace detail
 
+/// Propagates one attitude (body → reference) from gyro samples: Calibration corrects each
+/// sample, Stepper computes each step's increment, Accumulation applies it and Renormalization
+/// keeps the norm (see the file comment).
 template <class T, class Stepper, class Renormalization = FirstOrderRenormalization,
           class Accumulation = DefaultAccumulation<T>, class Calibration = NoCalibration>
 class Propagator : private detail::CalibrationSlot<Calibration> {
   using Slot = detail::CalibrationSlot<Calibration>;
 
  public:
-  using scalar = T;
-  using stepper = Stepper;
-  using accumulation = Accumulation;
-  using calibration_stage = Calibration;
-  static constexpr std::size_t window = Stepper::window;
+  using scalar = T;                                       ///< the scalar type
+  using stepper = Stepper;                                ///< the stepper
+  using accumulation = Accumulation;                      ///< the accumulation policy
+  using calibration_stage = Calibration;                  ///< the gyro calibration stage
+  static constexpr std::size_t window = Stepper::window;  ///< samples the stepper reads per step
 
-  // Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks);
-  // left at 0, tick pushes are rejected as no_tick_period.
-  // Only for a stage that needs no parameters (NoCalibration): a calibrated propagator takes its
-  // stage below, so none is left out by accident.
+  /// Starts at `initial` (body → reference, unit). tick_period (s) is used by push(…, Ticks);
+  /// left at 0, tick pushes are rejected as no_tick_period.
+  /// Only for a stage that needs no parameters (NoCalibration): a calibrated propagator takes its
+  /// stage below, so none is left out by accident.
   template <class C = Calibration,
             std::enable_if_t<std::is_default_constructible<C>::value, int> = 0>
   constexpr Propagator(const Quaternion<T>& initial, const GyroLimits<T>& limits,
@@ -153,7 +157,7 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     restart_history();
   }
 
-  // The same with a calibration stage (gyro_calibration.hpp), applied to every sample.
+  /// The same with a calibration stage (gyro_calibration.hpp), applied to every sample.
   constexpr Propagator(const Quaternion<T>& initial, const GyroLimits<T>& limits,
                        const Calibration& calibration, T tick_period = T(0),
                        Renormalization policy = {}) noexcept
@@ -166,8 +170,8 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     restart_history();
   }
 
-  // Accepts one gyro sample: a rate (rad/s) or a delta-angle (rad), as Stepper::layout says,
-  // covering the interval dt (s) that ends now. Steps when the stepper's window is full.
+  /// Accepts one gyro sample: a rate (rad/s) or a delta-angle (rad), as Stepper::layout says,
+  /// covering the interval dt (s) that ends now. Steps when the stepper's window is full.
   Status push(const Vector3<T>& sample, T dt) noexcept {
     static_assert(Stepper::layout != SampleLayout::rate_function,
                   "a rate-function stepper is driven with advance()");
@@ -206,9 +210,9 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     }
   }
 
-  // The same with the interval as a count of ticks of tick_period. A propagator built without a
-  // usable tick period (the constructors' default 0, or one that is negative or not finite)
-  // rejects every tick push as no_tick_period, changing nothing, rather than as a step of 0 s.
+  /// The same with the interval as a count of ticks of tick_period. A propagator built without a
+  /// usable tick period (the constructors' default 0, or one that is negative or not finite)
+  /// rejects every tick push as no_tick_period, changing nothing, rather than as a step of 0 s.
   Status push(const Vector3<T>& sample, Ticks ticks) noexcept {
     if (tick_period_ == T(0)) {  // none, or none usable (usable_tick_period)
       count_rejection(Status::no_tick_period);
@@ -221,8 +225,8 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     return s;
   }
 
-  // One step of dt (s) for a rate-function stepper: rate_at(τ) → Vector3<T> in rad/s, τ ∈ [0, dt]
-  // from the step start.
+  /// One step of dt (s) for a rate-function stepper: rate_at(τ) → Vector3<T> in rad/s, τ ∈ [0, dt]
+  /// from the step start.
   template <class RateFunction>
   Status advance(const RateFunction& rate_at, T dt) noexcept {
     static_assert(Stepper::layout == SampleLayout::rate_function,
@@ -239,34 +243,35 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
     return commit_if_usable(increment, dt) ? Status::ok : Status::non_finite;
   }
 
-  // Sets the calibration stage's temperature (°C): ok, or non_finite / over_range with nothing
-  // changed (gyro_calibration.hpp). Only with a stage that has a temperature.
+  /// Sets the calibration stage's temperature (°C): ok, or non_finite / over_range with nothing
+  /// changed (gyro_calibration.hpp). Only with a stage that has a temperature.
   template <class C = Calibration>
   Status set_temperature(T celsius) noexcept {
     static_assert(!C::identity, "a propagator without a calibration stage has no temperature");
     return this->stage().set_temperature(celsius);
   }
-  // The calibration stage (its check(), bias(), temperature(), rejected_temperatures()).
+  /// The calibration stage (its check(), bias(), temperature(), rejected_temperatures()).
   constexpr const Calibration& calibration() const noexcept { return this->stage(); }
 
-  // The attitude (body → reference) after the last step.
+  /// The attitude (body → reference) after the last step.
   constexpr Quaternion<T> attitude() const noexcept { return Accumulation::attitude(state_); }
-  // ‖q‖ − 1 of the attitude: what the renormalization policy keeps small.
+  /// ‖q‖ − 1 of the attitude: what the renormalization policy keeps small.
   T norm_error() const noexcept { return norm(attitude()) - T(1); }
+  /// What happened so far: samples, steps and rejections by class.
   constexpr const PropagationCounters& counters() const noexcept { return counters_; }
-  // The stepper's local error estimate for the last step (rad), 0 if it has none.
+  /// The stepper's local error estimate for the last step (rad), 0 if it has none.
   constexpr T last_error_estimate() const noexcept { return last_error_estimate_; }
-  // Sum of the per-step estimates since the start (rad): worst-case linear accumulation.
+  /// Sum of the per-step estimates since the start (rad): worst-case linear accumulation.
   constexpr T accumulated_error_estimate() const noexcept { return accumulated_error_estimate_; }
-  // Seconds propagated (compensated sum of the intervals of the steps taken).
+  /// Seconds propagated (compensated sum of the intervals of the steps taken).
   constexpr T elapsed_seconds() const noexcept { return elapsed_sum_; }
-  // Ticks accepted through push(…, Ticks), exact.
+  /// Ticks accepted through push(…, Ticks), exact.
   constexpr std::uint64_t elapsed_ticks() const noexcept { return elapsed_ticks_; }
-  // The renormalization policy (read its counters or settings).
+  /// The renormalization policy (read its counters or settings).
   constexpr const Renormalization& renormalization() const noexcept { return policy_; }
 
-  // Re-anchors the attitude (after a gap, or from an external fix) and restarts the history;
-  // a calibration stage keeps its parameters and temperature.
+  /// Re-anchors the attitude (after a gap, or from an external fix) and restarts the history;
+  /// a calibration stage keeps its parameters and temperature.
   void reset(const Quaternion<T>& attitude) noexcept {
     state_ = Accumulation::start(attitude);
     counters_.discarded_samples += pending_samples();
@@ -548,8 +553,8 @@ class Propagator : private detail::CalibrationSlot<Calibration> {
   std::uint64_t elapsed_ticks_ = 0;
 };
 
-// A propagator with the gyro calibration stage, e.g. CalibratedPropagator<float, Coning2Sample>
-// constructed from (initial, limits, GyroCalibration<float>(parameters)).
+/// A propagator with the gyro calibration stage, e.g. CalibratedPropagator<float, Coning2Sample>
+/// constructed from (initial, limits, GyroCalibration<float>(parameters)).
 template <class T, class Stepper, class Renormalization = FirstOrderRenormalization,
           class Accumulation = DefaultAccumulation<T>>
 using CalibratedPropagator =

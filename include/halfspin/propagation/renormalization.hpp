@@ -1,49 +1,50 @@
 #pragma once
-// Renormalization policies: how the propagator pulls the attitude back to unit norm after a step.
-// Rounding (and, for Runge–Kutta steppers, truncation) lets ‖q‖ drift from 1; a non-unit q still
-// names a rotation (every conversion here is scale-invariant or divides by ‖q‖²), but the drift
-// scales vectors rotated with `rotate` and grows without bound. Each policy is a small object the
-// propagator owns (some count steps); `apply` takes the post-step attitude and returns the one to
-// keep. Every policy here only scales q, and `scaling` returns that scale as the pair
-// Scaling{f, f − 1} (f − 1 computed without cancellation where the policy can), standing in for
-// `apply` where the propagator holds the attitude as more than one quaternion: the compensated
-// accumulation (compensated_accumulation.hpp) multiplies its pair by f instead of rounding it to
-// one quaternion, scaling it and reading the factor back. A policy of your own needs only
-// `apply`; without `scaling` the factor is read back from apply's result. Cost per step in flops
-// is noted with each.
-//
-// How far ‖q‖ strays under each policy (the bounds computed by norm_error_bound at the end of this
-// header; model of Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., §2.2–3.1: each
-// operation rounds with relative error ≤ u = ε/2, a length-4 dot product of positive terms with
-// γ₄ = 4u/(1 − 4u)). Let every step change ‖q‖ by a relative amount ≤ d (the step's norm drift:
-// for the steppers that end in q ⊗ quaternion_exp(φ) — exponential-map steps, Magnus 4, the coning
-// algorithms, RKMK4 — d = exponential_map_step_norm_drift(θ) ≈ 2γ₄ + 2u ≈ 10u for gyro-sized
-// steps; Runge–Kutta steppers must add their truncation drift). Figures for float, where u = 6e-8
-// and d ≈ 6e-7:
-//   exact        |‖q‖ − 1| ≤ (1 + u)/(1 − u)·(1 + γ₄/(2(1 − γ₄))) − 1 ≈ 4u = 2ε after every step,
-//                whatever came in (√ of a γ₄-accurate sum, then one division per component).
-//   first_order  the least fixed point of b ↦ 4u + (3/2)(b + d)² + …, about 4u = 2ε as long as the
-//                incoming error is ≪ √u: the Newton step squares the incoming error and adds its
-//                own rounding (factor γ₄/2 + u, product u). Past |‖q‖² − 1| = E ≈ √u the policy
-//                prescales q by about 1/‖q‖ first, so it never exceeds 4u + 3E²/8 ≤ 4u + 3u/8
-//                (2.25ε in float), whatever came in (any step and stepper; ‖q‖² a normal number).
-//   periodic     (1 + b_c)(1 + d)^(period − 1) − 1 ≈ 4u + (period − 1)·d, b_c the inner policy's
-//                bound: the drift of period − 1 uncorrected steps (15 × 10u for the default 16).
-//   threshold    max(the inner policy's bound, τ/2 + γ₄/2): the kept attitude passed the test
-//                |‖q‖² − 1| ≤ τ on a γ₄-accurate ‖q‖², so |‖q‖ − 1| ≤ about τ/2 (5e-6 for the
-//                default τ = 1e-5), whatever the step drift.
-//   none         (1 + b₀)(1 + d)^N − 1 after N steps: rigorous, informative (≤ 1) in float only
-//                up to ~10⁶ steps, vacuous beyond (10⁸ steps of 10u: 10²⁵). What it does in
-//                practice depends on the data. Roundings add as a random walk (√N·u) when they
-//                are uncorrelated. With the increment form (stepper_traits.hpp: q + q ⊗ δ) the
-//                soak, vibration about a fixed mean attitude, ends at |‖q‖ − 1| = 7.3e-4 after
-//                10⁸ float steps; the earlier product form q ⊗ exp(φ/2), which multiplied a
-//                quasi-static q by a factor a few ulps from 1 and rounded it the same way step
-//                after step, drifted linearly (0.26ε per step, 0.11 after 10⁸). The attitude is
-//                unaffected by the norm (every conversion here is scale-invariant); vectors
-//                rotated with `rotate` are scaled.
-// tests/soak/ checks each bound over 10⁸ float steps under coning vibration (ctest -L soak);
-// tests/propagation/test_renormalization_bounds.cpp checks them against measured norms.
+/// @file
+/// Renormalization policies: how the propagator pulls the attitude back to unit norm after a step.
+/// Rounding (and, for Runge–Kutta steppers, truncation) lets ‖q‖ drift from 1; a non-unit q still
+/// names a rotation (every conversion here is scale-invariant or divides by ‖q‖²), but the drift
+/// scales vectors rotated with `rotate` and grows without bound. Each policy is a small object the
+/// propagator owns (some count steps); `apply` takes the post-step attitude and returns the one to
+/// keep. Every policy here only scales q, and `scaling` returns that scale as the pair
+/// Scaling{f, f − 1} (f − 1 computed without cancellation where the policy can), standing in for
+/// `apply` where the propagator holds the attitude as more than one quaternion: the compensated
+/// accumulation (compensated_accumulation.hpp) multiplies its pair by f instead of rounding it to
+/// one quaternion, scaling it and reading the factor back. A policy of your own needs only
+/// `apply`; without `scaling` the factor is read back from apply's result. Cost per step in flops
+/// is noted with each.
+///
+/// How far ‖q‖ strays under each policy (the bounds computed by norm_error_bound at the end of this
+/// header; model of Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., §2.2–3.1: each
+/// operation rounds with relative error ≤ u = ε/2, a length-4 dot product of positive terms with
+/// γ₄ = 4u/(1 − 4u)). Let every step change ‖q‖ by a relative amount ≤ d (the step's norm drift:
+/// for the steppers that end in q ⊗ quaternion_exp(φ) — exponential-map steps, Magnus 4, the coning
+/// algorithms, RKMK4 — d = exponential_map_step_norm_drift(θ) ≈ 2γ₄ + 2u ≈ 10u for gyro-sized
+/// steps; Runge–Kutta steppers must add their truncation drift). Figures for float, where u = 6e-8
+/// and d ≈ 6e-7:
+///   exact        |‖q‖ − 1| ≤ (1 + u)/(1 − u)·(1 + γ₄/(2(1 − γ₄))) − 1 ≈ 4u = 2ε after every step,
+///                whatever came in (√ of a γ₄-accurate sum, then one division per component).
+///   first_order  the least fixed point of b ↦ 4u + (3/2)(b + d)² + …, about 4u = 2ε as long as the
+///                incoming error is ≪ √u: the Newton step squares the incoming error and adds its
+///                own rounding (factor γ₄/2 + u, product u). Past |‖q‖² − 1| = E ≈ √u the policy
+///                prescales q by about 1/‖q‖ first, so it never exceeds 4u + 3E²/8 ≤ 4u + 3u/8
+///                (2.25ε in float), whatever came in (any step and stepper; ‖q‖² a normal number).
+///   periodic     (1 + b_c)(1 + d)^(period − 1) − 1 ≈ 4u + (period − 1)·d, b_c the inner policy's
+///                bound: the drift of period − 1 uncorrected steps (15 × 10u for the default 16).
+///   threshold    max(the inner policy's bound, τ/2 + γ₄/2): the kept attitude passed the test
+///                |‖q‖² − 1| ≤ τ on a γ₄-accurate ‖q‖², so |‖q‖ − 1| ≤ about τ/2 (5e-6 for the
+///                default τ = 1e-5), whatever the step drift.
+///   none         (1 + b₀)(1 + d)^N − 1 after N steps: rigorous, informative (≤ 1) in float only
+///                up to ~10⁶ steps, vacuous beyond (10⁸ steps of 10u: 10²⁵). What it does in
+///                practice depends on the data. Roundings add as a random walk (√N·u) when they
+///                are uncorrelated. With the increment form (stepper_traits.hpp: q + q ⊗ δ) the
+///                soak, vibration about a fixed mean attitude, ends at |‖q‖ − 1| = 7.3e-4 after
+///                10⁸ float steps; the earlier product form q ⊗ exp(φ/2), which multiplied a
+///                quasi-static q by a factor a few ulps from 1 and rounded it the same way step
+///                after step, drifted linearly (0.26ε per step, 0.11 after 10⁸). The attitude is
+///                unaffected by the norm (every conversion here is scale-invariant); vectors
+///                rotated with `rotate` are scaled.
+/// tests/soak/ checks each bound over 10⁸ float steps under coning vibration (ctest -L soak);
+/// tests/propagation/test_renormalization_bounds.cpp checks them against measured norms.
 
 #include <cmath>
 #include <cstdint>
@@ -55,39 +56,42 @@
 
 namespace halfspin {
 
-// The factor a policy scales an attitude by: factor = f and minus_one = f − 1, both to a few
-// u·(f + |f − 1|) (minus_one not as 1 − f rounded from a rounded f where the policy can do
-// better: first order inside its range gives it exactly from the rounded ‖q‖²). An error in
-// either changes only the norm the attitude is pulled to, not its direction.
+/// The factor a policy scales an attitude by: factor = f and minus_one = f − 1, both to a few
+/// u·(f + |f − 1|) (minus_one not as 1 − f rounded from a rounded f where the policy can do
+/// better: first order inside its range gives it exactly from the rounded ‖q‖²). An error in
+/// either changes only the norm the attitude is pulled to, not its direction.
 template <class T>
 struct Scaling {
-  T factor;
-  T minus_one;
+  T factor;     ///< f
+  T minus_one;  ///< f − 1
 };
 
-// Leaves q as it is: for Lie-group steppers that stay on the unit sphere to roundoff, and for
-// measuring drift. Cost 0.
+/// Leaves q as it is: for Lie-group steppers that stay on the unit sphere to roundoff, and for
+/// measuring drift. Cost 0.
 struct NoRenormalization {
-  static constexpr const char* name = "none";
+  static constexpr const char* name = "none";  ///< the policy's name
+  /// Returns q unchanged.
   template <class T>
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     return q;
   }
+  /// The factor 1 (f − 1 = 0).
   template <class T>
   constexpr Scaling<T> scaling(const Quaternion<T>& /*q*/) noexcept {
     return {T(1), T(0)};
   }
 };
 
-// q/‖q‖ every step: exact to rounding. Cost 7 + one square root + 4 divisions (scaling: 7 + one
-// square root + 1 division + 1).
+/// q/‖q‖ every step: exact to rounding. Cost 7 + one square root + 4 divisions (scaling: 7 + one
+/// square root + 1 division + 1).
 struct ExactRenormalization {
-  static constexpr const char* name = "exact";
+  static constexpr const char* name = "exact";  ///< the policy's name
+  /// Q/‖q‖.
   template <class T>
   Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     return normalized(q);
   }
-  // f = 1/‖q‖ (relative error u beyond the norm's), f − 1 exact from it (Sterbenz, f in [½, 2]).
+  /// f = 1/‖q‖ (relative error u beyond the norm's), f − 1 exact from it (Sterbenz, f in [½, 2]).
   template <class T>
   Scaling<T> scaling(const Quaternion<T>& q) noexcept {
     const T f = T(1) / norm(q);
@@ -195,45 +199,47 @@ constexpr T first_order_prescale(T s) noexcept {
 
 }  // namespace detail
 
-// One Newton step toward ‖q‖ = 1 with no square root: q·(3 − ‖q‖²)/2. If ‖q‖² = 1 + e, the
-// result has ‖q‖² = 1 − 3e²/4 + e³/4: quadratic convergence, so with the per-step drift of a
-// gyro step (e ~ ε) the norm stays at rounding level. The step alone converges only for e below
-// about 1 and diverges past ‖q‖² = 3 (a large Runge–Kutta step or a far-from-unit initial
-// attitude can get there), and well before that its error 3e²/8 exceeds rounding. So it is taken
-// as it is only inside |fl(‖q‖²) − 1| ≤ E = detail::first_order_range (float 2⁻¹², double 2⁻²⁷,
-// where 3E²/8 ≤ 3u/8), bit for bit as it always was; outside, q is first multiplied by an
-// approximation y of 1/‖q‖ (a bit-pattern guess and 2 (float) or 3 (double) Newton steps on 1/√s,
-// no square root, |‖y·q‖² − 1| ≤ 1.1e-5 float, 7e-11 double) and the same Newton step then
-// finishes: the exact form q/‖q‖ to rounding. Both are computed and one selected, branch-free, so
-// the BatchPropagator lane loop stays vectorized (checked in the assembly of g++ 12 and
-// clang++ 14, -O2 and -O3, default x86-64 target, BatchPropagator<float, 1024> and
-// <double, 1024>, objdump of the lane loop: packed arithmetic only — mulps/addps/subps, the guess
-// in psrld/psubd and the select in and/andn/or (ps or p- forms), and the same in pd and q forms for
-// double — no scalar add/sub/mul/div/sqrt/compare in ss or sd, no call; g++ reloads a few
-// constants with movss/movsd and broadcasts them inside the loop, 1 in float and 9 in double,
-// against 1 and 2 before the fallback existed). There is no square root on purpose: std::sqrt sets
-// errno under the default -fmath-errno, so neither compiler vectorizes a loop that calls it
-// (checked on a loop of the same shape: one scalar sqrtss/sqrtsd and a call to sqrtf/sqrt remain,
-// also with std::fabs, std::fmax or a select in front of the argument).
-// The result is unit to about 2ε (norm_error_bound) for every q whose ‖q‖² is a normal number of T
-// (float: 1.1e-19 < ‖q‖ < 1.8e19; double: 1.5e-154 < ‖q‖ < 1.3e154), any step size and stepper.
-// Cost in flops: 7 (‖q‖²) + 2 (range test) + 5 per Newton step on 1/√s + 4 (prescale) + 7 + 2 + 4
-// (the step) = 36 in float, 41 in double, plus 2 integer operations for the guess and 4 bit
-// operations for the select (13 flops before the fallback existed). A q = 0, or one whose ‖q‖²
-// overflows, gives 0 or a non-finite result, which the propagator rejects.
+/// One Newton step toward ‖q‖ = 1 with no square root: q·(3 − ‖q‖²)/2. If ‖q‖² = 1 + e, the
+/// result has ‖q‖² = 1 − 3e²/4 + e³/4: quadratic convergence, so with the per-step drift of a
+/// gyro step (e ~ ε) the norm stays at rounding level. The step alone converges only for e below
+/// about 1 and diverges past ‖q‖² = 3 (a large Runge–Kutta step or a far-from-unit initial
+/// attitude can get there), and well before that its error 3e²/8 exceeds rounding. So it is taken
+/// as it is only inside |fl(‖q‖²) − 1| ≤ E = detail::first_order_range (float 2⁻¹², double 2⁻²⁷,
+/// where 3E²/8 ≤ 3u/8), bit for bit as it always was; outside, q is first multiplied by an
+/// approximation y of 1/‖q‖ (a bit-pattern guess and 2 (float) or 3 (double) Newton steps on 1/√s,
+/// no square root, |‖y·q‖² − 1| ≤ 1.1e-5 float, 7e-11 double) and the same Newton step then
+/// finishes: the exact form q/‖q‖ to rounding. Both are computed and one selected, branch-free, so
+/// the BatchPropagator lane loop stays vectorized (checked in the assembly of g++ 12 and
+/// clang++ 14, -O2 and -O3, default x86-64 target, BatchPropagator<float, 1024> and
+/// <double, 1024>, objdump of the lane loop: packed arithmetic only — mulps/addps/subps, the guess
+/// in psrld/psubd and the select in and/andn/or (ps or p- forms), and the same in pd and q forms
+/// for double — no scalar add/sub/mul/div/sqrt/compare in ss or sd, no call; g++ reloads a few
+/// constants with movss/movsd and broadcasts them inside the loop, 1 in float and 9 in double,
+/// against 1 and 2 before the fallback existed). There is no square root on purpose: std::sqrt sets
+/// errno under the default -fmath-errno, so neither compiler vectorizes a loop that calls it
+/// (checked on a loop of the same shape: one scalar sqrtss/sqrtsd and a call to sqrtf/sqrt remain,
+/// also with std::fabs, std::fmax or a select in front of the argument).
+/// The result is unit to about 2ε (norm_error_bound) for every q whose ‖q‖² is a normal number of T
+/// (float: 1.1e-19 < ‖q‖ < 1.8e19; double: 1.5e-154 < ‖q‖ < 1.3e154), any step size and stepper.
+/// Cost in flops: 7 (‖q‖²) + 2 (range test) + 5 per Newton step on 1/√s + 4 (prescale) + 7 + 2 + 4
+/// (the step) = 36 in float, 41 in double, plus 2 integer operations for the guess and 4 bit
+/// operations for the select (13 flops before the fallback existed). A q = 0, or one whose ‖q‖²
+/// overflows, gives 0 or a non-finite result, which the propagator rejects.
 struct FirstOrderRenormalization {
-  static constexpr const char* name = "first_order";
+  static constexpr const char* name = "first_order";  ///< the policy's name
+  /// Q scaled toward unit norm by one Newton step, prescaled outside the near-unit range (see
+  /// above).
   template <class T>
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     const Quaternion<T> r = detail::first_order_prescale(squared_norm(q)) * q;  // r = q inside
     const T factor = T(1.5) - T(0.5) * squared_norm(r);
     return factor * r;
   }
-  // The same factor, p·(3 − p²·s)/2 with s = fl(‖q‖²) and p the prescale (1 inside the range,
-  // where p²·s = s exactly and the step is apply's). f − 1 = p·(1 − p²s)/2 + (p − 1): inside the
-  // range (1 − s)/2, exact (Sterbenz and a power of 2), so the compensated pair's norm is
-  // corrected by the Newton step itself, with no rounding of q. Branch-free, as apply. Cost: 7 +
-  // the prescale + 8 (apply: 7 + the prescale + 15).
+  /// The same factor, p·(3 − p²·s)/2 with s = fl(‖q‖²) and p the prescale (1 inside the range,
+  /// where p²·s = s exactly and the step is apply's). f − 1 = p·(1 − p²s)/2 + (p − 1): inside the
+  /// range (1 − s)/2, exact (Sterbenz and a power of 2), so the compensated pair's norm is
+  /// corrected by the Newton step itself, with no rounding of q. Branch-free, as apply. Cost: 7 +
+  /// the prescale + 8 (apply: 7 + the prescale + 15).
   template <class T>
   constexpr Scaling<T> scaling(const Quaternion<T>& q) noexcept {
     const T s = squared_norm(q);
@@ -242,37 +248,40 @@ struct FirstOrderRenormalization {
     return {p * (T(1) + half_defect), p * half_defect + (p - T(1))};
   }
 
-  // The near-unit form, for a caller that has s = fl(‖q‖²) already and branches (the scalar
-  // Propagator; the BatchPropagator keeps apply and scaling branch-free for its lane loops). For
-  // |s − 1| ≤ near_unit_range() the prescale is exactly 1, so there apply(q) is bit for bit
-  // near_unit_factor(s)·q, and scaling(q) is {1 + h, h} with h = near_unit_half_defect(s): the
-  // Newton step alone, 7 + 2 + 4 flops where apply takes 36 (float) or 41 (double), and off the
-  // serial chain of steps the guess of 1/√s and its Newton steps. A NaN or an infinite s fails the
-  // range test, so a caller that takes this form only inside it needs no other finiteness check.
+  /// The near-unit form, for a caller that has s = fl(‖q‖²) already and branches (the scalar
+  /// Propagator; the BatchPropagator keeps apply and scaling branch-free for its lane loops). For
+  /// |s − 1| ≤ near_unit_range() the prescale is exactly 1, so there apply(q) is bit for bit
+  /// near_unit_factor(s)·q, and scaling(q) is {1 + h, h} with h = near_unit_half_defect(s): the
+  /// Newton step alone, 7 + 2 + 4 flops where apply takes 36 (float) or 41 (double), and off the
+  /// serial chain of steps the guess of 1/√s and its Newton steps. A NaN or an infinite s fails the
+  /// range test, so a caller that takes this form only inside it needs no other finiteness check.
   template <class T>
   static constexpr T near_unit_range() noexcept {
     return detail::first_order_range<T>();
   }
+  /// The factor 1.5 − 0.5·s (see near_unit_range()).
   template <class T>
   static constexpr T near_unit_factor(T s) noexcept {
     return T(1.5) - T(0.5) * s;
   }
+  /// The half defect 0.5 − 0.5·s (see near_unit_range()).
   template <class T>
   static constexpr T near_unit_half_defect(T s) noexcept {
     return T(0.5) - T(0.5) * s;
   }
 };
 
-// Applies Inner every `period` steps and leaves q alone otherwise (a CPU-budget trade: the
-// drift between corrections grows linearly for Runge–Kutta steppers, as a random walk for
-// exponential-map ones).
+/// Applies Inner every `period` steps and leaves q alone otherwise (a CPU-budget trade: the
+/// drift between corrections grows linearly for Runge–Kutta steppers, as a random walk for
+/// exponential-map ones).
 template <class Inner = ExactRenormalization>
 struct PeriodicRenormalization {
-  static constexpr const char* name = "periodic";
-  std::uint32_t period = 16;  // steps between corrections (≥ 1)
-  std::uint32_t count = 0;    // steps since the last correction
-  Inner inner{};
+  static constexpr const char* name = "periodic";  ///< the policy's name
+  std::uint32_t period = 16;                       ///< steps between corrections (≥ 1)
+  std::uint32_t count = 0;                         ///< steps since the last correction
+  Inner inner{};                                   ///< the policy applied every `period` steps
 
+  /// Inner's result every `period` steps, q unchanged otherwise.
   template <class T>
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     if (++count >= period) {
@@ -281,8 +290,8 @@ struct PeriodicRenormalization {
     }
     return q;
   }
-  // Present when Inner has it (I = Inner makes the test depend on the call, so that a missing
-  // member removes this one instead of failing).
+  /// Present when Inner has it (I = Inner makes the test depend on the call, so that a missing
+  /// member removes this one instead of failing).
   template <class T, class I = Inner>
   constexpr auto scaling(const Quaternion<T>& q) noexcept
       -> decltype(std::declval<I&>().scaling(q)) {
@@ -294,19 +303,20 @@ struct PeriodicRenormalization {
   }
 };
 
-// Applies Inner only when | ‖q‖² − 1 | exceeds `threshold` (dimensionless; | ‖q‖ − 1 | is about
-// half of it). Cost 7 + a comparison per step, plus Inner when it fires.
+/// Applies Inner only when | ‖q‖² − 1 | exceeds `threshold` (dimensionless; | ‖q‖ − 1 | is about
+/// half of it). Cost 7 + a comparison per step, plus Inner when it fires.
 template <class T, class Inner = ExactRenormalization>
 struct ThresholdRenormalization {
-  static constexpr const char* name = "threshold";
-  T threshold = T(1e-5);
-  Inner inner{};
+  static constexpr const char* name = "threshold";  ///< the policy's name
+  T threshold = T(1e-5);                            ///< on | ‖q‖² − 1 | (dimensionless)
+  Inner inner{};                                    ///< the policy applied above the threshold
 
+  /// Inner's result above the threshold, q unchanged otherwise.
   constexpr Quaternion<T> apply(const Quaternion<T>& q) noexcept {
     const T e = squared_norm(q) - T(1);
     return (e > threshold || e < -threshold) ? inner.apply(q) : q;
   }
-  // Present when Inner has it (as PeriodicRenormalization::scaling).
+  /// Present when Inner has it (as PeriodicRenormalization::scaling).
   template <class I = Inner>
   constexpr auto scaling(const Quaternion<T>& q) noexcept
       -> decltype(std::declval<I&>().scaling(q)) {
@@ -383,11 +393,11 @@ constexpr T least_invariant_bound(T start, const Next& next) noexcept {
 
 }  // namespace detail
 
-// Relative norm drift d of one step q ← q ⊗ quaternion_exp(φ) in T, |φ| ≤ theta (rad): the
-// product moves ‖q ⊗ P̂‖ by at most 2γ₄·‖q‖‖P̂‖ (each component a 4-term dot product,
-// roundoff_floor.hpp (a)), and quaternion_exp's ‖P̂‖ is 1 within |δc| + γ₁₄θ²/4 (scalar part
-// absolute error δc ≤ 2u + γ₁₄θ²/4 on either branch, vector part of length ≤ θ/2 relative γ₁₄).
-// The rotation vector's own rounding does not matter: exp of any φ is unit.
+/// Relative norm drift d of one step q ← q ⊗ quaternion_exp(φ) in T, |φ| ≤ theta (rad): the
+/// product moves ‖q ⊗ P̂‖ by at most 2γ₄·‖q‖‖P̂‖ (each component a 4-term dot product,
+/// roundoff_floor.hpp (a)), and quaternion_exp's ‖P̂‖ is 1 within |δc| + γ₁₄θ²/4 (scalar part
+/// absolute error δc ≤ 2u + γ₁₄θ²/4 on either branch, vector part of length ≤ θ/2 relative γ₁₄).
+/// The rotation vector's own rounding does not matter: exp of any φ is unit.
 template <class T>
 constexpr T exponential_map_step_norm_drift(T theta) noexcept {
   const T u = std::numeric_limits<T>::epsilon() / T(2);
@@ -407,8 +417,8 @@ constexpr T exponential_map_step_norm_drift(T theta) noexcept {
   return (T(1) + exp_norm) * (T(1) + T(2) * g4) - T(1);
 }
 
-// |‖q‖ − 1| right after a policy is applied to a q with |‖q‖ − 1| ≤ incoming, in T.
-// Exact: q/‖q‖ rounds ‖q‖² by γ₄, the square root and each division by u: ≈ 4u whatever came in.
+/// |‖q‖ − 1| right after a policy is applied to a q with |‖q‖ − 1| ≤ incoming, in T.
+/// Exact: q/‖q‖ rounds ‖q‖² by γ₄, the square root and each division by u: ≈ 4u whatever came in.
 template <class T>
 constexpr T renormalized_norm_error(const ExactRenormalization&, T incoming) noexcept {
   static_cast<void>(incoming);
@@ -467,16 +477,16 @@ constexpr T first_order_prescaled_error() noexcept {
 
 }  // namespace detail
 
-// First order: the Newton step on r = q (branch taken when |fl(s) − 1| ≤ E, s = ‖q‖²) or on the
-// prescaled r = y·q (otherwise). With |‖q‖² − 1| ≤ e_in (from the incoming error): if even
-// e_in + γ₄(1 + e_in) ≤ E, fl(s) cannot leave the range and the bound is the Newton step's on
-// e_in, as before the fallback existed. Otherwise either branch may run: the Newton branch sees at
-// most e_reach = (E + γ₄)/(1 − γ₄) (fl(s) = s(1 + θ) within E of 1), the fallback at most
-// first_order_prescaled_error (< E by the choice of Newton steps), so the bound is the Newton
-// step's on the larger of the two, whatever came in: ≈ 4u + 3E²/8 ≤ 4u + 3u/8 (as evaluated in
-// T: float 2.25ε; double 2.0ε, where 3E²/8 = 3u/16 is below the evaluation's own rounding). +∞
-// where q may be 0 or ‖q‖² may overflow (incoming ≥ 1 or (1 + incoming)² near T's largest value),
-// where no bound holds.
+/// First order: the Newton step on r = q (branch taken when |fl(s) − 1| ≤ E, s = ‖q‖²) or on the
+/// prescaled r = y·q (otherwise). With |‖q‖² − 1| ≤ e_in (from the incoming error): if even
+/// e_in + γ₄(1 + e_in) ≤ E, fl(s) cannot leave the range and the bound is the Newton step's on
+/// e_in, as before the fallback existed. Otherwise either branch may run: the Newton branch sees at
+/// most e_reach = (E + γ₄)/(1 − γ₄) (fl(s) = s(1 + θ) within E of 1), the fallback at most
+/// first_order_prescaled_error (< E by the choice of Newton steps), so the bound is the Newton
+/// step's on the larger of the two, whatever came in: ≈ 4u + 3E²/8 ≤ 4u + 3u/8 (as evaluated in
+/// T: float 2.25ε; double 2.0ε, where 3E²/8 = 3u/16 is below the evaluation's own rounding). +∞
+/// where q may be 0 or ‖q‖² may overflow (incoming ≥ 1 or (1 + incoming)² near T's largest value),
+/// where no bound holds.
 template <class T>
 constexpr T renormalized_norm_error(const FirstOrderRenormalization&, T incoming) noexcept {
   const T g4 = detail::norm_gamma<T>(4);
@@ -495,22 +505,22 @@ constexpr T renormalized_norm_error(const FirstOrderRenormalization&, T incoming
   const T e_fallback = detail::first_order_prescaled_error<T>();
   return detail::first_order_newton_error(e_branch > e_fallback ? e_branch : e_fallback);
 }
-// None: what came in.
+/// None: what came in.
 template <class T>
 constexpr T renormalized_norm_error(const NoRenormalization&, T incoming) noexcept {
   return incoming;
 }
 
-// The largest |‖q‖ − 1| of the attitude a policy keeps over `steps` steps (the initial attitude
-// included), when every step changes ‖q‖ by a relative amount ≤ step_drift and the initial
-// attitude has |‖q₀‖ − 1| ≤ initial; +∞ where the derivation does not reach. All in T.
-// None: (1 + b₀)(1 + d)^steps − 1, the only bound here that grows with `steps`.
+/// The largest |‖q‖ − 1| of the attitude a policy keeps over `steps` steps (the initial attitude
+/// included), when every step changes ‖q‖ by a relative amount ≤ step_drift and the initial
+/// attitude has |‖q₀‖ − 1| ≤ initial; +∞ where the derivation does not reach. All in T.
+/// None: (1 + b₀)(1 + d)^steps − 1, the only bound here that grows with `steps`.
 template <class T>
 constexpr T norm_error_bound(const NoRenormalization&, T step_drift, T initial,
                              std::uint64_t steps) noexcept {
   return detail::drifted_norm_error(initial, step_drift, steps);
 }
-// Exact: max(b₀, the rounding of one normalization).
+/// Exact: max(b₀, the rounding of one normalization).
 template <class T>
 constexpr T norm_error_bound(const ExactRenormalization& policy, T step_drift, T initial,
                              std::uint64_t steps) noexcept {
@@ -519,7 +529,7 @@ constexpr T norm_error_bound(const ExactRenormalization& policy, T step_drift, T
       renormalized_norm_error(policy, detail::drifted_norm_error(initial, step_drift, 1));
   return initial > after ? initial : after;
 }
-// First order: the least invariant bound of b ↦ after(b drifted by one step), from b₀.
+/// First order: the least invariant bound of b ↦ after(b drifted by one step), from b₀.
 template <class T>
 constexpr T norm_error_bound(const FirstOrderRenormalization& policy, T step_drift, T initial,
                              std::uint64_t steps) noexcept {
@@ -528,8 +538,8 @@ constexpr T norm_error_bound(const FirstOrderRenormalization& policy, T step_dri
     return renormalized_norm_error(policy, detail::drifted_norm_error(b, step_drift, 1));
   });
 }
-// Periodic: the inner policy sees period steps of drift; between corrections up to period − 1
-// steps of drift accumulate on its result (or on b₀ before the first correction).
+/// Periodic: the inner policy sees period steps of drift; between corrections up to period − 1
+/// steps of drift accumulate on its result (or on b₀ before the first correction).
 template <class T, class Inner>
 constexpr T norm_error_bound(const PeriodicRenormalization<Inner>& policy, T step_drift, T initial,
                              std::uint64_t steps) noexcept {
@@ -540,9 +550,9 @@ constexpr T norm_error_bound(const PeriodicRenormalization<Inner>& policy, T ste
   });
   return detail::drifted_norm_error(corrected, step_drift, period - 1U);
 }
-// Threshold τ: an attitude kept without correction passed |fl(‖q‖²) − 1| ≤ τ, so ‖q‖² lies in
-// [(1 − τ)/(1 + γ₄), (1 + τ)/(1 − γ₄)]; a corrected one has the inner policy's bound for an
-// incoming error of (the bound) + one step of drift.
+/// Threshold τ: an attitude kept without correction passed |fl(‖q‖²) − 1| ≤ τ, so ‖q‖² lies in
+/// [(1 − τ)/(1 + γ₄), (1 + τ)/(1 − γ₄)]; a corrected one has the inner policy's bound for an
+/// incoming error of (the bound) + one step of drift.
 template <class T, class Inner>
 constexpr T norm_error_bound(const ThresholdRenormalization<T, Inner>& policy, T step_drift,
                              T initial, std::uint64_t steps) noexcept {

@@ -1,33 +1,34 @@
 #pragma once
-// The rotation-vector family as data: every stepper whose step is q ⊗ exp(φ/2) with
-//     φ = α̂ + β̂,   α̂ = Σ w_i s_i (× dt for rates),   β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (× dt² for
-//     rates),
-// the s_i being the samples of the step's window: rate samples (rad/s) at points of the step, or
-// delta-angles (rad) over the sample intervals that tile it (with, for one algorithm, the previous
-// step's last one in front). α̂ is a quadrature of ∫ω (exact for delta-angles), β̂ estimates the
-// commutator (coning) term β = ½∫α×ω of the Magnus expansion / Bortz's rotation-vector equation
-// (see REFERENCES.md; the split φ* = α + β + R: bounds/magnus_family_bounds.hpp §1). The
-// exponential-map steps (β̂ = 0), the fourth-order Magnus step and the multi-sample coning
-// algorithms are the members; each is one RotationVectorRule below, and everything else is
-// derived from it here: the order for general smooth motion, the order of the
-// coning drift under pure classical coning, the flop count, and (in the bounds layer) the
-// a-priori error bound. A stepper and its bound therefore cannot disagree.
-//
-// Order for general motion (derivation ours, the inputs are the Magnus expansion and the
-// moments of the samples; bounds/magnus_family_bounds.hpp §2–§4 has the full error expansion):
-//   quadrature: a rule exact for polynomials of degree d has local error O(h^(d+2)), global d + 1;
-//   commutator: with the step as τ ∈ [−½, ½] and ω = m + pτ + qτ²/2 + …, β = h³/12·m×p + O(h⁵),
-//     and β̂ has coefficient κ_p = Σ c(μ0ᵢμ1ⱼ − μ0ⱼμ1ᵢ) on m×p and κ_q = Σ c(μ0ᵢμ2ⱼ − μ0ⱼμ2ᵢ) on
-//     m×q (μ_k the moments ℓ(τᵏ/k!) of each sample functional ℓ). κ_p ≠ 1/12 leaves an h³ term
-//     (global order 2), κ_q ≠ 0 an h⁴ term (order 3), otherwise the third Magnus term O(h⁵)
-//     remains (order 4).
-//   order = min(d + 1, that); delta-angles carry α exactly.
-// Coning order (delta-angle rules): coning_drift_order applies the series-matching criterion
-// derived in coning_compensation.hpp ("Derivation of c_m") to the rule's weights.
-// Flops (+ − ×, counted from the code below): quadrature 3 per added sample, 3 per weight other
-// than 1, 3 for the scaling (rates: dt times the weight denominator 1 more); commutator per
-// separation with a nonzero weight 9 per pair, 3 per added pair, 3 to scale, 3 to add
-// (rates: 2 for dt²·c); then exp(φ/2) − 1 (series branch) and the plain application.
+/// @file
+/// The rotation-vector family as data: every stepper whose step is q ⊗ exp(φ/2) with
+///     φ = α̂ + β̂,   α̂ = Σ w_i s_i (× dt for rates),   β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (× dt² for
+///     rates),
+/// the s_i being the samples of the step's window: rate samples (rad/s) at points of the step, or
+/// delta-angles (rad) over the sample intervals that tile it (with, for one algorithm, the previous
+/// step's last one in front). α̂ is a quadrature of ∫ω (exact for delta-angles), β̂ estimates the
+/// commutator (coning) term β = ½∫α×ω of the Magnus expansion / Bortz's rotation-vector equation
+/// (see REFERENCES.md; the split φ* = α + β + R: bounds/magnus_family_bounds.hpp §1). The
+/// exponential-map steps (β̂ = 0), the fourth-order Magnus step and the multi-sample coning
+/// algorithms are the members; each is one RotationVectorRule below, and everything else is
+/// derived from it here: the order for general smooth motion, the order of the
+/// coning drift under pure classical coning, the flop count, and (in the bounds layer) the
+/// a-priori error bound. A stepper and its bound therefore cannot disagree.
+///
+/// Order for general motion (derivation ours, the inputs are the Magnus expansion and the
+/// moments of the samples; bounds/magnus_family_bounds.hpp §2–§4 has the full error expansion):
+///   quadrature: a rule exact for polynomials of degree d has local error O(h^(d+2)), global d + 1;
+///   commutator: with the step as τ ∈ [−½, ½] and ω = m + pτ + qτ²/2 + …, β = h³/12·m×p + O(h⁵),
+///     and β̂ has coefficient κ_p = Σ c(μ0ᵢμ1ⱼ − μ0ⱼμ1ᵢ) on m×p and κ_q = Σ c(μ0ᵢμ2ⱼ − μ0ⱼμ2ᵢ) on
+///     m×q (μ_k the moments ℓ(τᵏ/k!) of each sample functional ℓ). κ_p ≠ 1/12 leaves an h³ term
+///     (global order 2), κ_q ≠ 0 an h⁴ term (order 3), otherwise the third Magnus term O(h⁵)
+///     remains (order 4).
+///   order = min(d + 1, that); delta-angles carry α exactly.
+/// Coning order (delta-angle rules): coning_drift_order applies the series-matching criterion
+/// derived in coning_compensation.hpp ("Derivation of c_m") to the rule's weights.
+/// Flops (+ − ×, counted from the code below): quadrature 3 per added sample, 3 per weight other
+/// than 1, 3 for the scaling (rates: dt times the weight denominator 1 more); commutator per
+/// separation with a nonzero weight 9 per pair, 3 per added pair, 3 to scale, 3 to add
+/// (rates: 2 for dt²·c); then exp(φ/2) − 1 (series branch) and the plain application.
 
 #include <array>
 #include <cmath>
@@ -43,24 +44,24 @@
 
 namespace halfspin {
 
-// Per-pair weights of the cross products, by separation: a product of two samples `separation`
-// = index + 1 sample periods apart has weight numerators[index]/denominator.
+/// Per-pair weights of the cross products, by separation: a product of two samples `separation`
+/// = index + 1 sample periods apart has weight numerators[index]/denominator.
 template <std::size_t Separations>
 struct ConingCoefficientSet {
-  std::array<std::int32_t, Separations> numerators;
-  std::int32_t denominator;
+  std::array<std::int32_t, Separations> numerators;  ///< numerator per separation
+  std::int32_t denominator;                          ///< the common denominator
 };
 
-// One member of the family: its input layout, the quadrature weights of its window's samples
-// (numerators over one denominator; for delta-angles 1 on the samples of the step, 0 on a
-// previous one) and the commutator weights by separation (W − 1 separations, zeros allowed).
+/// One member of the family: its input layout, the quadrature weights of its window's samples
+/// (numerators over one denominator; for delta-angles 1 on the samples of the step, 0 on a
+/// previous one) and the commutator weights by separation (W − 1 separations, zeros allowed).
 template <std::size_t W>
 struct RotationVectorRule {
-  static constexpr std::size_t window = W;
-  SampleLayout layout;
-  std::array<std::int32_t, W> quadrature;
-  std::int32_t quadrature_denominator;
-  ConingCoefficientSet<(W > 0 ? W - 1 : 0)> commutator;
+  static constexpr std::size_t window = W;               ///< W, the samples in the window
+  SampleLayout layout;                                   ///< what the samples hold
+  std::array<std::int32_t, W> quadrature;                ///< quadrature numerators, one per sample
+  std::int32_t quadrature_denominator;                   ///< their common denominator
+  ConingCoefficientSet<(W > 0 ? W - 1 : 0)> commutator;  ///< commutator weights by separation
 };
 
 namespace detail {
@@ -497,31 +498,37 @@ struct RotationVectorWeights {
 
 }  // namespace detail
 
-// The generic member of the family: Rule::value is a RotationVectorRule. Input: the window of
-// samples (rates in rad/s or delta-angles in rad, as the layout says); dt (s) the step length.
+/// The generic member of the family: Rule::value is a RotationVectorRule. Input: the window of
+/// samples (rates in rad/s or delta-angles in rad, as the layout says); dt (s) the step length.
 template <class Rule>
 struct RotationVectorStepper {
+  /// The family data (Rule::value).
   static constexpr const RotationVectorRule<Rule::value.window>& rule = Rule::value;
-  using family = RotationVectorStepper<Rule>;  // the bounds layer dispatches on it
-  static constexpr SampleLayout layout = rule.layout;
-  static constexpr std::size_t window = rule.window;
+  using family = RotationVectorStepper<Rule>;          ///< the bounds layer dispatches on it
+  static constexpr SampleLayout layout = rule.layout;  ///< what the input holds
+  static constexpr std::size_t window = rule.window;   ///< samples the step reads
+  /// Samples that arrive per step.
   static constexpr std::size_t new_samples = detail::new_samples_of(layout, window);
+  /// Global attitude order with this input, on any smooth motion.
   static constexpr int order = detail::rotation_vector_order(rule);
-  static constexpr int coning_order = detail::coning_drift_order(rule);  // 0: not a coning rule
+  static constexpr int coning_order = detail::coning_drift_order(rule);  ///< 0: not a coning rule
+  /// Whether the increment carries an error estimate.
   static constexpr bool has_estimate = detail::has_commutator(rule);
+  /// Floating-point operations per step: the increment and its plain application.
   static constexpr int flops = detail::rotation_vector_flops(rule) +
                                quaternion_exp_minus_one_series_flops + apply_increment_flops;
-  // Most roundings on a path from a sample to φ (bounds/roundoff_floor.hpp reads it).
+  /// Most roundings on a path from a sample to φ (bounds/roundoff_floor.hpp reads it).
   static constexpr int rounding_depth = detail::rotation_vector_rounding_depth(rule);
-  // |φ| ≤ rotation_linear·θ + rotation_quadratic·θ² for a step rotating by ≤ θ (the roundoff
-  // model's |δ| ≤ |φ|/2).
+  /// |φ| ≤ rotation_linear·θ + rotation_quadratic·θ² for a step rotating by ≤ θ (the roundoff
+  /// model's |δ| ≤ |φ|/2).
   static constexpr long double rotation_linear = detail::rotation_vector_quadrature_magnitude(rule);
+  /// The θ² coefficient of the bound above.
   static constexpr long double rotation_quadratic =
       detail::rotation_vector_commutator_magnitude(rule);
   static_assert(layout != SampleLayout::rate_function, "the family reads samples");
   static_assert(detail::quadrature_degree(rule) >= 0, "the quadrature weights must be consistent");
 
-  // α̂ = Σ w_i s_i (rad): the quadrature of ∫ω over the step (delta-angles: their sum).
+  /// α̂ = Σ w_i s_i (rad): the quadrature of ∫ω over the step (delta-angles: their sum).
   template <class T>
   static constexpr Vector3<T> quadrature_term(const std::array<Vector3<T>, window>& s,
                                               T dt) noexcept {
@@ -530,8 +537,8 @@ struct RotationVectorStepper {
         detail::RotationVectorWeights<Rule, T>::quadrature_inverse);
   }
 
-  // β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (rad; rates: × dt²): the commutator (coning) term, also the
-  // online error signal. Zero for a rule without one.
+  /// β̂ = Σ_m c_m Σ_{j−i=m} s_i × s_j (rad; rates: × dt²): the commutator (coning) term, also the
+  /// online error signal. Zero for a rule without one.
   template <class T>
   static constexpr Vector3<T> commutator_term(const std::array<Vector3<T>, window>& s,
                                               T dt) noexcept {
@@ -543,7 +550,7 @@ struct RotationVectorStepper {
     return beta;
   }
 
-  // φ = α̂ + β̂ (rad, body frame at the step start).
+  /// φ = α̂ + β̂ (rad, body frame at the step start).
   template <class T>
   static constexpr Vector3<T> rotation_vector(const std::array<Vector3<T>, window>& s,
                                               T dt = T(0)) noexcept {
@@ -554,9 +561,9 @@ struct RotationVectorStepper {
     }
   }
 
-  // exp(φ/2) − 1 and, for a rule with a commutator, |β̂| (rad): the non-commutativity the step
-  // saw, i.e. the error a step without the correction would make (an indicator, not this
-  // method's own, much smaller, error; tests/bounds/test_magnus_family_bounds.cpp measures it).
+  /// exp(φ/2) − 1 and, for a rule with a commutator, |β̂| (rad): the non-commutativity the step
+  /// saw, i.e. the error a step without the correction would make (an indicator, not this
+  /// method's own, much smaller, error; tests/bounds/test_magnus_family_bounds.cpp measures it).
   template <class T>
   static Increment<T> increment(const std::array<Vector3<T>, window>& s, T dt) noexcept {
     if constexpr (has_estimate) {
@@ -567,13 +574,13 @@ struct RotationVectorStepper {
     }
   }
 
-  // q ⊗ exp(φ/2), the increment applied plainly (q body → reference).
+  /// q ⊗ exp(φ/2), the increment applied plainly (q body → reference).
   template <class T>
   static Quaternion<T> step(const Quaternion<T>& q, const std::array<Vector3<T>, window>& s,
                             T dt) noexcept {
     return apply_increment(q, increment(s, dt).delta);
   }
-  // step() and the error estimate of increment().
+  /// step() and the error estimate of increment().
   template <class T, bool E = has_estimate, std::enable_if_t<E, int> = 0>
   static StepOutcome<T> step_with_estimate(const Quaternion<T>& q,
                                            const std::array<Vector3<T>, window>& s, T dt) noexcept {

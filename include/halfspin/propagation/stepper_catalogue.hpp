@@ -1,19 +1,20 @@
 #pragma once
-// The one catalogue of steppers: every stepper of the library, once, with a stable numeric id.
-// Everything that enumerates steppers derives from this list: the desktop tools' method list and
-// descriptions, the tests that sweep "all steppers" (orders, bound safety, replay on the
-// microcontroller), the footprint images, the benchmarks, the fuzz harness (which selects a
-// stepper by id, so stored corpora keep their meaning when steppers are added) and the docs'
-// tables. A build check fails when a stepper type exists that this list lacks
-// (tests/build_checks: catalogue_complete), and when a listed stepper has no finite a-priori
-// bound for a smooth rate envelope, or a name that is not the snake_case of its type (names are
-// then unique as the types are; tests/propagation/test_catalogue.cpp).
-//
-// Adding a stepper: its header (one algorithm; for a family member, its data), one line below
-// with the next unused id (ids are never reused or renumbered), and its own tests.
-//
-// The list is also read by CMake and scripts (cmake/HalfspinCatalogue.cmake), one entry per
-// line in the form `CatalogueEntry<id, TypeName>`; keep that form.
+/// @file
+/// The one catalogue of steppers: every stepper of the library, once, with a stable numeric id.
+/// Everything that enumerates steppers derives from this list: the desktop tools' method list and
+/// descriptions, the tests that sweep "all steppers" (orders, bound safety, replay on the
+/// microcontroller), the footprint images, the benchmarks, the fuzz harness (which selects a
+/// stepper by id, so stored corpora keep their meaning when steppers are added) and the docs'
+/// tables. A build check fails when a stepper type exists that this list lacks
+/// (tests/build_checks: catalogue_complete), and when a listed stepper has no finite a-priori
+/// bound for a smooth rate envelope, or a name that is not the snake_case of its type (names are
+/// then unique as the types are; tests/propagation/test_catalogue.cpp).
+///
+/// Adding a stepper: its header (one algorithm; for a family member, its data), one line below
+/// with the next unused id (ids are never reused or renumbered), and its own tests.
+///
+/// The list is also read by CMake and scripts (cmake/HalfspinCatalogue.cmake), one entry per
+/// line in the form `CatalogueEntry<id, TypeName>`; keep that form.
 
 #include <array>
 #include <cstddef>
@@ -32,17 +33,17 @@
 
 namespace halfspin {
 
-// A list of types (the library may not use <tuple>).
+/// A list of types (the library may not use `<tuple>`).
 template <class... Ts>
 struct TypeList {
-  static constexpr std::size_t size = sizeof...(Ts);
+  static constexpr std::size_t size = sizeof...(Ts);  ///< the number of types
 };
 
-// One stepper and its stable id.
+/// One stepper and its stable id.
 template <std::uint16_t Id, class Stepper>
 struct CatalogueEntry {
-  static constexpr std::uint16_t id = Id;
-  using stepper = Stepper;
+  static constexpr std::uint16_t id = Id;  ///< the stable id
+  using stepper = Stepper;                 ///< the stepper type
 };
 
 namespace detail {
@@ -69,29 +70,34 @@ constexpr bool meets_contract() noexcept {
 
 }  // namespace detail
 
+/// A catalogue: its entries and what can be read from them.
 template <class... Entries>
 struct StepperCatalogueOf {
-  static constexpr std::size_t size = sizeof...(Entries);
-  using entries = TypeList<Entries...>;
-  using steppers = TypeList<typename Entries::stepper...>;
-  static constexpr std::array<std::uint16_t, size> ids{{Entries::id...}};
+  static constexpr std::size_t size = sizeof...(Entries);   ///< the number of entries
+  using entries = TypeList<Entries...>;                     ///< the entries, in order
+  using steppers = TypeList<typename Entries::stepper...>;  ///< the stepper types, in order
+  static constexpr std::array<std::uint16_t, size> ids{{Entries::id...}};  ///< the ids, in order
+  /// The names, in order.
   static constexpr std::array<const char*, size> names{{Entries::stepper::name...}};
+  /// The descriptions, in order.
   static constexpr std::array<const char*, size> descriptions{{Entries::stepper::description...}};
 
-  // Calls f(Entry{}) for every entry, in catalogue order.
+  /// Calls f(Entry{}) for every entry, in catalogue order.
   template <class F>
   static constexpr void for_each(F&& f) {
     (f(Entries{}), ...);
   }
-  // Calls f(Entry{}) for the entry with this id; false (and no call) if there is none.
+  /// Calls f(Entry{}) for the entry with this id; false (and no call) if there is none.
   template <class F>
   static constexpr bool visit_id(std::uint16_t id, F&& f) {
     bool found = false;
     ((!found && Entries::id == id ? (f(Entries{}), found = true) : false), ...);
     return found;
   }
+  /// Whether every stepper meets the contract (stepper_traits.hpp); fails to compile otherwise.
   static constexpr bool all_meet_contract =
       (detail::meets_contract<typename Entries::stepper>() && ...);
+  /// Whether no two entries share an id.
   static constexpr bool ids_unique() noexcept {
     for (std::size_t i = 0; i < size; ++i) {
       for (std::size_t j = 0; j < i; ++j) {
@@ -104,9 +110,9 @@ struct StepperCatalogueOf {
   }
 };
 
-// The catalogue, in the order the tools list it: exponential-map family, Magnus, coning
-// algorithms, Runge–Kutta, embedded pairs, Lie-group methods. Ids are stable (never reused).
-// One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
+/// The catalogue, in the order the tools list it: exponential-map family, Magnus, coning
+/// algorithms, Runge–Kutta, embedded pairs, Lie-group methods. Ids are stable (never reused).
+/// One entry per line, as cmake/HalfspinCatalogue.cmake and fuzz/make_seeds.py read it.
 // clang-format off
 using StepperCatalogue = StepperCatalogueOf<
     CatalogueEntry<0, ExponentialMapHoldEnd>,

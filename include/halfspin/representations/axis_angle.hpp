@@ -1,5 +1,6 @@
 #pragma once
-// Quaternion ↔ axis–angle: a unit axis and an angle (rad) of right-handed rotation about it.
+/// @file
+/// Quaternion ↔ axis–angle: a unit axis and an angle (rad) of right-handed rotation about it.
 
 #include <cmath>
 #include <limits>
@@ -9,16 +10,17 @@
 
 namespace halfspin {
 
+/// A unit axis and a right-handed angle about it (rad).
 template <class T>
 struct AxisAngle {
-  Vector3<T> axis;  // unit vector; (1, 0, 0) by convention when angle is 0
-  T angle;          // rad, in [0, π] from to_axis_angle
+  Vector3<T> axis;  ///< unit vector; (1, 0, 0) by convention when angle is 0
+  T angle;          ///< rad, in [0, π] from to_axis_angle
 };
 
-// Quaternion → axis–angle of the shortest rotation, angle in [0, π]. For the identity (no axis
-// is determined) the axis is (1, 0, 0) and the angle 0. Scale-invariant in q (q ≠ 0): for every
-// finite q with v ≠ 0 the axis is unit to a few ulps and the angle 2·atan2(|v|, w) accurate to a
-// few ulps (to the subnormal spacing when the angle itself is subnormal).
+/// Quaternion → axis–angle of the shortest rotation, angle in [0, π]. For the identity (no axis
+/// is determined) the axis is (1, 0, 0) and the angle 0. Scale-invariant in q (q ≠ 0): for every
+/// finite q with v ≠ 0 the axis is unit to a few ulps and the angle 2·atan2(|v|, w) accurate to a
+/// few ulps (to the subnormal spacing when the angle itself is subnormal).
 template <class T>
 AxisAngle<T> to_axis_angle(const Quaternion<T>& q) noexcept {
   const Quaternion<T> p = q.w < T(0) ? -q : q;
@@ -52,8 +54,8 @@ AxisAngle<T> to_axis_angle(const Quaternion<T>& q) noexcept {
   return {scaled / s, angle};
 }
 
-// Axis–angle → unit quaternion (cos(angle/2), sin(angle/2)·axis). The axis must be unit; any
-// angle is accepted (angle + 2π gives −q, the same rotation).
+/// Axis–angle → unit quaternion (cos(angle/2), sin(angle/2)·axis). The axis must be unit; any
+/// angle is accepted (angle + 2π gives −q, the same rotation).
 template <class T>
 Quaternion<T> quaternion_from_axis_angle(const AxisAngle<T>& a) noexcept {
   const T half = T(0.5) * a.angle;

@@ -1,7 +1,8 @@
 #pragma once
-// Quaternion ↔ Gibbs vector (classical Rodrigues parameters) g = v/w = tan(θ/2)·axis, for the
-// body → reference attitude q = (w, v). Sign-insensitive (q and −q give the same g). Infinite at
-// θ = 180° (w = 0); the result then carries a flag instead of infinities or NaN.
+/// @file
+/// Quaternion ↔ Gibbs vector (classical Rodrigues parameters) g = v/w = tan(θ/2)·axis, for the
+/// body → reference attitude q = (w, v). Sign-insensitive (q and −q give the same g). Infinite at
+/// θ = 180° (w = 0); the result then carries a flag instead of infinities or NaN.
 
 #include <cmath>
 #include <limits>
@@ -11,19 +12,20 @@
 
 namespace halfspin {
 
+/// A Gibbs vector, or the axis of a half turn (see g).
 template <class T>
 struct GibbsVector {
-  // tan(θ/2)·axis (dimensionless) when singular is false. When singular is true the rotation is a
-  // half turn whose Gibbs vector is infinite, and g holds the unit axis instead (the direction in
-  // which g diverges; −g is the same half turn).
+  /// tan(θ/2)·axis (dimensionless) when singular is false. When singular is true the rotation is a
+  /// half turn whose Gibbs vector is infinite, and g holds the unit axis instead (the direction in
+  /// which g diverges; −g is the same half turn).
   Vector3<T> g;
-  bool singular;
+  bool singular;  ///< whether q is a half turn (w = 0)
 };
 
-// Quaternion (body → reference, q ≠ 0, any scale) → Gibbs vector tan(θ/2)·axis, one rounding per
-// component. singular is set when w = 0 or when |v/w| overflows T (w within an ulp-scale of 0);
-// g is then the unit axis sign(w)·v/|v| (+v/|v| for w = ±0). A non-finite q gives a non-finite
-// g with singular false, so bad input is never mistaken for a half turn.
+/// Quaternion (body → reference, q ≠ 0, any scale) → Gibbs vector tan(θ/2)·axis, one rounding per
+/// component. singular is set when w = 0 or when |v/w| overflows T (w within an ulp-scale of 0);
+/// g is then the unit axis sign(w)·v/|v| (+v/|v| for w = ±0). A non-finite q gives a non-finite
+/// g with singular false, so bad input is never mistaken for a half turn.
 template <class T>
 GibbsVector<T> to_gibbs_vector(const Quaternion<T>& q) noexcept {
   const Vector3<T> g = q.vector() / q.w;
@@ -35,10 +37,10 @@ GibbsVector<T> to_gibbs_vector(const Quaternion<T>& q) noexcept {
   return {v / norm(v), true};
 }
 
-// Gibbs vector (body → reference; finite g, or a unit-or-not axis with singular set) → unit
-// quaternion (1, g)/√(1 + |g|²) with w ≥ 0; a singular input gives the half turn (0, g/|g|).
-// Unit to a few ulps for every finite g, however large (|g|² and |g| may overflow T), and for a
-// singular axis of any finite nonzero length (subnormal or near overflow).
+/// Gibbs vector (body → reference; finite g, or a unit-or-not axis with singular set) → unit
+/// quaternion (1, g)/√(1 + |g|²) with w ≥ 0; a singular input gives the half turn (0, g/|g|).
+/// Unit to a few ulps for every finite g, however large (|g|² and |g| may overflow T), and for a
+/// singular axis of any finite nonzero length (subnormal or near overflow).
 template <class T>
 Quaternion<T> quaternion_from_gibbs_vector(const GibbsVector<T>& gibbs) noexcept {
   const Vector3<T>& g = gibbs.g;

@@ -1,7 +1,8 @@
 #pragma once
-// Quaternion ↔ rotation matrix (direction cosine matrix). The matrix R maps body-frame vectors
-// into the reference frame, v_ref = R · v_body, so R(q1 ⊗ q2) = R(q1)·R(q2) and R(−q) = R(q).
-// The reference-to-body direction cosine matrix of many aerospace texts is transpose(R).
+/// @file
+/// Quaternion ↔ rotation matrix (direction cosine matrix). The matrix R maps body-frame vectors
+/// into the reference frame, v_ref = R · v_body, so R(q1 ⊗ q2) = R(q1)·R(q2) and R(−q) = R(q).
+/// The reference-to-body direction cosine matrix of many aerospace texts is transpose(R).
 
 #include <cmath>
 
@@ -10,8 +11,8 @@
 
 namespace halfspin {
 
-// Unit quaternion → rotation matrix (body → reference). A slightly non-unit q is treated as
-// q/|q| (the factor 2/|q|² costs one division and keeps R orthogonal to rounding).
+/// Unit quaternion → rotation matrix (body → reference). A slightly non-unit q is treated as
+/// q/|q| (the factor 2/|q|² costs one division and keeps R orthogonal to rounding).
 template <class T>
 Matrix3<T> to_rotation_matrix(const Quaternion<T>& q) noexcept {
   const T s = T(2) / squared_norm(q);
@@ -23,11 +24,11 @@ Matrix3<T> to_rotation_matrix(const Quaternion<T>& q) noexcept {
            {s * (xz - wy), s * (yz + wx), T(1) - s * (xx + yy)}}};
 }
 
-// Rotation matrix (body → reference) → unit quaternion with w ≥ 0, by Shepperd's method: the
-// largest of 4w², 4x², 4y², 4z² (from the trace and the diagonal) is taken by square root and the
-// other three come from off-diagonal sums or differences divided by it, so no division by a small
-// number occurs for any rotation, including 180° ones. The result is normalized, so a matrix that
-// is orthogonal only to rounding still yields a unit quaternion.
+/// Rotation matrix (body → reference) → unit quaternion with w ≥ 0, by Shepperd's method: the
+/// largest of 4w², 4x², 4y², 4z² (from the trace and the diagonal) is taken by square root and the
+/// other three come from off-diagonal sums or differences divided by it, so no division by a small
+/// number occurs for any rotation, including 180° ones. The result is normalized, so a matrix that
+/// is orthogonal only to rounding still yields a unit quaternion.
 template <class T>
 Quaternion<T> quaternion_from_rotation_matrix(const Matrix3<T>& r) noexcept {
   const T trace = r.m[0][0] + r.m[1][1] + r.m[2][2];

@@ -1,47 +1,48 @@
 #pragma once
-// A synthetic gyro: samples a truth motion as body rates or as delta-angles, with an optional
-// constant bias, seeded white noise and quantization. Allocation-free and deterministic, so the
-// same scenario replays bit for bit on a desktop and on a target.
-//
-// Timing. Sample k is taken at t_k = k·dt, k an integer counter (time is never accumulated by
-// repeated addition, which in float loses resolution within an hour). Rate sample k (k = 0, 1, …)
-// is ω(t_k); delta-angle sample k (k = 1, 2, …) is the integral of ω over (t_{k−1}, t_k].
-//
-// Delta-angles come from the motion's closed-form delta_angle(t0, t1) when it has one; a motion
-// that offers only rate(t) is integrated with the 8-point Gauss–Legendre rule over each sample
-// interval (exact for polynomials of degree 15; for a rate band-limited to Ω rad/s its error is
-// below 2e-23·dt·(Ω dt)^16 times the rate's amplitude, far under roundoff whenever Ω·dt < 1).
-//
-// Errors, applied in this order to each axis:
-//  - bias b (rad/s), constant: adds b to a rate sample and b·dt to a delta-angle;
-//  - white rate noise of density N (rad/s/√Hz, which is also the angle random walk in rad/√s): a
-//    rate sample gets a Gaussian error of σ = N·√(1/dt) = N·√(sample rate); a delta-angle gets
-//    the integral of that noise over its interval, σ = N·√dt. Noise draws are made for every
-//    sample whatever N is, so two gyros with the same seed see the same noise sequence;
-//    the rate random walk and the bias instability draw from a second source of their own
-//    (seeded from the same seed) and only when they are enabled, so a model without them gives
-//    bit for bit the sequence it gave before they existed;
-//  - rate random walk K (rad/s/√s): a bias that random-walks, b(t) = K·W(t), W a standard Wiener
-//    process starting at 0 with the first sample; increments of σ = K·√dt per sample and axis. A
-//    delta-angle gets the exact integral of b over its interval, a rate sample its mean over the
-//    interval of length dt that ends at t_k (as for the white noise: Annex C's relations then hold
-//    from τ = dt in both forms, as for a gyro that averages over its sample interval), drawn
-//    jointly with the increment from two normals z₁, z₂ (common practice, no source: Gaussian
-//    moments of a Wiener process, Var ∫₀^Δ W = Δ³/3, Cov(∫₀^Δ W, W(Δ)) = Δ²/2):
-//        b_end = b + K√dt·z₁,   ∫ b dt = b·dt + K·dt^{3/2}·(z₁/2 + z₂/(2√3));
-//  - bias instability B (rad/s): flicker rate noise, flat Allan deviation √(2 ln 2/π)·B ≈ 0.664·B
-//    over a band of averaging times [flicker_band_shortest, flicker_band_longest], made as a sum
-//    of octave-spaced Gauss–Markov processes, exact in discrete time and integrated exactly over
-//    each sample interval (rate samples: the mean over it, as for the random walk; derivation,
-//    flatness within 1 % over the band, and its limits: truth/bias_instability.hpp);
-//  - quantization to a multiple of the least significant bit (LSB), rounding to nearest: rates
-//    to rate_quantum (rad/s), each sample independently (an instantaneous reading, error ≤ LSB/2);
-//    delta-angles to angle_quantum (rad), carrying the residual to the next sample when
-//    carry_angle_residual is set, as real delta-angle outputs do (they read an accumulating angle
-//    counter). With the carry the sum of the outputs stays within LSB/2 of the sum of the inputs
-//    forever, up to the roundoff of adding the residual in T (each output is within one LSB of its
-//    input); without it the rounding errors add up as a random walk. A quantum of 0 turns
-//    quantization off.
+/// @file
+/// A synthetic gyro: samples a truth motion as body rates or as delta-angles, with an optional
+/// constant bias, seeded white noise and quantization. Allocation-free and deterministic, so the
+/// same scenario replays bit for bit on a desktop and on a target.
+///
+/// Timing. Sample k is taken at t_k = k·dt, k an integer counter (time is never accumulated by
+/// repeated addition, which in float loses resolution within an hour). Rate sample k (k = 0, 1, …)
+/// is ω(t_k); delta-angle sample k (k = 1, 2, …) is the integral of ω over (t_{k−1}, t_k].
+///
+/// Delta-angles come from the motion's closed-form delta_angle(t0, t1) when it has one; a motion
+/// that offers only rate(t) is integrated with the 8-point Gauss–Legendre rule over each sample
+/// interval (exact for polynomials of degree 15; for a rate band-limited to Ω rad/s its error is
+/// below 2e-23·dt·(Ω dt)^16 times the rate's amplitude, far under roundoff whenever Ω·dt < 1).
+///
+/// Errors, applied in this order to each axis:
+///  - bias b (rad/s), constant: adds b to a rate sample and b·dt to a delta-angle;
+///  - white rate noise of density N (rad/s/√Hz, which is also the angle random walk in rad/√s): a
+///    rate sample gets a Gaussian error of σ = N·√(1/dt) = N·√(sample rate); a delta-angle gets
+///    the integral of that noise over its interval, σ = N·√dt. Noise draws are made for every
+///    sample whatever N is, so two gyros with the same seed see the same noise sequence;
+///    the rate random walk and the bias instability draw from a second source of their own
+///    (seeded from the same seed) and only when they are enabled, so a model without them gives
+///    bit for bit the sequence it gave before they existed;
+///  - rate random walk K (rad/s/√s): a bias that random-walks, b(t) = K·W(t), W a standard Wiener
+///    process starting at 0 with the first sample; increments of σ = K·√dt per sample and axis. A
+///    delta-angle gets the exact integral of b over its interval, a rate sample its mean over the
+///    interval of length dt that ends at t_k (as for the white noise: Annex C's relations then hold
+///    from τ = dt in both forms, as for a gyro that averages over its sample interval), drawn
+///    jointly with the increment from two normals z₁, z₂ (common practice, no source: Gaussian
+///    moments of a Wiener process, Var ∫₀^Δ W = Δ³/3, Cov(∫₀^Δ W, W(Δ)) = Δ²/2):
+///        b_end = b + K√dt·z₁,   ∫ b dt = b·dt + K·dt^{3/2}·(z₁/2 + z₂/(2√3));
+///  - bias instability B (rad/s): flicker rate noise, flat Allan deviation √(2 ln 2/π)·B ≈ 0.664·B
+///    over a band of averaging times [flicker_band_shortest, flicker_band_longest], made as a sum
+///    of octave-spaced Gauss–Markov processes, exact in discrete time and integrated exactly over
+///    each sample interval (rate samples: the mean over it, as for the random walk; derivation,
+///    flatness within 1 % over the band, and its limits: truth/bias_instability.hpp);
+///  - quantization to a multiple of the least significant bit (LSB), rounding to nearest: rates
+///    to rate_quantum (rad/s), each sample independently (an instantaneous reading, error ≤ LSB/2);
+///    delta-angles to angle_quantum (rad), carrying the residual to the next sample when
+///    carry_angle_residual is set, as real delta-angle outputs do (they read an accumulating angle
+///    counter). With the carry the sum of the outputs stays within LSB/2 of the sum of the inputs
+///    forever, up to the roundoff of adding the residual in T (each output is within one LSB of its
+///    input); without it the rounding errors add up as a random walk. A quantum of 0 turns
+///    quantization off.
 
 #include <array>
 #include <cmath>
@@ -57,17 +58,17 @@
 
 namespace halfspin {
 
-// A small seeded pseudo-random source: 64-bit state advanced by a Weyl sequence and scrambled by
-// the SplitMix64 output mix (Steele, Lea and Flood, OOPSLA 2014; constants from memory), turned
-// into standard normal deviates by the Box–Muller transform. Statistical quality is ample for
-// sensor-noise simulation; it is not for cryptography.
+/// A small seeded pseudo-random source: 64-bit state advanced by a Weyl sequence and scrambled by
+/// the SplitMix64 output mix (Steele, Lea and Flood, OOPSLA 2014; constants from memory), turned
+/// into standard normal deviates by the Box–Muller transform. Statistical quality is ample for
+/// sensor-noise simulation; it is not for cryptography.
 template <class T>
 class GaussianNoiseSource {
  public:
-  // Seeds the generator; any 64-bit seed is valid, including 0.
+  /// Seeds the generator; any 64-bit seed is valid, including 0.
   constexpr explicit GaussianNoiseSource(std::uint64_t seed) noexcept : state_(seed) {}
 
-  // The next 64 pseudo-random bits.
+  /// The next 64 pseudo-random bits.
   constexpr std::uint64_t next_bits() noexcept {
     state_ += 0x9E3779B97F4A7C15ULL;
     std::uint64_t z = state_;
@@ -76,16 +77,16 @@ class GaussianNoiseSource {
     return z ^ (z >> 31);
   }
 
-  // Uniform deviate in (0, 1], with the type's full mantissa (up to 64 bits); never 0, so its
-  // logarithm is finite.
+  /// Uniform deviate in (0, 1], with the type's full mantissa (up to 64 bits); never 0, so its
+  /// logarithm is finite.
   T next_uniform() noexcept {
     constexpr int bits = std::numeric_limits<T>::digits < 64 ? std::numeric_limits<T>::digits : 64;
     const std::uint64_t m = next_bits() >> (64 - bits);
     return std::ldexp(static_cast<T>(m) + T(1), -bits);
   }
 
-  // Standard normal deviate (mean 0, variance 1). Box–Muller yields two per pair of uniforms; the
-  // second is kept for the next call.
+  /// Standard normal deviate (mean 0, variance 1). Box–Muller yields two per pair of uniforms; the
+  /// second is kept for the next call.
   T next_gaussian() noexcept {
     if (has_spare_) {
       has_spare_ = false;
@@ -106,15 +107,15 @@ class GaussianNoiseSource {
   bool has_spare_{false};
 };
 
-// Rounds x to the nearest multiple of quantum (half-way cases away from zero); quantum 0 returns
-// x unchanged. Units are those of x (rad/s or rad).
+/// Rounds x to the nearest multiple of quantum (half-way cases away from zero); quantum 0 returns
+/// x unchanged. Units are those of x (rad/s or rad).
 template <class T>
 T quantize(T x, T quantum) noexcept {
   return quantum > T(0) ? quantum * std::round(x / quantum) : x;
 }
 
-// Whether a truth motion has a closed-form delta_angle(t0, t1) (else it is integrated from
-// rate(t)).
+/// Whether a truth motion has a closed-form delta_angle(t0, t1) (else it is integrated from
+/// rate(t)).
 template <class Motion, class T, class = void>
 struct has_closed_form_delta_angle : std::false_type {};
 template <class Motion, class T>
@@ -122,8 +123,8 @@ struct has_closed_form_delta_angle<Motion, T,
                                    std::void_t<decltype(std::declval<const Motion&>().delta_angle(
                                        std::declval<T>(), std::declval<T>()))>> : std::true_type {};
 
-// The integral of motion.rate(t) (rad/s) over [t0, t1] (s), in rad, by the 8-point Gauss–Legendre
-// rule on that interval.
+/// The integral of motion.rate(t) (rad/s) over [t0, t1] (s), in rad, by the 8-point Gauss–Legendre
+/// rule on that interval.
 template <class T, class Motion>
 Vector3<T> gauss_legendre_delta_angle(const Motion& motion, T t0, T t1) noexcept {
   // Nodes ±x_i on [−1, 1] and their weights, computed to 30 digits by Newton's method on the
@@ -144,8 +145,8 @@ Vector3<T> gauss_legendre_delta_angle(const Motion& motion, T t0, T t1) noexcept
   return half * sum;
 }
 
-// The integral of the body rate over (t0, t1] (s), in rad: closed form when the motion has one,
-// otherwise Gauss–Legendre quadrature of rate(t).
+/// The integral of the body rate over (t0, t1] (s), in rad: closed form when the motion has one,
+/// otherwise Gauss–Legendre quadrature of rate(t).
 template <class T, class Motion>
 Vector3<T> truth_delta_angle(const Motion& motion, T t0, T t1) noexcept {
   if constexpr (has_closed_form_delta_angle<Motion, T>::value) {
@@ -155,32 +156,33 @@ Vector3<T> truth_delta_angle(const Motion& motion, T t0, T t1) noexcept {
   }
 }
 
-// Which quantity the gyro outputs.
+/// Which quantity the gyro outputs.
 enum class GyroOutputForm : std::uint8_t {
-  rate,        // body rate at the sample time, rad/s
-  delta_angle  // integral of the body rate over the sample interval, rad
+  rate,        ///< body rate at the sample time, rad/s
+  delta_angle  ///< integral of the body rate over the sample interval, rad
 };
 
-// The gyro's error model; all zero is a perfect gyro.
+/// The gyro's error model; all zero is a perfect gyro.
 template <class T>
 struct GyroErrorModel {
-  Vector3<T> bias{};                // rad/s per axis, constant
-  T noise_density{};                // N, rad/s/√Hz (= rad/√s), white rate noise
-  T rate_quantum{};                 // rad/s, LSB of a rate output; 0 = not quantized
-  T angle_quantum{};                // rad, LSB of a delta-angle output; 0 = not quantized
-  bool carry_angle_residual{true};  // delta-angles: carry the rounding residual to the next sample
-  T rate_random_walk{};             // K, rad/s/√s; 0 = none
-  T bias_instability{};             // B, rad/s; 0 = none
-  T flicker_band_shortest{};        // s: B's flat Allan band starts here (needs B > 0)
-  T flicker_band_longest{};         // s: and ends here (truth/bias_instability.hpp, §4)
+  Vector3<T> bias{};  ///< rad/s per axis, constant
+  T noise_density{};  ///< N, rad/s/√Hz (= rad/√s), white rate noise
+  T rate_quantum{};   ///< rad/s, LSB of a rate output; 0 = not quantized
+  T angle_quantum{};  ///< rad, LSB of a delta-angle output; 0 = not quantized
+  /// delta-angles: carry the rounding residual to the next sample
+  bool carry_angle_residual{true};
+  T rate_random_walk{};       ///< K, rad/s/√s; 0 = none
+  T bias_instability{};       ///< B, rad/s; 0 = none
+  T flicker_band_shortest{};  ///< s: B's flat Allan band starts here (needs B > 0)
+  T flicker_band_longest{};   ///< s: and ends here (truth/bias_instability.hpp, §4)
 };
 
-// Samples `Motion` (anything with rate(T) → Vector3<T> in rad/s, and optionally
-// delta_angle(T, T) → Vector3<T> in rad) at a fixed sample period. Holds a copy of the motion.
+/// Samples `Motion` (anything with rate(T) → Vector3<T> in rad/s, and optionally
+/// delta_angle(T, T) → Vector3<T> in rad) at a fixed sample period. Holds a copy of the motion.
 template <class T, class Motion>
 class SyntheticGyro {
  public:
-  // form: rates or delta-angles; sample_period dt > 0 in s; seed: the noise sequence.
+  /// form: rates or delta-angles; sample_period dt > 0 in s; seed: the noise sequence.
   SyntheticGyro(const Motion& motion, GyroOutputForm form, T sample_period,
                 const GyroErrorModel<T>& model, std::uint64_t seed) noexcept
       : motion_(motion),
@@ -200,8 +202,8 @@ class SyntheticGyro {
     instability_.start(normal());
   }
 
-  // The next sample: a rate (rad/s) at t_k = k·dt, or a delta-angle (rad) over (t_{k−1}, t_k];
-  // advances k.
+  /// The next sample: a rate (rad/s) at t_k = k·dt, or a delta-angle (rad) over (t_{k−1}, t_k];
+  /// advances k.
   Vector3<T> next() noexcept {
     const Vector3<T> noise{noise_.next_gaussian(), noise_.next_gaussian(), noise_.next_gaussian()};
     Vector3<T> out;
@@ -228,30 +230,30 @@ class SyntheticGyro {
     return out;
   }
 
-  // Index k of the sample the next call to next() returns.
+  /// Index k of the sample the next call to next() returns.
   constexpr std::int64_t next_index() const noexcept { return index_; }
-  // Sample time t_k = k·dt (s), computed from the integer k.
+  /// Sample time t_k = k·dt (s), computed from the integer k.
   constexpr T sample_time(std::int64_t k) const noexcept { return static_cast<T>(k) * dt_; }
-  // Error-free rate (rad/s) at t_k.
+  /// Error-free rate (rad/s) at t_k.
   Vector3<T> truth_rate(std::int64_t k) const noexcept { return motion_.rate(sample_time(k)); }
-  // Error-free delta-angle (rad) over (t_{k−1}, t_k].
+  /// Error-free delta-angle (rad) over (t_{k−1}, t_k].
   Vector3<T> truth_delta_angle_sample(std::int64_t k) const noexcept {
     return truth_delta_angle(motion_, sample_time(k - 1), sample_time(k));
   }
-  // Quantization residual (rad) carried into the next delta-angle; |each axis| ≤ angle_quantum/2.
+  /// Quantization residual (rad) carried into the next delta-angle; |each axis| ≤ angle_quantum/2.
   constexpr const Vector3<T>& carried_residual() const noexcept { return residual_; }
-  // σ of the noise on one output sample: rad/s for rates, rad for delta-angles.
+  /// σ of the noise on one output sample: rad/s for rates, rad for delta-angles.
   constexpr T noise_sigma() const noexcept {
     return form_ == GyroOutputForm::rate ? rate_sigma_ : angle_sigma_;
   }
-  // The rate random walk's bias (rad/s) at the next sample's time (rates) or at the start of the
-  // next sample's interval (delta-angles).
+  /// The rate random walk's bias (rad/s) at the next sample's time (rates) or at the start of the
+  /// next sample's interval (delta-angles).
   constexpr const Vector3<T>& rate_random_walk_bias() const noexcept { return walk_; }
-  // The bias-instability processes (truth/bias_instability.hpp): count, correlation times, band.
+  /// The bias-instability processes (truth/bias_instability.hpp): count, correlation times, band.
   constexpr const BiasInstabilityBank<T>& bias_instability() const noexcept { return instability_; }
-  // Whether next() returns rates (rad/s) or delta-angles (rad).
+  /// Whether next() returns rates (rad/s) or delta-angles (rad).
   constexpr GyroOutputForm form() const noexcept { return form_; }
-  // The sample period dt, s.
+  /// The sample period dt, s.
   constexpr T sample_period() const noexcept { return dt_; }
 
  private:
