@@ -192,18 +192,22 @@ constexpr auto every_candidate(ChoiceList<Choices...> /*choices*/) noexcept {
 // The build's selection (halfspin_c.h: HALFSPIN_C_STEPPERS, HALFSPIN_C_RENORMALIZATIONS,
 // HALFSPIN_C_ACCUMULATIONS, bit masks; all listed configurations by default). A configuration left
 // out is neither instantiated nor linked, and init refuses it as unsupported.
-#ifndef HALFSPIN_C_STEPPERS
-#define HALFSPIN_C_STEPPERS 0xFFFFFFFFUL
-#endif
-#ifndef HALFSPIN_C_RENORMALIZATIONS
-#define HALFSPIN_C_RENORMALIZATIONS 0xFFFFFFFFUL
-#endif
-#ifndef HALFSPIN_C_ACCUMULATIONS
-#define HALFSPIN_C_ACCUMULATIONS 0xFFFFFFFFUL
-#endif
+constexpr unsigned long every_value = ~0UL;
+#ifdef HALFSPIN_C_STEPPERS
 constexpr unsigned long selected_steppers = HALFSPIN_C_STEPPERS;
+#else
+constexpr unsigned long selected_steppers = every_value;
+#endif
+#ifdef HALFSPIN_C_RENORMALIZATIONS
 constexpr unsigned long selected_renormalizations = HALFSPIN_C_RENORMALIZATIONS;
+#else
+constexpr unsigned long selected_renormalizations = every_value;
+#endif
+#ifdef HALFSPIN_C_ACCUMULATIONS
 constexpr unsigned long selected_accumulations = HALFSPIN_C_ACCUMULATIONS;
+#else
+constexpr unsigned long selected_accumulations = every_value;
+#endif
 
 template <class T>
 constexpr bool selected(const Operations<T>& op) noexcept {
@@ -243,7 +247,7 @@ template <class T>
 struct Table {
   static constexpr auto entries = make_table<T>();
 };
-static_assert(Table<float>::entries.size() > 0,
+static_assert(!Table<float>::entries.empty(),
               "HALFSPIN_C_STEPPERS, _RENORMALIZATIONS and _ACCUMULATIONS leave no configuration");
 
 // ---- Storage: a header, then the propagator ----------------------------------------------------
@@ -261,17 +265,22 @@ struct Storage;
 template <>
 struct Storage<float> {
   using type = halfspin_propagator_f;
+  static constexpr std::size_t bytes = HALFSPIN_PROPAGATOR_F_STORAGE;
 };
 template <>
 struct Storage<double> {
   using type = halfspin_propagator_d;
+  static constexpr std::size_t bytes = HALFSPIN_PROPAGATOR_D_STORAGE;
 };
 
 template <class T>
 constexpr bool every_configuration_fits() noexcept {
   using S = typename Storage<T>::type;
+  if (sizeof(S) < Storage<T>::bytes) {
+    return false;
+  }
   for (const Operations<T>& op : every_candidate<T>(Steppers{})) {  // selected or not
-    if (object_offset + op.size > sizeof(S::storage.bytes) || op.alignment > alignof(S) ||
+    if (object_offset + op.size > Storage<T>::bytes || op.alignment > alignof(S) ||
         object_offset % op.alignment != 0) {
       return false;
     }
@@ -283,6 +292,48 @@ static_assert(every_configuration_fits<float>(),
 static_assert(every_configuration_fits<double>(),
               "raise HALFSPIN_PROPAGATOR_D_STORAGE: a double configuration does not fit");
 
+// The storage's bytes: the header at 0, the propagator at object_offset. The C union is an opaque
+// byte array whose other members only align it; only these two functions reach into it.
+template <class S>
+unsigned char* bytes_of(S* p) noexcept {
+  return &p->storage.bytes[0];  // NOLINT(cppcoreguidelines-pro-type-union-access): see above
+}
+template <class S>
+const unsigned char* bytes_of(const S* p) noexcept {
+  return &p->storage.bytes[0];  // NOLINT(cppcoreguidelines-pro-type-union-access): see above
+}
+// Where the propagator lives (placement-constructed there by init; every_configuration_fits).
+template <class S>
+void* object_in(S* p) noexcept {
+  return bytes_of(p) + object_offset;  // NOLINT(cppcoreguidelines-pro-bounds-pointer-arithmetic)
+}
+template <class S>
+const void* object_in(const S* p) noexcept {
+  return bytes_of(p) + object_offset;  // NOLINT(cppcoreguidelines-pro-bounds-pointer-arithmetic)
+}
+
+// A C array of N values in, or out: copied whole, bit for bit.
+template <std::size_t N, class T>
+std::array<T, N> from_c(const T* values) noexcept {
+  std::array<T, N> a{};
+  std::memcpy(a.data(), values, sizeof a);
+  return a;
+}
+template <std::size_t N, class T>
+void to_c(const std::array<T, N>& a, T* out) noexcept {
+  std::memcpy(out, a.data(), sizeof a);
+}
+template <class T>
+Quaternion<T> quaternion_from_c(const T* wxyz) noexcept {
+  const std::array<T, 4> q = from_c<4>(wxyz);
+  return {q[0], q[1], q[2], q[3]};
+}
+template <class T>
+Vector3<T> vector_from_c(const T* xyz) noexcept {
+  const std::array<T, 3> v = from_c<3>(xyz);
+  return {v[0], v[1], v[2]};
+}
+
 // The configuration's operations if *p was set up by init, else null.
 template <class T>
 const Operations<T>* operations_of(const typename Storage<T>::type* p) noexcept {
@@ -290,7 +341,7 @@ const Operations<T>* operations_of(const typename Storage<T>::type* p) noexcept 
     return nullptr;
   }
   Header header{};
-  std::memcpy(&header, p->storage.bytes, sizeof header);
+  std::memcpy(&header, bytes_of(p), sizeof header);
   if (header.marker != initialized_marker || header.index >= Table<T>::entries.size()) {
     return nullptr;
   }
@@ -302,9 +353,11 @@ halfspin_status not_set_up(const typename Storage<T>::type* p) noexcept {
   return p == nullptr ? HALFSPIN_INVALID_ARGUMENT : HALFSPIN_NOT_INITIALIZED;
 }
 
+// An attitude init and reset accept: ‖q‖² positive and finite (so no NaN or infinity), as the
+// propagator requires of its state. Not required to be unit: the C++ constructor takes it as given.
 template <class T>
-bool usable_attitude(const T* wxyz) noexcept {
-  const T n2 = wxyz[0] * wxyz[0] + wxyz[1] * wxyz[1] + wxyz[2] * wxyz[2] + wxyz[3] * wxyz[3];
+bool usable_attitude(const Quaternion<T>& q) noexcept {
+  const T n2 = q.w * q.w + q.x * q.x + q.y * q.y + q.z * q.z;
   return n2 > T(0) && n2 <= std::numeric_limits<T>::max();  // false for NaN too
 }
 
@@ -321,7 +374,11 @@ constexpr halfspin_accumulation resolved(halfspin_accumulation a) noexcept {
 template <class T>
 halfspin_status init(typename Storage<T>::type* p, halfspin_configuration configuration,
                      const T* initial, T max_rate, T max_step, T tick_period) noexcept {
-  if (p == nullptr || initial == nullptr || !usable_attitude(initial)) {
+  if (p == nullptr || initial == nullptr) {
+    return HALFSPIN_INVALID_ARGUMENT;
+  }
+  const Quaternion<T> q = quaternion_from_c(initial);
+  if (!usable_attitude(q)) {
     return HALFSPIN_INVALID_ARGUMENT;
   }
   const halfspin_accumulation accumulation = resolved<T>(configuration.accumulation);
@@ -330,19 +387,18 @@ halfspin_status init(typename Storage<T>::type* p, halfspin_configuration config
     if (op.configuration.stepper == configuration.stepper &&
         op.configuration.renormalization == configuration.renormalization &&
         op.configuration.accumulation == accumulation) {
-      op.construct(p->storage.bytes + object_offset,
-                   Quaternion<T>{initial[0], initial[1], initial[2], initial[3]},
-                   GyroLimits<T>{max_rate, max_step}, tick_period);
+      op.construct(object_in(p), q, GyroLimits<T>{max_rate, max_step}, tick_period);
       const Header header{initialized_marker, static_cast<std::uint32_t>(i)};
-      std::memcpy(p->storage.bytes, &header, sizeof header);
+      std::memcpy(bytes_of(p), &header, sizeof header);
       return HALFSPIN_OK;
     }
   }
   return HALFSPIN_UNSUPPORTED_CONFIGURATION;
 }
 
-template <class T>
-halfspin_status push(typename Storage<T>::type* p, const T* sample, T dt,
+// A sample over an interval in seconds (T) or in ticks (Ticks).
+template <class T, class Interval>
+halfspin_status push(typename Storage<T>::type* p, const T* sample, Interval interval,
                      halfspin_input_kind kind) noexcept {
   const Operations<T>* op = operations_of<T>(p);
   if (op == nullptr) {
@@ -354,25 +410,12 @@ halfspin_status push(typename Storage<T>::type* p, const T* sample, T dt,
   if (op->input != kind) {
     return HALFSPIN_WRONG_INPUT_KIND;
   }
-  return static_cast<halfspin_status>(
-      op->push(p->storage.bytes + object_offset, Vector3<T>{sample[0], sample[1], sample[2]}, dt));
-}
-
-template <class T>
-halfspin_status push_ticks(typename Storage<T>::type* p, const T* sample, std::uint32_t ticks,
-                           halfspin_input_kind kind) noexcept {
-  const Operations<T>* op = operations_of<T>(p);
-  if (op == nullptr) {
-    return not_set_up<T>(p);
+  if constexpr (std::is_same<Interval, Ticks>::value) {
+    return static_cast<halfspin_status>(
+        op->push_ticks(object_in(p), vector_from_c(sample), interval));
+  } else {
+    return static_cast<halfspin_status>(op->push(object_in(p), vector_from_c(sample), interval));
   }
-  if (sample == nullptr) {
-    return HALFSPIN_INVALID_ARGUMENT;
-  }
-  if (op->input != kind) {
-    return HALFSPIN_WRONG_INPUT_KIND;
-  }
-  return static_cast<halfspin_status>(op->push_ticks(
-      p->storage.bytes + object_offset, Vector3<T>{sample[0], sample[1], sample[2]}, Ticks{ticks}));
 }
 
 template <class T>
@@ -381,11 +424,14 @@ halfspin_status reset(typename Storage<T>::type* p, const T* attitude) noexcept 
   if (op == nullptr) {
     return not_set_up<T>(p);
   }
-  if (attitude == nullptr || !usable_attitude(attitude)) {
+  if (attitude == nullptr) {
     return HALFSPIN_INVALID_ARGUMENT;
   }
-  op->reset(p->storage.bytes + object_offset,
-            Quaternion<T>{attitude[0], attitude[1], attitude[2], attitude[3]});
+  const Quaternion<T> q = quaternion_from_c(attitude);
+  if (!usable_attitude(q)) {
+    return HALFSPIN_INVALID_ARGUMENT;
+  }
+  op->reset(object_in(p), q);
   return HALFSPIN_OK;
 }
 
@@ -398,11 +444,8 @@ halfspin_status attitude(const typename Storage<T>::type* p, T* out) noexcept {
   if (out == nullptr) {
     return HALFSPIN_INVALID_ARGUMENT;
   }
-  const Quaternion<T> q = op->attitude(p->storage.bytes + object_offset);
-  out[0] = q.w;
-  out[1] = q.x;
-  out[2] = q.y;
-  out[3] = q.z;
+  const Quaternion<T> q = op->attitude(object_in(p));
+  to_c(std::array<T, 4>{{q.w, q.x, q.y, q.z}}, out);
   return HALFSPIN_OK;
 }
 
@@ -419,10 +462,8 @@ halfspin_status euler_angles(const typename Storage<T>::type* p, halfspin_euler_
     return HALFSPIN_INVALID_ARGUMENT;
   }
   const halfspin::EulerDecomposition<T> e = halfspin::to_euler_angles(
-      op->attitude(p->storage.bytes + object_offset), static_cast<halfspin::EulerSequence>(s));
-  out[0] = e.angles.first;
-  out[1] = e.angles.second;
-  out[2] = e.angles.third;
+      op->attitude(object_in(p)), static_cast<halfspin::EulerSequence>(s));
+  to_c(std::array<T, 3>{{e.angles.first, e.angles.second, e.angles.third}}, out);
   *out_near_singular = e.near_singular ? 1 : 0;
   return HALFSPIN_OK;
 }
@@ -436,7 +477,7 @@ halfspin_status counters(const typename Storage<T>::type* p, halfspin_counters* 
   if (out == nullptr) {
     return HALFSPIN_INVALID_ARGUMENT;
   }
-  const void* object = p->storage.bytes + object_offset;
+  const void* object = object_in(p);
   const PropagationCounters c = op->counters(object);
   out->samples_accepted = c.samples_accepted;
   out->steps = c.steps;
@@ -459,7 +500,7 @@ halfspin_status elapsed_seconds(const typename Storage<T>::type* p, T* out) noex
   if (out == nullptr) {
     return HALFSPIN_INVALID_ARGUMENT;
   }
-  *out = op->elapsed_seconds(p->storage.bytes + object_offset);
+  *out = op->elapsed_seconds(object_in(p));
   return HALFSPIN_OK;
 }
 
@@ -563,11 +604,11 @@ halfspin_status halfspin_push_delta_angle_f(halfspin_propagator_f* p, const floa
 }
 halfspin_status halfspin_push_rate_ticks_f(halfspin_propagator_f* p, const float rate[3],
                                            uint32_t ticks) {
-  return push_ticks<float>(p, rate, ticks, HALFSPIN_INPUT_RATE);
+  return push<float>(p, rate, Ticks{ticks}, HALFSPIN_INPUT_RATE);
 }
 halfspin_status halfspin_push_delta_angle_ticks_f(halfspin_propagator_f* p,
                                                   const float delta_angle[3], uint32_t ticks) {
-  return push_ticks<float>(p, delta_angle, ticks, HALFSPIN_INPUT_DELTA_ANGLE);
+  return push<float>(p, delta_angle, Ticks{ticks}, HALFSPIN_INPUT_DELTA_ANGLE);
 }
 halfspin_status halfspin_reset_f(halfspin_propagator_f* p, const float attitude_wxyz[4]) {
   return reset<float>(p, attitude_wxyz);
@@ -605,11 +646,11 @@ halfspin_status halfspin_push_delta_angle_d(halfspin_propagator_d* p, const doub
 }
 halfspin_status halfspin_push_rate_ticks_d(halfspin_propagator_d* p, const double rate[3],
                                            uint32_t ticks) {
-  return push_ticks<double>(p, rate, ticks, HALFSPIN_INPUT_RATE);
+  return push<double>(p, rate, Ticks{ticks}, HALFSPIN_INPUT_RATE);
 }
 halfspin_status halfspin_push_delta_angle_ticks_d(halfspin_propagator_d* p,
                                                   const double delta_angle[3], uint32_t ticks) {
-  return push_ticks<double>(p, delta_angle, ticks, HALFSPIN_INPUT_DELTA_ANGLE);
+  return push<double>(p, delta_angle, Ticks{ticks}, HALFSPIN_INPUT_DELTA_ANGLE);
 }
 halfspin_status halfspin_reset_d(halfspin_propagator_d* p, const double attitude_wxyz[4]) {
   return reset<double>(p, attitude_wxyz);
