@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Static analysis of include/halfspin and examples/tools (issue 8, "Hardening"): clang-tidy with the
+# Static analysis of include/halfspin, examples/tools and the C interface c/ (issue 8, "Hardening"): clang-tidy with the
 # checked-in .clang-tidy and cppcheck with cmake/static_analysis/cppcheck_suppressions.txt. Exits
 # non-zero on any finding. CI runs it (`bash cmake/static_analysis.sh`); Debian packages: cmake,
 # clang (or g++), clang-tidy, cppcheck, python3.
@@ -10,10 +10,11 @@
 #     instantiated in float and double;
 #   - the tools' sources (examples/tools/**.cpp), which instantiate the steppers, the propagator,
 #     the bounds and the truth motions in both scalar types;
+#   - the C interface's translation unit (c/halfspin_c.cpp, every configuration it lists);
 #   - with --per-header, also one generated unit per public header (build/lint/headers/); it finds
 #     nothing more today (each header's text is already in the umbrella unit, and self-containment
 #     is the build check `headers_self_contained`), so CI leaves it out to save a minute.
-# Findings are reported in include/halfspin and examples/tools only.
+# Findings are reported in include/halfspin, examples/tools and c/ only.
 #
 # Environment: HALFSPIN_LINT_DIR (default build/lint), HALFSPIN_LINT_JOBS (default 2),
 # CLANG_TIDY / RUN_CLANG_TIDY / CPPCHECK (the binaries).
@@ -75,8 +76,9 @@ python3 - "$root" "$build" <<'PY'
 import json, os, shlex, sys
 root, build = sys.argv[1], sys.argv[2]
 db = json.load(open(os.path.join(build, "compile_commands.json")))
-# Only the tools from CMake's database: the examples' own sources are not under analysis.
-db = [e for e in db if "/examples/tools/" in e["file"]]
+# Only the tools and the C interface from CMake's database: the examples' own sources are not
+# under analysis.
+db = [e for e in db if "/examples/tools/" in e["file"] or e["file"].endswith("/c/halfspin_c.cpp")]
 template = next(e for e in db if e["file"].endswith("examples/tools/stepstudy/stepstudy.cpp"))
 args = shlex.split(template["command"])
 args = [a for i, a in enumerate(args)
@@ -91,7 +93,7 @@ json.dump(db, open(os.path.join(build, "db", "compile_commands.json"), "w"), ind
 PY
 
 # Findings are reported in these files only.
-line_filter=$(find include/halfspin examples/tools \( -name '*.hpp' -o -name '*.cpp' \) \
+line_filter=$(find include/halfspin examples/tools c \( -name '*.hpp' -o -name '*.cpp' -o -name '*.h' \) \
   | LC_ALL=C sort | sed 's|.*|{"name":"&"}|' | paste -sd, -)
 line_filter="[$line_filter]"
 
@@ -128,12 +130,12 @@ if ((run_cppcheck)); then
   mkdir -p "$build/cppcheck"
   cppcheck_log="$build/cppcheck.log"
   cppcheck_status=0
-  units=(cmake/static_analysis/instantiations.cpp)
+  units=(cmake/static_analysis/instantiations.cpp c/halfspin_c.cpp)
   while IFS= read -r f; do units+=("$f"); done < <(find examples/tools -name '*.cpp' | LC_ALL=C sort)
   "$cppcheck" --std=c++17 --language=c++ --library=posix \
     --enable=warning,performance,portability,style --inline-suppr \
     --suppressions-list=cmake/static_analysis/cppcheck_suppressions.txt \
-    -I include -I examples/tools/common --cppcheck-build-dir="$build/cppcheck" -j "$jobs" \
+    -I include -I examples/tools/common -I c --cppcheck-build-dir="$build/cppcheck" -j "$jobs" \
     --error-exitcode=1 --quiet --template='{file}:{line}:{column}: {severity}: {message} [{id}]' \
     "${units[@]}" >"$cppcheck_log" 2>&1 || cppcheck_status=$?
   if [[ -s $cppcheck_log || $cppcheck_status -ne 0 ]]; then

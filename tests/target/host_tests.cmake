@@ -30,6 +30,12 @@ foreach(cpu IN LISTS HALFSPIN_TARGET_CPUS)
   set_tests_properties(target.${cpu}.tests PROPERTIES
     LABELS target FIXTURES_REQUIRED target_${cpu} TIMEOUT 600)
 
+  # The C interface test (tests/c_interface) on the core: bit-identical to the C++ propagator.
+  add_test(NAME target.${cpu}.c_interface COMMAND ${qemu} "${bin}/halfspin_c_interface_tests.elf")
+  set_tests_properties(target.${cpu}.c_interface PROPERTIES
+    LABELS target FIXTURES_REQUIRED target_${cpu} TIMEOUT 600
+    PASS_REGULAR_EXPRESSION "c_interface: [1-9][0-9]* passed, 0 failed")
+
   include("${CMAKE_CURRENT_LIST_DIR}/host_firmware.cmake")
   include("${CMAKE_CURRENT_LIST_DIR}/host_footprint.cmake")
   include("${CMAKE_CURRENT_LIST_DIR}/host_replay.cmake")
