@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# The test command (README "Set up"): makes sure the Debian packages the check preset needs are
+# The test command (README "Test"): makes sure the Debian packages the check preset needs are
 # installed, then runs every test with `cmake --workflow --preset check` (compiler from $CXX,
 # default c++). Run as root, it installs what is missing with apt-get; run as anyone else, it
 # prints the one apt-get line to run and stops. Debian 12 package names.
@@ -9,8 +9,9 @@ cd "$(dirname "$0")/.."
 # cmake and a C++17 compiler; Catch2 2, Eigen 3, Boost (Odeint, header-only) and GSL for the
 # tests' outside references; xmllint and rsvg-convert check the tools' SVG charts; python3 with
 # numpy for the scripted checks; the Arm cross toolchain, newlib and qemu build the Cortex-M
-# images and run them (without those four, configure with -DHALFSPIN_TARGET_TESTS=OFF yourself).
-packages=(cmake g++ catch2 libeigen3-dev libboost-dev libgsl-dev libxml2-utils librsvg2-bin
+# images and run them (without those four, configure with -DHALFSPIN_TARGET_TESTS=OFF yourself);
+# gcc and clang build the C interface's test as strict C99 with each compiler.
+packages=(cmake g++ gcc clang catch2 libeigen3-dev libboost-dev libgsl-dev libxml2-utils librsvg2-bin
           python3 python3-numpy gcc-arm-none-eabi libnewlib-arm-none-eabi
           libstdc++-arm-none-eabi-newlib qemu-system-arm)
 

@@ -1,17 +1,16 @@
 # The C interface test on the host (label consumer): the standalone project beside this file built
-# with gcc and with clang (each one that is installed; both in CI) and run. The Cortex-M4F and
+# with gcc and with clang (both required: scripts/test.sh installs them) and run. The Cortex-M4F and
 # Cortex-M3 runs are in tests/target (target.<cpu>.c_interface).
 find_program(HALFSPIN_GCC gcc)
 find_program(HALFSPIN_GXX g++)
 find_program(HALFSPIN_CLANG clang)
 find_program(HALFSPIN_CLANGXX clang++)
-set(_halfspin_c_pairs "")
-if(HALFSPIN_GCC AND HALFSPIN_GXX)
-  list(APPEND _halfspin_c_pairs "gcc|${HALFSPIN_GCC}|${HALFSPIN_GXX}")
+if(NOT HALFSPIN_GCC OR NOT HALFSPIN_GXX OR NOT HALFSPIN_CLANG OR NOT HALFSPIN_CLANGXX)
+  message(FATAL_ERROR "The C interface's test is built with gcc and with clang; install both "
+                      "(Debian: gcc g++ clang; bash scripts/test.sh does) or configure with "
+                      "-DHALFSPIN_BUILD_TESTS=OFF.")
 endif()
-if(HALFSPIN_CLANG AND HALFSPIN_CLANGXX)
-  list(APPEND _halfspin_c_pairs "clang|${HALFSPIN_CLANG}|${HALFSPIN_CLANGXX}")
-endif()
+set(_halfspin_c_pairs "gcc|${HALFSPIN_GCC}|${HALFSPIN_GXX}" "clang|${HALFSPIN_CLANG}|${HALFSPIN_CLANGXX}")
 foreach(pair IN LISTS _halfspin_c_pairs)
   string(REPLACE "|" ";" pair "${pair}")
   list(GET pair 0 name)
